@@ -1,0 +1,91 @@
+import type { Command } from 'commander';
+import { statSync } from 'node:fs';
+import { readTranscriptFile } from '../ingest/read.js';
+import { warmUp } from '../text/pool.js';
+import { importTranscripts, type ImportItem } from '../study/import.js';
+import { collect, defaultCoder, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { plural, printJson, say, table, warn } from './output.js';
+import { progressBar } from './progress.js';
+
+interface AddOpts extends StudyOpts {
+  replace?: boolean;
+  interviewer?: string[];
+  coder?: string;
+  idColumn?: string;
+  textColumn?: string;
+  questionColumn?: string;
+}
+
+export function registerAdd(program: Command): void {
+  studyCommand(program, 'add', 'import transcripts (.txt .md .docx .vtt .srt .csv); all files go in, or none')
+    .argument('<files...>', 'transcript files')
+    .option('--replace', 'replace a transcript of the same name whose file has changed')
+    .option('--interviewer <name>', 'a speaker label that is the interviewer (repeatable)', collect)
+    .option('--coder <name>', 'who wrote the inline {theme: ...} codes in these files', defaultCoder())
+    .option('--id-column <name>', 'survey .csv: the respondent id column')
+    .option('--text-column <name>', 'survey .csv: the answer text column')
+    .option('--question-column <name>', 'survey .csv: the question column')
+    .addHelpText(
+      'after',
+      `
+Speakers: "Name:" at the start of a line or cue, **Name:** in Markdown, <v Name> in WebVTT.
+Interviewer, Int, I, Q, Moderator, Facilitator and Researcher are taken as the interviewer;
+everyone else as a participant (override with --interviewer). A plain text file with no
+speaker labels is split on blank lines, each paragraph a participant passage.
+
+Examples:
+  trellis add interviews/*.txt interviews/*.docx
+  trellis add focus-group.vtt --interviewer "Dr Shah"
+  trellis add survey.csv --id-column resp --text-column q3_answer`,
+    )
+    .action(async (files: string[], opts: AddOpts) => {
+      // Large imports: start the analysis threads while the files are being read.
+      if (files.reduce((n, f) => n + sizeOf(f), 0) > 1_000_000) warmUp();
+      const items: ImportItem[] = [];
+      const readBar = progressBar(files.length, 'reading  ');
+      for (const [i, file] of files.entries()) {
+        const { transcripts, hash } = await readTranscriptFile(file, {
+          idColumn: opts.idColumn,
+          textColumn: opts.textColumn,
+          questionColumn: opts.questionColumn,
+        });
+        items.push({ file, hash, transcripts });
+        readBar.tick(i + 1);
+      }
+      readBar.stop();
+      const total = items.reduce((n, it) => n + it.transcripts.length, 0);
+      const bar = progressBar(total, 'importing');
+      const report = await withStudy(opts, (db) =>
+        importTranscripts(db, items, {
+          replace: opts.replace,
+          interviewers: opts.interviewer,
+          coder: opts.coder ?? defaultCoder(),
+          onProgress: (done) => bar.tick(done),
+        }),
+      );
+      bar.stop();
+      if (opts.json) return printJson(report);
+      for (const w of report.warnings) warn(w);
+      if (report.added.length) {
+        say(
+          table(
+            ['transcript', 'file', 'passages', 'participant', 'interviewer', 'words'],
+            report.added.map((a) => [a.name + (a.replaced ? ' (replaced)' : ''), a.file, a.passages, a.participant, a.interviewer, a.words]),
+          ),
+        );
+      }
+      for (const u of report.unchanged) say(`${u.file}: "${u.name}" is already in the study, unchanged; nothing to do`);
+      say(`Added ${plural(report.added.length, 'transcript')} (${plural(report.words, 'word')}).`);
+      if (report.inlineCodings) say(`Recorded ${plural(report.inlineCodings, 'inline coding')}.`);
+      if (report.keptCodings || report.droppedCodings)
+        say(`Replacing kept ${plural(report.keptCodings, 'coding')} whose passage did not change; ${report.droppedCodings} dropped.`);
+    });
+}
+
+function sizeOf(file: string): number {
+  try {
+    return statSync(file).size;
+  } catch {
+    return 0; // the reader reports a missing file properly
+  }
+}

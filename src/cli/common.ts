@@ -1,0 +1,54 @@
+import { Command, InvalidArgumentError } from 'commander';
+import { userInfo } from 'node:os';
+import { openStudy, type DB } from '../study/db.js';
+
+export interface StudyOpts {
+  study: string;
+  json?: boolean;
+}
+
+/** Adds the options every study command shares: --study DIR and --json. */
+export function studyCommand(program: Command, name: string, description: string): Command {
+  return program
+    .command(name)
+    .description(description)
+    .option('--study <dir>', 'the study folder', '.')
+    .option('--json', 'machine-readable output on stdout');
+}
+
+/** Opens the study, runs `work`, and always closes the database. */
+export async function withStudy<T>(opts: StudyOpts, work: (db: DB) => T | Promise<T>): Promise<T> {
+  const db = openStudy(opts.study);
+  try {
+    return await work(db);
+  } finally {
+    db.close();
+  }
+}
+
+/** The coder's name when none is given: $TRELLIS_CODER, else the login name. */
+export function defaultCoder(): string {
+  return process.env.TRELLIS_CODER || safeUser();
+}
+
+function safeUser(): string {
+  try {
+    return userInfo().username || 'unknown';
+  } catch {
+    return 'unknown';
+  }
+}
+
+/** Collects a repeatable option into a list. */
+export function collect(value: string, previous: string[] = []): string[] {
+  return [...previous, ...value.split(',').map((v) => v.trim()).filter(Boolean)];
+}
+
+/** Parses a positive whole number option, with a clear message. */
+export function positiveInt(name: string) {
+  return (v: string): number => {
+    const n = Number(v);
+    if (!Number.isInteger(n) || n < 1) throw new InvalidArgumentError(`${name} must be a whole number of at least 1 (got "${v}")`);
+    return n;
+  };
+}

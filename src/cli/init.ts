@@ -1,0 +1,24 @@
+import type { Command } from 'commander';
+import { resolve } from 'node:path';
+import { createStudy, DEFAULT_SETTINGS } from '../study/db.js';
+import { positiveInt } from './common.js';
+import { printJson, say } from './output.js';
+
+export function registerInit(program: Command): void {
+  program
+    .command('init [dir]')
+    .description('create a study: study.db and a starter template.txt in DIR (default: this folder)')
+    .option('--window <words>', 'longest passage in words before a turn is split at sentences', positiveInt('--window'), DEFAULT_SETTINGS.window)
+    .option('--json', 'machine-readable output on stdout')
+    .addHelpText('after', '\nExamples:\n  trellis init handover-study\n  trellis init --window 80')
+    .action((dir: string | undefined, opts: { window: number; json?: boolean }) => {
+      const root = resolve(dir ?? '.');
+      createStudy(root, { window: opts.window }).close();
+      if (opts.json) printJson({ study: root, window: opts.window });
+      else {
+        say(`Created a study in ${root}`);
+        say('Next: write your template in template.txt, then "trellis template set template.txt", and "trellis add FILE...".');
+        say('The study stays on this disk; trellis never sends anything over a network.');
+      }
+    });
+}

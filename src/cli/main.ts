@@ -1,0 +1,59 @@
+import { Command, CommanderError } from 'commander';
+import { UserError } from '../errors.js';
+import { registerAdd } from './add.js';
+import { registerInit } from './init.js';
+import { registerSheet } from './sheet.js';
+import { registerStatus } from './status.js';
+import { registerTemplate } from './template.js';
+
+export const CAUTIONS = `
+Your data: trellis never opens a network connection; the study (study.db and template.txt)
+stays in its folder on your disk. Suggestions are aids: the researcher decides every coding.
+Ethics approval, consent, de-identification and data-protection duties remain with the
+research team, under their institution's rules.`;
+
+export function buildProgram(): Command {
+  const program = new Command('trellis')
+    .description('Apply a template of themes to new interview transcripts: import, code, and keep an audit trail.')
+    .version('0.1.0')
+    .showHelpAfterError('(run with --help for usage)')
+    .addHelpText(
+      'after',
+      `
+Examples:
+  trellis init my-study                      create a study folder
+  trellis add --study my-study interviews/*.txt
+  trellis template set --study my-study template.txt
+  trellis sheet export --study my-study --out sheet.csv
+  trellis sheet import --study my-study sheet.csv --coder alex
+  trellis status --study my-study
+${CAUTIONS}`,
+    );
+  registerInit(program);
+  registerAdd(program);
+  registerTemplate(program);
+  registerSheet(program);
+  registerStatus(program);
+  return program;
+}
+
+/** Runs the CLI; exit status 0 success, 1 user error, 2 internal error. */
+export async function main(argv: string[]): Promise<number> {
+  const program = buildProgram();
+  program.exitOverride();
+  try {
+    await program.parseAsync(argv);
+    return 0;
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      // Help and version are "errors" to commander; a usage mistake is the user's.
+      return e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.exitCode === 0 ? 0 : 1;
+    }
+    if (e instanceof UserError) {
+      process.stderr.write(`trellis: ${e.describe()}\n`);
+      return 1;
+    }
+    process.stderr.write(`trellis: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
+    return 2;
+  }
+}

@@ -1,0 +1,28 @@
+/** Printing helpers shared by the commands: human text by default, JSON for scripts. */
+
+export function printJson(value: unknown): void {
+  process.stdout.write(JSON.stringify(value, null, 2) + '\n');
+}
+
+export function say(line = ''): void {
+  process.stdout.write(line + '\n');
+}
+
+/** Notices go to stderr so that --json output on stdout stays machine-readable. */
+export function warn(line: string): void {
+  process.stderr.write(`warning: ${line}\n`);
+}
+
+/** A plain-text table: columns padded, numbers right-aligned. Readable without colour. */
+export function table(header: string[], rows: (string | number)[][]): string {
+  const cells = [header, ...rows.map((r) => r.map(String))];
+  const widths = header.map((_, c) => Math.max(...cells.map((r) => (r[c] ?? '').length)));
+  const numeric = header.map((_, c) => rows.length > 0 && rows.every((r) => typeof r[c] === 'number'));
+  const fmt = (r: string[]) =>
+    r.map((v, c) => (numeric[c] ? v.padStart(widths[c]!) : v.padEnd(widths[c]!))).join('  ').trimEnd();
+  return [fmt(header), widths.map((w) => '-'.repeat(w)).join('  '), ...cells.slice(1).map(fmt)].join('\n');
+}
+
+export function plural(n: number, word: string, many = word + 's'): string {
+  return `${n} ${n === 1 ? word : many}`;
+}

@@ -1,0 +1,65 @@
+import type { Command } from 'commander';
+import { readFileSync, writeFileSync } from 'node:fs';
+import { UserError } from '../errors.js';
+import { decodeText } from '../ingest/decode.js';
+import { parseSheet, writeSheet } from '../sheet/sheet.js';
+import { importSheet, sheetRows } from '../study/sheet.js';
+import { requireTranscripts } from '../study/transcripts.js';
+import { collect, withStudy, type StudyOpts } from './common.js';
+import { plural, printJson, say } from './output.js';
+
+export function registerSheet(program: Command): void {
+  const sheet = program
+    .command('sheet')
+    .description('coding sheets: export passages to a spreadsheet, code them, import the codes back')
+    .addHelpText(
+      'after',
+      `
+The "themes" column takes theme paths separated by ";" with levels separated by " > ",
+e.g. "Workload > Staffing levels; Patient safety". A bare theme name is accepted where it
+is unique in the template. Import is all or nothing: any unknown theme or passage stops it.`,
+    );
+
+  sheet
+    .command('export')
+    .description('write a coding sheet (CSV, UTF-8) with one row a passage')
+    .requiredOption('--out <file>', 'the CSV file to write')
+    .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
+    .option('--coder <name>', "fill the themes column with this coder's current codings")
+    .option('--study <dir>', 'the study folder', '.')
+    .option('--json', 'machine-readable output on stdout')
+    .addHelpText('after', '\nExamples:\n  trellis sheet export --transcript t01 --transcript t02 --out batch1.csv\n  trellis sheet export --coder alex --out alex-codes.csv')
+    .action(async (opts: StudyOpts & { out: string; transcript?: string[]; coder?: string }) => {
+      const rows = await withStudy(opts, (db) => {
+        requireTranscripts(db, opts.transcript);
+        return sheetRows(db, { transcripts: opts.transcript, coder: opts.coder });
+      });
+      writeFileSync(opts.out, writeSheet(rows));
+      if (opts.json) printJson({ out: opts.out, rows: rows.length });
+      else say(`Wrote ${plural(rows.length, 'passage')} to ${opts.out}. Code the "themes" column, then: trellis sheet import ${opts.out} --coder NAME`);
+    });
+
+  sheet
+    .command('import <file>')
+    .description("read a coded sheet's themes column: it becomes this coder's codings of those passages")
+    .requiredOption('--coder <name>', 'who coded the sheet')
+    .option('--study <dir>', 'the study folder', '.')
+    .option('--json', 'machine-readable output on stdout')
+    .addHelpText('after', '\nExample:\n  trellis sheet import batch1.csv --coder alex')
+    .action(async (file: string, opts: StudyOpts & { coder: string }) => {
+      let bytes: Buffer;
+      try {
+        bytes = readFileSync(file);
+      } catch {
+        throw new UserError('cannot read the file', file);
+      }
+      const rows = parseSheet(decodeText(bytes, file).text, file);
+      const report = await withStudy(opts, (db) => importSheet(db, rows, file, opts.coder));
+      if (opts.json) printJson(report);
+      else
+        say(
+          `Imported ${plural(report.rows, 'row')} for ${opts.coder}: ${plural(report.coded, 'passage')} coded, ` +
+            `${plural(report.added, 'coding')} added, ${report.removed} removed.`,
+        );
+    });
+}

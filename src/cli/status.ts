@@ -1,0 +1,49 @@
+import type { Command } from 'commander';
+import { walk } from '../template/paths.js';
+import { studyStatus } from '../study/status.js';
+import { currentTemplate } from '../study/template.js';
+import { studyCommand, withStudy, type StudyOpts } from './common.js';
+import { printJson, say, table } from './output.js';
+
+export function registerStatus(program: Command): void {
+  studyCommand(program, 'status', 'where the study stands: transcripts, passages, coding progress, template')
+    .addHelpText('after', '\nExamples:\n  trellis status\n  trellis status --study handover --json')
+    .action(async (opts: StudyOpts) => {
+      await withStudy(opts, (db) => {
+        const s = studyStatus(db);
+        const t = currentTemplate(db);
+        const names = new Map([...walk(t)].map((e) => [e.node.id, { path: e.path, number: e.number, depth: e.depth }]));
+        if (opts.json) {
+          return printJson({
+            ...s,
+            perTheme: s.perTheme.map((c) => ({ ...c, path: names.get(c.id)?.path, number: names.get(c.id)?.number })),
+          });
+        }
+        const pct = s.passages.participant ? Math.round((100 * s.coded) / s.passages.participant) : 0;
+        say(`Transcripts: ${s.transcripts}`);
+        say(`Passages:    ${s.passages.total} (${s.passages.participant} participant, ${s.passages.interviewer} interviewer)`);
+        say(`Coded:       ${s.coded} of ${s.passages.participant} participant passages (${pct}%); ${s.uncoded} uncoded`);
+        say(`Template:    ${s.revision === null ? 'none yet' : `revision ${s.revision}, ${s.themes} themes`}`);
+        if (s.perTranscript.length) {
+          say('');
+          say(table(['transcript', 'passages', 'participant', 'coded'], s.perTranscript.map((r) => [r.name, r.passages, r.participant ?? 0, r.coded])));
+        }
+        if (s.perTheme.length) {
+          say('');
+          say(
+            table(
+              ['theme', 'passages', 'with sub-themes'],
+              s.perTheme.map((c) => {
+                const n = names.get(c.id)!;
+                return [`${'  '.repeat(n.depth)}${n.number} ${n.path.split(' > ').pop()}`, c.direct, c.total];
+              }),
+            ),
+          );
+        }
+        if (s.perCoder.length) {
+          say('');
+          say(table(['coder', 'codings', 'passages'], s.perCoder.map((c) => [c.coder, c.codings, c.passages])));
+        }
+      });
+    });
+}

@@ -1,0 +1,177 @@
+import type { Command } from 'commander';
+import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { UserError } from '../errors.js';
+import { decodeText } from '../ingest/decode.js';
+import { addTheme, mergeThemes, moveTheme, renameTheme, retireTheme, splitTheme } from '../template/ops.js';
+import { findByPath, splitPathList, walk } from '../template/paths.js';
+import type { Change, Revised, Template } from '../template/types.js';
+import { themeCounts } from '../study/status.js';
+import { reviseTemplate, setTemplate, type RevisionResult } from '../study/revise.js';
+import { currentRevision, revisionHistory } from '../study/template.js';
+import { defaultCoder, withStudy, type StudyOpts } from './common.js';
+import { printJson, say, warn } from './output.js';
+
+type Opts = StudyOpts & { reason?: string; coder?: string };
+
+function withCommon(cmd: Command): Command {
+  return cmd
+    .option('--study <dir>', 'the study folder', '.')
+    .option('--json', 'machine-readable output on stdout');
+}
+
+function revising(cmd: Command): Command {
+  return withCommon(cmd)
+    .option('--reason <text>', 'why: kept in the revision history (the audit trail)')
+    .option('--coder <name>', 'who made the change', defaultCoder());
+}
+
+export function describeChange(c: Change): string {
+  switch (c.kind) {
+    case 'added':
+      return `added    ${c.path}`;
+    case 'removed':
+      return `removed  ${c.path} (retired; its history is kept)`;
+    case 'renamed':
+      return `renamed  ${c.from} -> ${c.to}`;
+    case 'moved':
+      return `moved    ${c.from} -> ${c.to}`;
+    case 'merged':
+      return `merged   ${c.from} into ${c.to}`;
+    case 'split':
+      return `split    ${c.path} into ${c.into.join(', ')}`;
+    case 'retired':
+      return `retired  ${c.path}`;
+    case 'edited':
+      return `edited   ${c.path} (${c.fields.join(', ')})`;
+  }
+}
+
+function report(r: RevisionResult, json?: boolean): void {
+  if (json) return printJson({ revision: r.rev, changes: r.changes, warnings: r.warnings.map((w) => w.text) });
+  for (const w of r.warnings) warn(w.text);
+  if (r.rev === null) return say('The template is unchanged; no new revision.');
+  say(`Recorded template revision ${r.rev}${r.changes.length ? ':' : '.'}`);
+  if (r.changes.length > 8 && r.changes.every((c) => c.kind === 'added')) {
+    return say(`  added ${r.changes.length} themes (see: trellis template show)`);
+  }
+  for (const c of r.changes) say('  ' + describeChange(c));
+}
+
+/** Resolves a theme path in the current template, for the revision operations. */
+function theme(t: Template, path: string): string {
+  return findByPath(t, path).id;
+}
+
+export function registerTemplate(program: Command): void {
+  const tpl = program
+    .command('template')
+    .description('the hierarchical template of themes: set it from an outline, show it, revise it')
+    .addHelpText(
+      'after',
+      `
+Outline format (template.txt): one theme per line, sub-themes indented by two spaces,
+"#" starts a comment, a line ending in [a priori] marks an a priori theme. Notes go on
+lines indented one level deeper, starting with "| ": definition:, include:, exclude:,
+seeds: (comma-separated terms). See docs/template-format.md.
+
+Examples:
+  trellis template set template.txt --reason "after coding the first four interviews"
+  trellis template show
+  trellis template rename "Workload > Staffing" "Staffing levels" --reason "clearer"
+  trellis template move "Interruptions" --to "Workload"
+  trellis template merge "Workload > Overtime" "Workload > Staffing levels"
+  trellis template split "Patient safety > Information" --into "Information lost; Information gained"
+  trellis template retire "Team communication > Night staff"`,
+    );
+
+  withCommon(tpl.command('set <file>').description('record FILE as the new template revision (template.txt is kept equal to it)'))
+    .option('--reason <text>', 'why: kept in the revision history')
+    .option('--coder <name>', 'who made the change', defaultCoder())
+    .action(async (file: string, opts: Opts) => {
+      let bytes: Buffer;
+      try {
+        bytes = readFileSync(file);
+      } catch {
+        throw new UserError('cannot read the file', file);
+      }
+      const text = decodeText(bytes, file).text;
+      const r = await withStudy(opts, (db) => setTemplate(db, resolve(opts.study), text, file, opts.coder!, opts.reason));
+      report(r, opts.json);
+    });
+
+  withCommon(tpl.command('show').description('the numbered template (1, 1.1, 1.1.1) with passage counts')).action(async (opts: Opts) => {
+    await withStudy(opts, (db) => {
+      const rev = currentRevision(db);
+      if (!rev) {
+        if (opts.json) return printJson({ revision: null, themes: [] });
+        return say('No template yet: write one in template.txt and run "trellis template set template.txt".');
+      }
+      const counts = new Map(themeCounts(db, rev.template).map((c) => [c.id, c]));
+      if (opts.json) {
+        const tree = (nodes: Template['roots']): unknown[] =>
+          nodes.map((n) => ({
+            id: n.id,
+            name: n.name,
+            apriori: n.apriori,
+            definition: n.definition,
+            include: n.include,
+            exclude: n.exclude,
+            seeds: n.seeds,
+            passages: counts.get(n.id)?.direct ?? 0,
+            passages_with_subthemes: counts.get(n.id)?.total ?? 0,
+            children: tree(n.children),
+          }));
+        return printJson({ revision: rev.rev, themes: tree(rev.template.roots) });
+      }
+      say(`Template revision ${rev.rev} (${rev.created_at.slice(0, 16).replace('T', ' ')}, ${rev.action})`);
+      for (const e of walk(rev.template)) {
+        const c = counts.get(e.node.id)!;
+        const n = c.total === c.direct ? `${c.direct}` : `${c.direct}, ${c.total} with sub-themes`;
+        say(`${'  '.repeat(e.depth)}${e.number}  ${e.node.name}${e.node.apriori ? '  [a priori]' : ''}  (${n})`);
+      }
+    });
+  });
+
+  withCommon(tpl.command('history').description('every template revision: when, who, what changed and why')).action(async (opts: Opts) => {
+    await withStudy(opts, (db) => {
+      const revs = revisionHistory(db);
+      if (opts.json) return printJson({ revisions: revs.map(({ template: _t, outline: _o, ...r }) => r) });
+      if (!revs.length) return say('No template revisions yet.');
+      for (const r of revs) {
+        say(`revision ${r.rev}  ${r.created_at.slice(0, 16).replace('T', ' ')}  ${r.author}  ${r.action}${r.reason ? `  — ${r.reason}` : ''}`);
+        for (const c of r.changes) say('    ' + describeChange(c));
+      }
+    });
+  });
+
+  const op = (name: string, run: (t: Template, newId: () => string) => Revised) => (opts: Opts) =>
+    withStudy(opts, (db) => report(reviseTemplate(db, resolve(opts.study), name, run, opts.coder!, opts.reason), opts.json));
+
+  revising(tpl.command('rename <path> <new-name>').description('rename a theme (its id, codings and history stay)')).action(
+    (path: string, newName: string, opts: Opts) => op('rename', (t) => renameTheme(t, theme(t, path), newName))(opts),
+  );
+  revising(tpl.command('move <path>').description('move a theme (with its sub-themes) under another theme, or to the top level'))
+    .option('--to <parent>', 'the new parent theme')
+    .option('--top', 'make it a top-level theme')
+    .action((path: string, opts: Opts & { to?: string; top?: boolean }) => {
+      if (!opts.to === !opts.top) throw new UserError('say where to: --to PARENT or --top');
+      return op('move', (t) => moveTheme(t, theme(t, path), opts.top ? null : theme(t, opts.to!)))(opts);
+    });
+  revising(tpl.command('merge <source> <target>').description("merge SOURCE into TARGET: SOURCE's codings and sub-themes follow")).action(
+    (source: string, target: string, opts: Opts) => op('merge', (t) => mergeThemes(t, theme(t, source), theme(t, target)))(opts),
+  );
+  revising(tpl.command('split <path>').description('split a theme into new sibling themes; its passages need re-coding'))
+    .requiredOption('--into <names>', 'the new names, separated by ";"')
+    .action((path: string, opts: Opts & { into: string }) =>
+      op('split', (t, newId) => splitTheme(t, theme(t, path), splitPathList(opts.into), newId))(opts),
+    );
+  revising(tpl.command('retire <path>').description('retire a theme: out of the template, history kept; sub-themes move up')).action(
+    (path: string, opts: Opts) => op('retire', (t) => retireTheme(t, theme(t, path)))(opts),
+  );
+  revising(tpl.command('add <name>').description('add a theme (at the top level, or under --parent)'))
+    .option('--parent <path>', 'the parent theme')
+    .action((name: string, opts: Opts & { parent?: string }) =>
+      op('add', (t, newId) => addTheme(t, opts.parent ? theme(t, opts.parent) : null, name, newId))(opts),
+    );
+}

@@ -1,0 +1,69 @@
+import type { Role } from '../ingest/segment.js';
+import type { DB } from './db.js';
+
+export interface StoredPassage {
+  id: string;
+  transcript: string;
+  ordinal: number;
+  turn: number;
+  speaker: string | null;
+  role: Role;
+  question: string | null;
+  start: number | null;
+  end: number | null;
+  text: string;
+  words: number;
+}
+
+export interface PassageFilter {
+  transcripts?: string[];
+  role?: Role;
+}
+
+const COLS = `p.id, t.name AS transcript, p.ordinal, p.turn, p.speaker, p.role, p.question,
+  p.start_s AS start, p.end_s AS end, p.text, p.words`;
+
+export function listPassages(db: DB, f: PassageFilter = {}): StoredPassage[] {
+  const { where, args } = whereOf(f);
+  const sql = `SELECT ${COLS} FROM passages p JOIN transcripts t ON t.id = p.transcript_id
+    ${where} ORDER BY t.id, p.ordinal`;
+  return db.prepare(sql).all(...args) as StoredPassage[];
+}
+
+export function getPassage(db: DB, id: string): StoredPassage | undefined {
+  return db.prepare(`SELECT ${COLS} FROM passages p JOIN transcripts t ON t.id = p.transcript_id WHERE p.id = ?`).get(id) as
+    | StoredPassage
+    | undefined;
+}
+
+/** The stored analysis of passages, for the models: lemmas with stop flags. */
+export interface PassageTerms {
+  id: string;
+  lemmas: string[];
+  stops: Uint8Array;
+}
+
+export function passageTerms(db: DB, f: PassageFilter = {}): PassageTerms[] {
+  const { where, args } = whereOf(f);
+  const sql = `SELECT p.id, p.lemmas, p.stops FROM passages p JOIN transcripts t ON t.id = p.transcript_id
+    ${where} ORDER BY t.id, p.ordinal`;
+  return (db.prepare(sql).all(...args) as { id: string; lemmas: string; stops: Buffer }[]).map((r) => ({
+    id: r.id,
+    lemmas: r.lemmas ? r.lemmas.split(' ') : [],
+    stops: new Uint8Array(r.stops.buffer, r.stops.byteOffset, r.stops.byteLength),
+  }));
+}
+
+function whereOf(f: PassageFilter): { where: string; args: unknown[] } {
+  const parts: string[] = [];
+  const args: unknown[] = [];
+  if (f.transcripts?.length) {
+    parts.push(`t.name IN (${f.transcripts.map(() => '?').join(',')})`);
+    args.push(...f.transcripts);
+  }
+  if (f.role) {
+    parts.push('p.role = ?');
+    args.push(f.role);
+  }
+  return { where: parts.length ? 'WHERE ' + parts.join(' AND ') : '', args };
+}

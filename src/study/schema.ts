@@ -1,0 +1,80 @@
+/**
+ * Forward migrations of study.db. Migration N takes the schema from version N-1 to N; a study
+ * opened by a newer trellis is migrated in one transaction, and an older trellis refuses a study
+ * whose version it does not know.
+ */
+export const MIGRATIONS: string[] = [
+  // 1: transcripts, passages with their stored analysis, template revisions, codings.
+  `
+  CREATE TABLE meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
+
+  CREATE TABLE transcripts (
+    id        INTEGER PRIMARY KEY,
+    name      TEXT NOT NULL UNIQUE,
+    file      TEXT NOT NULL,
+    format    TEXT NOT NULL,
+    hash      TEXT NOT NULL,
+    source    TEXT NOT NULL,
+    labelled  INTEGER NOT NULL,
+    added_at  TEXT NOT NULL
+  );
+
+  CREATE TABLE passages (
+    id            TEXT PRIMARY KEY,
+    transcript_id INTEGER NOT NULL REFERENCES transcripts(id) ON DELETE CASCADE,
+    ordinal       INTEGER NOT NULL,
+    turn          INTEGER NOT NULL,
+    speaker       TEXT,
+    role          TEXT NOT NULL CHECK (role IN ('interviewer', 'participant')),
+    question      TEXT,
+    start_s       REAL,
+    end_s         REAL,
+    char_offset   INTEGER NOT NULL,
+    char_length   INTEGER NOT NULL,
+    text          TEXT NOT NULL,
+    words         INTEGER NOT NULL,
+    lemmas        TEXT NOT NULL,  -- space-joined lower-case lemmas of the word tokens
+    stops         BLOB NOT NULL,  -- one byte a token: 1 = stop word
+    spans         BLOB NOT NULL,  -- Int32 pairs: token start, end in text
+    UNIQUE (transcript_id, ordinal)
+  );
+
+  CREATE TABLE revisions (
+    rev        INTEGER PRIMARY KEY,
+    created_at TEXT NOT NULL,
+    author     TEXT NOT NULL,
+    action     TEXT NOT NULL,  -- 'set FILE', 'rename', 'move', ...
+    reason     TEXT,
+    outline    TEXT NOT NULL,  -- the outline text of this revision
+    tree       TEXT NOT NULL,  -- JSON Template with theme ids
+    changes    TEXT NOT NULL   -- JSON Change[] against the previous revision
+  );
+
+  -- Every theme that was ever in the template; retired ones keep their history.
+  CREATE TABLE themes (
+    id          TEXT PRIMARY KEY,
+    name        TEXT NOT NULL,
+    created_rev INTEGER NOT NULL REFERENCES revisions(rev),
+    retired_rev INTEGER REFERENCES revisions(rev),
+    merged_into TEXT REFERENCES themes(id)
+  );
+
+  CREATE TABLE codings (
+    id          INTEGER PRIMARY KEY,
+    passage_id  TEXT NOT NULL REFERENCES passages(id) ON DELETE CASCADE,
+    theme_id    TEXT NOT NULL REFERENCES themes(id),
+    coder       TEXT NOT NULL,
+    origin      TEXT NOT NULL,  -- 'sheet', 'inline', later 'accepted', 're-coded'
+    created_at  TEXT NOT NULL,
+    rev         INTEGER NOT NULL,
+    first_theme TEXT REFERENCES themes(id),  -- the theme first given, when a merge re-pointed it
+    removed_at  TEXT,
+    removed_by  TEXT
+  );
+  CREATE UNIQUE INDEX codings_current ON codings (passage_id, theme_id, coder) WHERE removed_at IS NULL;
+  CREATE INDEX codings_theme ON codings (theme_id);
+  CREATE INDEX passages_transcript ON passages (transcript_id, ordinal);
+  `,
+];
+
+export const SCHEMA_VERSION = MIGRATIONS.length;

@@ -1,0 +1,102 @@
+import { UserError } from '../errors.js';
+import { clock, type ImportedRow, type SheetRow } from '../sheet/sheet.js';
+import { findByPath, pathOf } from '../template/paths.js';
+import { codingSetter, currentCodings } from './codings.js';
+import type { DB } from './db.js';
+import { getPassage, listPassages } from './passages.js';
+import { currentRevision, currentTemplate } from './template.js';
+
+/** Rows for a coding sheet; with a coder, their current themes are filled in. */
+export function sheetRows(db: DB, opts: { transcripts?: string[]; coder?: string }): SheetRow[] {
+  const template = currentTemplate(db);
+  const byPassage = new Map<string, string[]>();
+  if (opts.coder) {
+    for (const c of currentCodings(db, opts.coder)) {
+      const path = safePath(template, c.theme_id);
+      if (path) byPassage.set(c.passage_id, [...(byPassage.get(c.passage_id) ?? []), path]);
+    }
+  }
+  return listPassages(db, { transcripts: opts.transcripts }).map((p) => ({
+    passage_id: p.id,
+    transcript: p.transcript,
+    speaker: p.speaker ?? '',
+    role: p.role,
+    time: clock(p.start),
+    text: p.text,
+    themes: byPassage.get(p.id) ?? [],
+  }));
+}
+
+function safePath(t: ReturnType<typeof currentTemplate>, id: string): string | null {
+  try {
+    return pathOf(t, id);
+  } catch {
+    return null; // a retired theme: not part of the current sheet
+  }
+}
+
+const squash = (s: string) => s.replace(/\s+/g, ' ').trim();
+
+export interface SheetImportReport {
+  rows: number;
+  coded: number;
+  added: number;
+  removed: number;
+}
+
+/**
+ * Applies a coding sheet for one coder, all or nothing: every row is checked first, and any
+ * problem (unknown passage or theme, changed text) stops the import with the rows named.
+ */
+export function importSheet(db: DB, rows: ImportedRow[], file: string, coder: string): SheetImportReport {
+  const rev = currentRevision(db);
+  const problems: string[] = [];
+  const resolved: { passageId: string; themeIds: string[] }[] = [];
+  const seen = new Map<string, number>();
+  for (const r of rows) {
+    if (!r.passageId) {
+      problems.push(`row ${r.row}: the passage_id cell is empty`);
+      continue;
+    }
+    const p = getPassage(db, r.passageId);
+    if (!p) {
+      problems.push(`row ${r.row}: unknown passage "${r.passageId}" (not in this study; was the sheet made from other files?)`);
+      continue;
+    }
+    if (seen.has(r.passageId)) problems.push(`row ${r.row}: passage "${r.passageId}" is also on row ${seen.get(r.passageId)}`);
+    seen.set(r.passageId, r.row);
+    if (r.text !== null && squash(r.text) !== squash(p.text)) {
+      problems.push(`row ${r.row}: the text of passage "${r.passageId}" no longer matches the study (was the transcript replaced, or the cell edited?)`);
+    }
+    const ids: string[] = [];
+    for (const path of r.themes) {
+      if (!rev) {
+        problems.push(`row ${r.row}: the study has no template yet: run "trellis template set FILE" first`);
+        break;
+      }
+      try {
+        ids.push(findByPath(rev.template, path).id);
+      } catch (e) {
+        if (!(e instanceof UserError)) throw e;
+        problems.push(`row ${r.row}: theme "${path}": ${e.message}`);
+      }
+    }
+    resolved.push({ passageId: r.passageId, themeIds: [...new Set(ids)] });
+  }
+  if (problems.length) {
+    const shown = problems.slice(0, 20);
+    if (problems.length > shown.length) shown.push(`... and ${problems.length - shown.length} more`);
+    throw new UserError(`nothing was imported; ${problems.length === 1 ? 'one problem' : problems.length + ' problems'}:\n  ${shown.join('\n  ')}`, file);
+  }
+  const report: SheetImportReport = { rows: rows.length, coded: 0, added: 0, removed: 0 };
+  db.transaction(() => {
+    const set = codingSetter(db);
+    for (const r of resolved) {
+      const { added, removed } = set(r.passageId, coder, r.themeIds, 'sheet', rev?.rev ?? 0);
+      report.added += added;
+      report.removed += removed;
+      if (r.themeIds.length) report.coded++;
+    }
+  })();
+  return report;
+}

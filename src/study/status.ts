@@ -1,0 +1,86 @@
+import { countThemes } from '../template/number.js';
+import type { Template } from '../template/types.js';
+import type { DB } from './db.js';
+import { currentRevision } from './template.js';
+
+export interface ThemeCount {
+  id: string;
+  /** Passages coded to this theme itself. */
+  direct: number;
+  /** Passages coded to it or any of its sub-themes (each passage once). */
+  total: number;
+}
+
+export interface StudyStatus {
+  transcripts: number;
+  passages: { total: number; participant: number; interviewer: number };
+  /** Participant passages with at least one current coding, and without. */
+  coded: number;
+  uncoded: number;
+  revision: number | null;
+  themes: number;
+  perTheme: ThemeCount[];
+  perCoder: { coder: string; codings: number; passages: number }[];
+  perTranscript: { name: string; passages: number; participant: number; coded: number }[];
+}
+
+export function studyStatus(db: DB): StudyStatus {
+  const one = <T>(sql: string) => db.prepare(sql).get() as T;
+  const rev = currentRevision(db);
+  const p = one<{ total: number; participant: number | null }>(
+    "SELECT COUNT(*) AS total, SUM(role = 'participant') AS participant FROM passages",
+  );
+  const participant = p.participant ?? 0;
+  const coded = one<{ n: number }>(
+    `SELECT COUNT(DISTINCT c.passage_id) AS n FROM codings c JOIN passages p ON p.id = c.passage_id
+     WHERE c.removed_at IS NULL AND p.role = 'participant'`,
+  ).n;
+  return {
+    transcripts: one<{ n: number }>('SELECT COUNT(*) AS n FROM transcripts').n,
+    passages: { total: p.total, participant, interviewer: p.total - participant },
+    coded,
+    uncoded: participant - coded,
+    revision: rev?.rev ?? null,
+    themes: rev ? countThemes(rev.template) : 0,
+    perTheme: rev ? themeCounts(db, rev.template) : [],
+    perCoder: db
+      .prepare(
+        `SELECT coder, COUNT(*) AS codings, COUNT(DISTINCT passage_id) AS passages FROM codings
+         WHERE removed_at IS NULL GROUP BY coder ORDER BY coder`,
+      )
+      .all() as StudyStatus['perCoder'],
+    perTranscript: db
+      .prepare(
+        `SELECT t.name, COUNT(p.id) AS passages, SUM(p.role = 'participant') AS participant,
+           (SELECT COUNT(DISTINCT c.passage_id) FROM codings c JOIN passages q ON q.id = c.passage_id
+             WHERE q.transcript_id = t.id AND c.removed_at IS NULL) AS coded
+         FROM transcripts t LEFT JOIN passages p ON p.transcript_id = t.id GROUP BY t.id ORDER BY t.id`,
+      )
+      .all() as StudyStatus['perTranscript'],
+  };
+}
+
+/** Passage counts per theme, direct and rolled up over sub-themes (a passage counts once). */
+export function themeCounts(db: DB, t: Template): ThemeCount[] {
+  const rows = db.prepare('SELECT DISTINCT theme_id, passage_id FROM codings WHERE removed_at IS NULL').all() as {
+    theme_id: string;
+    passage_id: string;
+  }[];
+  const byTheme = new Map<string, Set<string>>();
+  for (const r of rows) {
+    let s = byTheme.get(r.theme_id);
+    if (!s) byTheme.set(r.theme_id, (s = new Set()));
+    s.add(r.passage_id);
+  }
+  const out: ThemeCount[] = [];
+  const visit = (node: Template['roots'][number]): Set<string> => {
+    const all = new Set(byTheme.get(node.id) ?? []);
+    const slot = out.length;
+    out.push({ id: node.id, direct: all.size, total: 0 });
+    for (const c of node.children) for (const pid of visit(c)) all.add(pid);
+    out[slot]!.total = all.size;
+    return all;
+  };
+  t.roots.forEach(visit);
+  return out;
+}

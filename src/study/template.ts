@@ -1,0 +1,120 @@
+import type { Change, Template } from '../template/types.js';
+import type { DB } from './db.js';
+
+export interface Revision {
+  rev: number;
+  created_at: string;
+  author: string;
+  action: string;
+  reason: string | null;
+  outline: string;
+  template: Template;
+  changes: Change[];
+}
+
+interface RevisionRow {
+  rev: number;
+  created_at: string;
+  author: string;
+  action: string;
+  reason: string | null;
+  outline: string;
+  tree: string;
+  changes: string;
+}
+
+const EMPTY: Template = { roots: [] };
+
+function toRevision(r: RevisionRow): Revision {
+  return { ...r, template: JSON.parse(r.tree) as Template, changes: JSON.parse(r.changes) as Change[] };
+}
+
+/** The current revision, or null before the first `template set`. */
+export function currentRevision(db: DB): Revision | null {
+  const row = db.prepare('SELECT * FROM revisions ORDER BY rev DESC LIMIT 1').get() as RevisionRow | undefined;
+  return row ? toRevision(row) : null;
+}
+
+export function currentTemplate(db: DB): Template {
+  return currentRevision(db)?.template ?? EMPTY;
+}
+
+export function revisionHistory(db: DB): Revision[] {
+  return (db.prepare('SELECT * FROM revisions ORDER BY rev').all() as RevisionRow[]).map(toRevision);
+}
+
+/** Theme ids are T1, T2, ... in order of creation, never reused. */
+export function themeIdAllocator(db: DB): () => string {
+  const row = db.prepare("SELECT MAX(CAST(SUBSTR(id, 2) AS INTEGER)) AS n FROM themes WHERE id LIKE 'T%'").get() as {
+    n: number | null;
+  };
+  let n = row.n ?? 0;
+  return () => `T${++n}`;
+}
+
+export interface NewRevision {
+  template: Template;
+  changes: Change[];
+  outline: string;
+  action: string;
+  author: string;
+  reason?: string | null;
+}
+
+/**
+ * Records a revision and keeps the themes table and the codings in step with its changes:
+ * new themes get a row, removed ones are retired (history kept), a merge re-points codings.
+ * Call inside a transaction.
+ */
+export function recordRevision(db: DB, r: NewRevision): number {
+  const now = new Date().toISOString();
+  const rev = Number(
+    db
+      .prepare('INSERT INTO revisions (created_at, author, action, reason, outline, tree, changes) VALUES (?, ?, ?, ?, ?, ?, ?)')
+      .run(now, r.author, r.action, r.reason ?? null, r.outline, JSON.stringify(r.template), JSON.stringify(r.changes))
+      .lastInsertRowid,
+  );
+  const names = new Map<string, string>();
+  const collect = (nodes: Template['roots']) => nodes.forEach((n) => (names.set(n.id, n.name), collect(n.children)));
+  collect(r.template.roots);
+
+  const add = db.prepare('INSERT OR IGNORE INTO themes (id, name, created_rev) VALUES (?, ?, ?)');
+  const retire = db.prepare('UPDATE themes SET retired_rev = ? WHERE id = ? AND retired_rev IS NULL');
+  const rename = db.prepare('UPDATE themes SET name = ? WHERE id = ?');
+  const mergeTheme = db.prepare('UPDATE themes SET retired_rev = ?, merged_into = ? WHERE id = ?');
+  // A coding re-pointed by a merge remembers the theme it was first given.
+  const repoint = db.prepare(
+    `UPDATE codings SET first_theme = COALESCE(first_theme, theme_id), theme_id = ?
+     WHERE theme_id = ? AND removed_at IS NULL
+       AND NOT EXISTS (SELECT 1 FROM codings c2 WHERE c2.passage_id = codings.passage_id AND c2.coder = codings.coder
+                       AND c2.theme_id = ? AND c2.removed_at IS NULL)`,
+  );
+  const dropDup = db.prepare("UPDATE codings SET removed_at = ?, removed_by = 'merge' WHERE theme_id = ? AND removed_at IS NULL");
+
+  for (const c of r.changes) {
+    switch (c.kind) {
+      case 'added':
+        add.run(c.id, names.get(c.id) ?? c.path, rev);
+        break;
+      case 'removed':
+      case 'retired':
+      case 'split':
+        retire.run(rev, c.id);
+        break;
+      case 'merged':
+        mergeTheme.run(rev, c.into, c.id);
+        repoint.run(c.into, c.id, c.into);
+        dropDup.run(now, c.id); // the passage already carried the target theme
+        break;
+      case 'renamed':
+      case 'moved':
+      case 'edited':
+        break;
+    }
+  }
+  for (const [id, name] of names) {
+    add.run(id, name, rev);
+    rename.run(name, id);
+  }
+  return rev;
+}

@@ -1,0 +1,69 @@
+import type { Passage } from '../ingest/segment.js';
+import type { Transcript } from '../ingest/types.js';
+import { UserError } from '../errors.js';
+import type { DB } from './db.js';
+
+export interface TranscriptRow {
+  id: number;
+  name: string;
+  file: string;
+  format: string;
+  hash: string;
+  labelled: number;
+  added_at: string;
+}
+
+export function findTranscript(db: DB, name: string): TranscriptRow | undefined {
+  return db.prepare('SELECT id, name, file, format, hash, labelled, added_at FROM transcripts WHERE name = ?').get(name) as
+    | TranscriptRow
+    | undefined;
+}
+
+export function listTranscripts(db: DB): TranscriptRow[] {
+  return db.prepare('SELECT id, name, file, format, hash, labelled, added_at FROM transcripts ORDER BY id').all() as TranscriptRow[];
+}
+
+export function deleteTranscript(db: DB, id: number): void {
+  db.prepare('DELETE FROM transcripts WHERE id = ?').run(id);
+}
+
+/** Prepared statements for writing many transcripts and passages quickly in one transaction. */
+export function transcriptWriter(db: DB) {
+  const insT = db.prepare(
+    'INSERT INTO transcripts (name, file, format, hash, source, labelled, added_at) VALUES (?, ?, ?, ?, ?, ?, ?)',
+  );
+  const insP = db.prepare(
+    `INSERT INTO passages (id, transcript_id, ordinal, turn, speaker, role, question, start_s, end_s,
+       char_offset, char_length, text, words, lemmas, stops, spans)
+     VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+  );
+  const now = new Date().toISOString();
+  return (t: Transcript, file: string, hash: string, passages: Passage[]): number => {
+    const tid = Number(insT.run(t.name, file, t.format, hash, t.source, t.labelled ? 1 : 0, now).lastInsertRowid);
+    for (const p of passages) {
+      const a = p.analysis;
+      const spans = new Int32Array(a.starts.length * 2);
+      for (let i = 0; i < a.starts.length; i++) {
+        spans[2 * i] = a.starts[i]!;
+        spans[2 * i + 1] = a.ends[i]!;
+      }
+      insP.run(
+        p.id, tid, p.ordinal, p.turn, p.speaker, p.role, p.question, p.start, p.end, p.offset, p.length, p.text, p.words,
+        a.lemmas.join(' '), Buffer.from(a.stop.buffer, a.stop.byteOffset, a.stop.byteLength),
+        Buffer.from(spans.buffer, spans.byteOffset, spans.byteLength),
+      );
+    }
+    return tid;
+  };
+}
+
+/** Checks that every named transcript exists, so a typo is an error rather than an empty result. */
+export function requireTranscripts(db: DB, names?: string[]): void {
+  if (!names?.length) return;
+  const known = new Set(listTranscripts(db).map((t) => t.name));
+  const missing = names.filter((n) => !known.has(n));
+  if (missing.length) {
+    const list = [...known].slice(0, 8).join(', ');
+    throw new UserError(`no transcript named ${missing.map((m) => `"${m}"`).join(', ')} in this study (it has: ${list}${known.size > 8 ? ', ...' : ''})`);
+  }
+}

@@ -1,0 +1,65 @@
+import { describe, expect, test } from 'vitest';
+import { readTranscriptBytes } from '../../src/ingest/read.js';
+import { UserError } from '../../src/errors.js';
+import { fixture } from '../helpers/fixtures.js';
+
+async function srt(text: string | Buffer, name = 'cues.srt') {
+  const ts = await readTranscriptBytes(typeof text === 'string' ? Buffer.from(text) : text, name);
+  expect(ts).toHaveLength(1);
+  return ts[0]!;
+}
+
+async function fails(text: string, name = 'bad.srt'): Promise<UserError> {
+  const err = await readTranscriptBytes(Buffer.from(text), name).catch((e) => e);
+  expect(err).toBeInstanceOf(UserError);
+  return err as UserError;
+}
+
+describe('.srt', () => {
+  test('numbered cues, speakers from "Name:", dialogue dashes, tags stripped, merge', async () => {
+    const t = await srt(fixture('depot-captions.srt'), 'depot-captions.srt');
+    expect(t.format).toBe('srt');
+    expect(t.name).toBe('depot-captions');
+    expect(t.labelled).toBe(true);
+    expect(t.turns.map((x) => [x.speaker, x.start, x.end, x.text])).toEqual([
+      ['MODERATOR', 1, 6, "Welcome, everyone. Let's start with introductions."],
+      ['DEV', 6.2, 9, 'I drive the early route.'],
+      [null, 9.1, 11, 'Same here.'],
+      [null, 9.1, 11, 'I do nights.'],
+      ['MODERATOR', 11.5, 14.25, 'Thanks.'],
+    ]);
+    expect(t.turns[4]!.codes).toEqual([{ paths: ['Shift patterns'], at: 7 }]);
+    const first = t.turns[0]!;
+    expect(t.source.slice(first.offset, first.offset + first.length)).toBe("MODERATOR: Welcome, everyone.\n\n2\n00:00:03,600 --> 00:00:06,000\nLet's start with introductions.");
+  });
+
+  test('cues with no speaker run on as one turn; positioning codes removed', async () => {
+    const t = await srt('1\n00:00:01,000 --> 00:00:02,000\n{\\an8}<font color="#ffff00">The lift</font> was broken\n\n2\n00:00:02,500 --> 00:00:04,000\nagain.\n');
+    expect(t.labelled).toBe(false);
+    expect(t.turns.map((x) => [x.speaker, x.start, x.end, x.text])).toEqual([[null, 1, 4, 'The lift was broken again.']]);
+  });
+
+  test('CRLF, a BOM and a full stop before the milliseconds are accepted', async () => {
+    const t = await srt('\ufeff1\r\n00:00:01.5 --> 00:00:02,250\r\nANNA: Yes.\r\n');
+    expect(t.turns.map((x) => [x.speaker, x.start, x.end, x.text])).toEqual([['ANNA', 1.5, 2.25, 'Yes.']]);
+  });
+
+  test('a broken timing line is an error naming its line', async () => {
+    const e = await fails('1\n00:00:01,000 --> 00:00:02,000\nFine\n\n2\n00:00:02,000 --> 00:00:0x,000\nBroken\n', 'p9.srt');
+    expect(e.describe()).toMatch(/^p9\.srt:6: broken cue timing "00:00:02,000 --> 00:00:0x,000"/);
+    expect((await fails('1\n00:00:01,000 --> 00:00:02,000\nFine\n\n2\n00:00:03,000 00:00:04,000\nNo arrow\n')).line).toBe(6);
+    expect((await fails('1\n00:00:01,000 --> 00:00:02,000\nFine\n\n2\nJust text\n')).line).toBe(6);
+  });
+
+  test('text that is not SubRip is refused', async () => {
+    const e = await fails('Interviewer: this was saved with the wrong extension\n', 'wrong.srt');
+    expect(e.line).toBe(1);
+    expect(e.message).toMatch(/not a SubRip file/);
+  });
+
+  test('text after a blank line inside a cue is kept with a warning', async () => {
+    const t = await srt('1\n00:00:01,000 --> 00:00:02,000\nBEA: First\n\nand more\n', 'gap.srt');
+    expect(t.turns.map((x) => x.text)).toEqual(['First and more']);
+    expect(t.warnings).toEqual(['gap.srt:5: text after a blank line was joined to the cue before it']);
+  });
+});
