@@ -55,3 +55,46 @@ export function writeBrownTexts(dir) {
 export function brownFiles() {
   return readdirSync(BROWN_DIR).filter((f) => /^c[a-r]\d\d$/.test(f));
 }
+
+/** The benchmark template: Brown's two super-categories with its 15 genre categories as leaves. */
+export const INFORMATIVE = ['news', 'editorial', 'reviews', 'religion', 'hobbies', 'lore', 'belles_lettres', 'government', 'learned'];
+export const IMAGINATIVE = ['fiction', 'mystery', 'science_fiction', 'adventure', 'romance', 'humor'];
+export const LEAVES = [...INFORMATIVE, ...IMAGINATIVE];
+export const leafPath = (cat) => `${INFORMATIVE.includes(cat) ? 'Informative' : 'Imaginative'} > ${cat}`;
+
+export function brownTemplate(leaves = LEAVES) {
+  const block = (name, cats) => [name, ...cats.filter((c) => leaves.includes(c)).map((c) => `  ${c}`)];
+  return [...block('Informative', INFORMATIVE), ...block('Imaginative', IMAGINATIVE)].join('\n') + '\n';
+}
+
+/** A small seeded generator (mulberry32), so the split is the same on every machine. */
+export function rng(seed) {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** A seeded share of the samples of each category: the coded batch. */
+export function seededBatch(share = 0.25, seed = 1) {
+  const byCat = new Map();
+  for (const [file, cat] of brownCategories()) byCat.set(cat, [...(byCat.get(cat) ?? []), file]);
+  const next = rng(seed);
+  const batch = new Set();
+  for (const [, files] of [...byCat].sort()) {
+    const order = files.slice().sort();
+    for (let i = order.length - 1; i > 0; i--) {
+      const j = Math.floor(next() * (i + 1));
+      [order[i], order[j]] = [order[j], order[i]];
+    }
+    for (const f of order.slice(0, Math.max(1, Math.round(share * order.length)))) batch.add(f);
+  }
+  return batch;
+}
+
+/** Words as the protocol counts them: whitespace-separated tokens with a letter in them. */
+export const wordCount = (text) => text.split(/\s+/).filter((w) => /\p{L}/u.test(w)).length;

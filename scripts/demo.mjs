@@ -34,4 +34,8 @@ const sheet = join(corpus, 'initial-coding.csv');
 if (existsSync(sheet)) await trellis('sheet', 'import', '--study', rel(study), rel(sheet), '--coder', 'priya');
 await trellis('status', '--study', rel(study));
 await trellis('template', 'show', '--study', rel(study));
+
+console.log('\nNow trellis learns a profile for every theme from the coded batch, and suggests themes');
+console.log('for a later interview, with confidence and reasons. Suggestions are aids: the researcher decides.');
+await trellis('suggest', '--study', rel(study), '--transcript', 't09-harbour-junior-sister');
 console.log(`\nThe demo study is in ${study}. Try: node bin/trellis status --study ${rel(study)}`);

@@ -52,3 +52,12 @@ export function positiveInt(name: string) {
     return n;
   };
 }
+
+/** Parses an option that must be a probability in (0, 1]. */
+export function probability(name: string) {
+  return (v: string): number => {
+    const n = Number(v);
+    if (!Number.isFinite(n) || n <= 0 || n > 1) throw new InvalidArgumentError(`${name} must be a number above 0 and at most 1 (got "${v}")`);
+    return n;
+  };
+}

@@ -4,6 +4,10 @@ import { registerAdd } from './add.js';
 import { registerInit } from './init.js';
 import { registerSheet } from './sheet.js';
 import { registerStatus } from './status.js';
+import { registerSuggest } from './suggest.js';
+import { registerProfile } from './profile.js';
+import { registerDecide } from './decide.js';
+import { registerLog } from './log.js';
 import { registerTemplate } from './template.js';
 
 export const CAUTIONS = `
@@ -34,11 +38,20 @@ ${CAUTIONS}`,
   registerTemplate(program);
   registerSheet(program);
   registerStatus(program);
+  registerSuggest(program);
+  registerProfile(program);
+  registerDecide(program);
+  registerLog(program);
   return program;
 }
 
 /** Runs the CLI; exit status 0 success, 1 user error, 2 internal error. */
 export async function main(argv: string[]): Promise<number> {
+  // Output piped into a pager or `head` that stops reading is not an error.
+  process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code === 'EPIPE') process.exit(0);
+    throw e;
+  });
   const program = buildProgram();
   program.exitOverride();
   try {

@@ -96,6 +96,8 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
     const restore = db.prepare(
       'INSERT INTO codings (passage_id, theme_id, coder, origin, created_at, rev) SELECT ?, ?, ?, ?, ?, ? WHERE EXISTS (SELECT 1 FROM passages WHERE id = ? AND text = ?)',
     );
+    // Suggestions made for the old text no longer apply.
+    const dropSuggestions = db.prepare('DELETE FROM suggestions WHERE passage_id IN (SELECT id FROM passages WHERE transcript_id = ?)');
     const analyses = new Array<TextAnalysis>(texts.length);
     let next = 0; // next transcript to write
     const flush = (upTo: number) => {
@@ -106,6 +108,7 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
         let kept: ReturnType<typeof keep.all> = [];
         if (replaces !== null) {
           kept = keep.all(replaces);
+          dropSuggestions.run(replaces);
           deleteTranscript(db, replaces);
         }
         write(t, file, hash, passages);
@@ -114,7 +117,7 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
           if (r.changes) report.keptCodings++;
           else report.droppedCodings++;
         }
-        report.inlineCodings += writeInlineCodes(t, file, passages, rev, opts.coder, addCoding);
+        report.inlineCodings += writeInlineCodes(db, t, file, passages, rev, opts.coder, addCoding);
         const participant = passages.filter((p) => p.role === 'participant').length;
         const words = passages.reduce((n, p) => n + p.words, 0);
         report.words += words;
@@ -133,6 +136,7 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
 }
 
 function writeInlineCodes(
+  db: DB,
   t: Transcript,
   file: string,
   passages: Passage[],
@@ -141,6 +145,11 @@ function writeInlineCodes(
   add: ReturnType<typeof codingAdder>,
 ): number {
   let n = 0;
+  // A coder who coded inline read the whole transcript: every passage counts as seen by them.
+  if (passages.some((p) => p.codes.length)) {
+    const seen = db.prepare('INSERT OR IGNORE INTO seen (coder, passage_id) VALUES (?, ?)');
+    for (const p of passages) seen.run(coder, p.id);
+  }
   for (const p of passages) {
     if (!p.codes.length) continue;
     const line = lineAt(t.source, p.offset);

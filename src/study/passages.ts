@@ -30,10 +30,12 @@ export function listPassages(db: DB, f: PassageFilter = {}): StoredPassage[] {
   return db.prepare(sql).all(...args) as StoredPassage[];
 }
 
+const byId = new WeakMap<DB, ReturnType<DB['prepare']>>();
+
 export function getPassage(db: DB, id: string): StoredPassage | undefined {
-  return db.prepare(`SELECT ${COLS} FROM passages p JOIN transcripts t ON t.id = p.transcript_id WHERE p.id = ?`).get(id) as
-    | StoredPassage
-    | undefined;
+  let stmt = byId.get(db);
+  if (!stmt) byId.set(db, (stmt = db.prepare(`SELECT ${COLS} FROM passages p JOIN transcripts t ON t.id = p.transcript_id WHERE p.id = ?`)));
+  return stmt.get(id) as StoredPassage | undefined;
 }
 
 /** The stored analysis of passages, for the models: lemmas with stop flags. */
@@ -66,4 +68,17 @@ function whereOf(f: PassageFilter): { where: string; args: unknown[] } {
     args.push(f.role);
   }
   return { where: parts.length ? 'WHERE ' + parts.join(' AND ') : '', args };
+}
+
+/** Text, lemmas and token spans of some passages, for showing matched terms in place. */
+export function passageTokens(db: DB, ids: string[]): Map<string, { text: string; lemmas: string[]; spans: Int32Array }> {
+  const get = db.prepare('SELECT text, lemmas, spans FROM passages WHERE id = ?');
+  const out = new Map<string, { text: string; lemmas: string[]; spans: Int32Array }>();
+  for (const id of ids) {
+    const r = get.get(id) as { text: string; lemmas: string; spans: Buffer } | undefined;
+    if (!r) continue;
+    const copy = new Uint8Array(r.spans); // a fresh, aligned buffer for the Int32Array view
+    out.set(id, { text: r.text, lemmas: r.lemmas ? r.lemmas.split(' ') : [], spans: new Int32Array(copy.buffer) });
+  }
+  return out;
 }

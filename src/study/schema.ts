@@ -75,6 +75,70 @@ export const MIGRATIONS: string[] = [
   CREATE INDEX codings_theme ON codings (theme_id);
   CREATE INDEX passages_transcript ON passages (transcript_id, ordinal);
   `,
+  // 2: suggestion runs and their ranked candidates.
+  `
+  CREATE TABLE suggestion_runs (
+    id          INTEGER PRIMARY KEY,
+    created_at  TEXT NOT NULL,
+    rev         INTEGER NOT NULL REFERENCES revisions(rev),
+    fingerprint TEXT NOT NULL,  -- hash of the fitted model state: same study, same fingerprint
+    options     TEXT NOT NULL,  -- JSON: target precision and model options
+    passages    INTEGER NOT NULL,
+    unclaimed   INTEGER NOT NULL
+  );
+
+  -- No foreign keys here: a run writes hundreds of thousands of rows, and checking each costs
+  -- twice the insert; the rows are made from the study's own passages and themes.
+  CREATE TABLE suggestions (
+    id          INTEGER PRIMARY KEY,
+    run_id      INTEGER NOT NULL,
+    passage_id  TEXT NOT NULL,
+    theme_id    TEXT NOT NULL,
+    rank        INTEGER NOT NULL,  -- 1 = best
+    confidence  REAL NOT NULL,
+    above       INTEGER NOT NULL,  -- above the theme's threshold
+    chosen      INTEGER NOT NULL,  -- kept after the hierarchy rule
+    reasons     TEXT NOT NULL      -- JSON Reason[]
+  );
+  CREATE INDEX suggestions_passage ON suggestions (passage_id);
+  `,
+  // 3: the decision log (append-only), codings made by decisions, and who looked at what.
+  `
+  CREATE TABLE decisions (
+    id            INTEGER PRIMARY KEY,
+    at            TEXT NOT NULL,
+    coder         TEXT NOT NULL,
+    action        TEXT NOT NULL CHECK (action IN ('accept', 'reject', 'recode', 'defer', 'undo')),
+    suggestion_id INTEGER,  -- no foreign key: the entry keeps its own copy of what was suggested
+    passage_id    TEXT,
+    transcript    TEXT,
+    theme_id      TEXT,   -- the theme suggested
+    confidence    REAL,
+    rank          INTEGER,
+    chosen_theme  TEXT,   -- the theme coded: the suggested one (accept) or another (recode)
+    note          TEXT,
+    rev           INTEGER,
+    fingerprint   TEXT,
+    bulk          INTEGER NOT NULL DEFAULT 0,
+    undoes        INTEGER REFERENCES decisions(id)
+  );
+  CREATE INDEX decisions_passage ON decisions (passage_id);
+  CREATE INDEX decisions_suggestion ON decisions (suggestion_id);
+  CREATE TRIGGER decisions_append_only_update BEFORE UPDATE ON decisions
+    BEGIN SELECT RAISE(ABORT, 'the decision log is append-only'); END;
+  CREATE TRIGGER decisions_append_only_delete BEFORE DELETE ON decisions
+    BEGIN SELECT RAISE(ABORT, 'the decision log is append-only'); END;
+
+  ALTER TABLE codings ADD COLUMN decision_id INTEGER REFERENCES decisions(id);
+
+  -- A coder looked at this passage (a sheet row, a decision): for agreement, "not coded" is
+  -- then a judgement, not a gap.
+  CREATE TABLE seen (
+    coder      TEXT NOT NULL,
+    passage_id TEXT NOT NULL,
+    PRIMARY KEY (coder, passage_id)
+  ) WITHOUT ROWID;
+  `,
 ];
 
 export const SCHEMA_VERSION = MIGRATIONS.length;

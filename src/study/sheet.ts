@@ -91,7 +91,9 @@ export function importSheet(db: DB, rows: ImportedRow[], file: string, coder: st
   const report: SheetImportReport = { rows: rows.length, coded: 0, added: 0, removed: 0 };
   db.transaction(() => {
     const set = codingSetter(db);
+    const seen = db.prepare('INSERT OR IGNORE INTO seen (coder, passage_id) VALUES (?, ?)');
     for (const r of resolved) {
+      seen.run(coder, r.passageId);
       const { added, removed } = set(r.passageId, coder, r.themeIds, 'sheet', rev?.rev ?? 0);
       report.added += added;
       report.removed += removed;

@@ -9,7 +9,10 @@ export const SPOKEN_FILLERS: readonly string[] = [
   'ok', 'okay', 'oh', 'well', 'like', 'just', 'really', 'actually', 'basically', 'literally',
   'kind', 'sort', 'thing', 'stuff', 'know', 'mean', 'guess', 'suppose', 'right', 'so', 'gonna',
   'wanna', 'gotta', 'lot', 'bit', 'quite', 'pretty', 'get', 'go', 'do', 'say', 'think', 'would',
-  'could', 'should', 'can', 'will', 'might', 'must', 'not', 'n\'t', 'yeah', 'one', 'thing',
+  'could', 'should', 'can', 'will', 'might', 'must', 'not', 'n\'t', 'one',
+  // Pronouns and auxiliaries the general list leaves out but that every speaker uses.
+  'us', 'me', 'my', 'mine', 'myself', 'our', 'ours', 'you', 'your', 'yours', 'him', 'her', 'hers',
+  'them', 'their', 'theirs', 'it', 'its', 'got', 'getting', 'gets', 'lots', 'way',
 ];
 
 const STOP = new Set<string>([...eng, ...SPOKEN_FILLERS]);

@@ -1,0 +1,104 @@
+import type { Command } from 'commander';
+import { UserError } from '../errors.js';
+import { acceptAllAbove, decide, undo, type Action, type DecisionRow } from '../study/decisions.js';
+import { currentTemplate } from '../study/template.js';
+import { pathOf } from '../template/paths.js';
+import type { Template } from '../template/types.js';
+import { probability, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { plural, printJson, say } from './output.js';
+
+interface DecideOpts extends StudyOpts {
+  theme?: string;
+  note?: string;
+  coder?: string;
+  allAbove?: number;
+}
+
+/** The coder must be named for the audit trail: --coder, or $TRELLIS_CODER. */
+export function coderOf(opts: { coder?: string }): string {
+  const c = opts.coder ?? process.env.TRELLIS_CODER;
+  if (!c) throw new UserError('say who decides: --coder NAME (or set TRELLIS_CODER)');
+  return c;
+}
+
+export function describeDecision(d: DecisionRow, t: Template): string {
+  const path = (id: string | null) => {
+    if (!id) return '';
+    try {
+      return pathOf(t, id);
+    } catch {
+      return `${id} (no longer in the template)`;
+    }
+  };
+  switch (d.action) {
+    case 'accept':
+      return `decision #${d.id}: accepted ${path(d.chosen_theme)} for ${d.passage_id}`;
+    case 'recode':
+      return `decision #${d.id}: re-coded ${d.passage_id}: ${path(d.chosen_theme)} instead of ${path(d.theme_id)}`;
+    case 'reject':
+      return `decision #${d.id}: rejected ${path(d.theme_id)} for ${d.passage_id}`;
+    case 'defer':
+      return `decision #${d.id}: deferred ${path(d.theme_id)} for ${d.passage_id}`;
+    case 'undo':
+      return `decision #${d.id}: undid decision #${d.undoes}`;
+  }
+}
+
+const ACTIONS = ['accept', 'reject', 'defer'];
+
+export function registerDecide(program: Command): void {
+  studyCommand(program, 'decide', 'accept, reject or defer a suggestion, or re-code the passage to another theme')
+    .argument('[suggestion-id]', 'the suggestion id (from trellis suggest)')
+    .argument('[action]', 'accept, reject or defer')
+    .option('--theme <path>', 'code this theme instead (a re-code); with --all-above, the theme to accept')
+    .option('--note <text>', 'a note kept with the decision')
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .option('--all-above <confidence>', "accept every current suggestion of --theme at or above this confidence (logged as bulk)", probability('--all-above'))
+    .addHelpText(
+      'after',
+      `
+Every decision is appended to the decision log, never rewritten: undo makes a new entry.
+An accept or re-code becomes a coding by the coder; a reject teaches the next suggest.
+
+Examples:
+  trellis decide 412 accept --coder alex
+  trellis decide 413 reject --note "about the old paper system" --coder alex
+  trellis decide 414 accept --theme "Workload > Staffing levels" --coder alex   (a re-code)
+  trellis decide --all-above 0.9 --theme "Patient safety > Allergies" --coder alex
+  trellis undo --coder alex`,
+    )
+    .action(async (id: string | undefined, action: string | undefined, opts: DecideOpts) => {
+      const coder = coderOf(opts);
+      await withStudy(opts, (db) => {
+        if (opts.allAbove !== undefined) {
+          if (id || action) throw new UserError('--all-above decides many suggestions: give no suggestion id');
+          if (!opts.theme) throw new UserError('--all-above needs the theme to accept: --theme PATH');
+          const done = acceptAllAbove(db, opts.allAbove, opts.theme, coder, opts.note);
+          if (opts.json) return printJson({ decisions: done });
+          return say(`Accepted ${plural(done.length, 'suggestion')} of ${opts.theme} at confidence ${opts.allAbove} or more (logged as bulk).`);
+        }
+        const n = Number(id);
+        if (!id || !Number.isInteger(n) || n < 1) throw new UserError('give the suggestion id, e.g. "trellis decide 412 accept"');
+        if (!action || !ACTIONS.includes(action)) throw new UserError(`the action is one of ${ACTIONS.join(', ')} (got "${action ?? ''}")`);
+        const d = decide(db, { suggestionId: n, action: action as Action, themePath: opts.theme, note: opts.note, coder });
+        if (opts.json) return printJson(d);
+        say(describeDecision(d, currentTemplate(db)));
+      });
+    });
+
+  studyCommand(program, 'undo', "undo a decision (default: the coder's latest): a compensating entry in the log")
+    .argument('[decision-id]', 'the decision to undo')
+    .option('--coder <name>', 'who undoes it (default: $TRELLIS_CODER)')
+    .option('--note <text>', 'why')
+    .addHelpText('after', '\nExamples:\n  trellis undo --coder alex\n  trellis undo 57 --coder alex --note "wrong passage"')
+    .action(async (id: string | undefined, opts: StudyOpts & { coder?: string; note?: string }) => {
+      const coder = coderOf(opts);
+      await withStudy(opts, (db) => {
+        const n = id === undefined ? undefined : Number(id);
+        if (n !== undefined && (!Number.isInteger(n) || n < 1)) throw new UserError(`"${id}" is not a decision id`);
+        const d = undo(db, coder, n, opts.note);
+        if (opts.json) return printJson(d);
+        say(describeDecision(d, currentTemplate(db)));
+      });
+    });
+}

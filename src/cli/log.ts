@@ -1,0 +1,42 @@
+import type { Command } from 'commander';
+import { writeFileSync } from 'node:fs';
+import { stringify } from 'csv-stringify/sync';
+import { UserError } from '../errors.js';
+import { allDecisions } from '../study/decisions.js';
+import { currentTemplate } from '../study/template.js';
+import { pathOf } from '../template/paths.js';
+import { studyCommand, withStudy, type StudyOpts } from './common.js';
+import { describeDecision } from './decide.js';
+import { printJson, say } from './output.js';
+
+export function registerLog(program: Command): void {
+  studyCommand(program, 'log', 'the decision log: every accept, reject, re-code, defer and undo (the audit trail)')
+    .option('--format <format>', 'text, csv or json', 'text')
+    .option('--out <file>', 'write to this file instead of the screen')
+    .addHelpText('after', '\nExamples:\n  trellis log\n  trellis log --format csv --out decisions.csv')
+    .action(async (opts: StudyOpts & { format: string; out?: string }) => {
+      if (!['text', 'csv', 'json'].includes(opts.format)) throw new UserError(`--format is text, csv or json (got "${opts.format}")`);
+      await withStudy(opts, (db) => {
+        const t = currentTemplate(db);
+        const path = (id: string | null) => {
+          if (!id) return '';
+          try {
+            return pathOf(t, id);
+          } catch {
+            return id;
+          }
+        };
+        const rows = allDecisions(db).map((d) => ({ ...d, theme_path: path(d.theme_id), chosen_path: path(d.chosen_theme) }));
+        const format = opts.json ? 'json' : opts.format;
+        let text: string;
+        if (format === 'json') text = JSON.stringify({ decisions: rows }, null, 2) + '\n';
+        else if (format === 'csv') text = '\ufeff' + stringify(rows, { header: true, record_delimiter: '\r\n' });
+        else text = rows.map((d) => `${d.at.slice(0, 16).replace('T', ' ')}  ${d.coder.padEnd(10)} ${describeDecision(d, t)}${d.bulk ? ' (bulk)' : ''}${d.note ? `  — ${d.note}` : ''}`).join('\n') + '\n';
+        if (opts.out) {
+          writeFileSync(opts.out, text);
+          if (!opts.json) say(`Wrote ${rows.length} decisions to ${opts.out}.`);
+        } else if (format === 'json') printJson({ decisions: rows });
+        else process.stdout.write(rows.length ? text : 'No decisions yet.\n');
+      });
+    });
+}

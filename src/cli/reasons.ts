@@ -1,0 +1,50 @@
+import type { Reason } from '../suggest/types.js';
+
+export interface Snippets {
+  get(passageId: string): { transcript: string; text: string } | undefined;
+}
+
+const num = (n: number) => n.toFixed(2);
+
+function snippet(text: string, n = 70): string {
+  const flat = text.replace(/\s+/g, ' ').trim();
+  return flat.length > n ? flat.slice(0, n - 1).trimEnd() + '…' : flat;
+}
+
+/** A reason as a sentence a researcher can read. */
+export function reasonText(r: Reason, snippets: Snippets): string {
+  switch (r.kind) {
+    case 'terms':
+      return `distinctive terms: ${r.terms.map((t) => `${t.term} ${num(t.weight)}`).join(', ')}`;
+    case 'exemplar': {
+      const s = snippets.get(r.passageId);
+      return `most like coded passage ${r.passageId} (similarity ${num(r.similarity)})${s ? `: "${snippet(s.text)}"` : ''}`;
+    }
+    case 'seeds':
+      return `seed terms: ${r.terms.join(', ')}`;
+    case 'seed-only':
+      return 'profile from the definition and seed terms only (no coded passage yet)';
+    case 'context':
+      return `the surrounding passages point here too (${num(r.weight)})`;
+    case 'question':
+      return `the interviewer's question points here (${num(r.weight)})`;
+  }
+}
+
+/** The reason with its readable text, and the exemplar's transcript and snippet, for --json. */
+export function reasonJson(r: Reason, snippets: Snippets): Record<string, unknown> {
+  if (r.kind !== 'exemplar') return { ...r, text: reasonText(r, snippets) };
+  const s = snippets.get(r.passageId);
+  return {
+    kind: r.kind,
+    passage_id: r.passageId,
+    similarity: r.similarity,
+    ...(s ? { transcript: s.transcript, snippet: snippet(s.text, 120) } : {}),
+    text: reasonText(r, snippets),
+  };
+}
+
+/** The terms to mark in the passage: distinctive terms and matched seeds. */
+export function markedTerms(reasons: Reason[]): string[] {
+  return reasons.flatMap((r) => (r.kind === 'terms' ? r.terms.map((t) => t.term) : r.kind === 'seeds' ? r.terms : []));
+}

@@ -1,0 +1,116 @@
+import type { Command } from 'commander';
+import { getPassage, passageTokens } from '../study/passages.js';
+import { suggest } from '../study/suggestions.js';
+import { requireTranscripts } from '../study/transcripts.js';
+import type { DB } from '../study/db.js';
+import { clock } from '../sheet/sheet.js';
+import { collect, positiveInt, probability, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { markTerms, wrap } from './marks.js';
+import { plural, printJson, say, table } from './output.js';
+import { markedTerms, reasonJson, reasonText, type Snippets } from './reasons.js';
+
+interface SuggestOpts extends StudyOpts {
+  transcript?: string[];
+  top?: number;
+  targetPrecision: number;
+  all?: boolean;
+}
+
+function snippetCache(db: DB): Snippets {
+  const cache = new Map<string, { transcript: string; text: string } | undefined>();
+  return {
+    get(id) {
+      if (!cache.has(id)) {
+        const p = getPassage(db, id);
+        cache.set(id, p ? { transcript: p.transcript, text: p.text } : undefined);
+      }
+      return cache.get(id);
+    },
+  };
+}
+
+export function registerSuggest(program: Command): void {
+  studyCommand(program, 'suggest', 'suggest candidate themes, with confidence and reasons, for the uncoded passages')
+    .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
+    .option('--top <k>', 'the K best candidates per passage, whatever the threshold', positiveInt('--top'))
+    .option('--target-precision <p>', "the precision each theme's threshold aims at on the coded batch", probability('--target-precision'), 0.7)
+    .option('--all', 'also suggest for passages that are already coded (to check the profiles)')
+    .addHelpText(
+      'after',
+      `
+trellis learns a profile for every theme from the coded passages (and from the definition
+and seed terms of an a priori theme not yet coded), checks it by leaving out one transcript
+at a time, and turns scores into confidences: the estimated chance that the coder would give
+this theme. A candidate is above threshold when its confidence reaches the theme's threshold,
+set so that the theme's suggestions were right at least --target-precision of the time.
+A passage with no candidate above threshold is unclaimed. Suggestions are aids: nothing is
+coded until a researcher decides.
+
+Examples:
+  trellis suggest --transcript t05-ward9-fy2
+  trellis suggest --top 3 --json > suggestions.json`,
+    )
+    .action(async (opts: SuggestOpts) => {
+      await withStudy(opts, (db) => {
+        requireTranscripts(db, opts.transcript);
+        if (!opts.json) process.stderr.write('Fitting theme profiles and scoring passages...\n');
+        const run = suggest(db, { transcripts: opts.transcript, top: opts.top, targetPrecision: opts.targetPrecision, includeCoded: opts.all });
+        const snippets = snippetCache(db);
+        const path = (id: string) => run.paths.get(id) ?? id;
+        if (opts.json) {
+          return printJson({
+            run_id: run.runId,
+            revision: run.rev,
+            fingerprint: run.fingerprint,
+            passages: run.passages.map((p) => ({
+              passage_id: p.passageId,
+              transcript: p.transcript,
+              unclaimed: p.unclaimed,
+              candidates: p.candidates.map((c) => ({
+                suggestion_id: c.suggestionId,
+                theme: path(c.themeId),
+                confidence: round(c.confidence),
+                above_threshold: c.aboveThreshold,
+                reasons: c.reasons.map((r) => reasonJson(r, snippets)),
+              })),
+            })),
+          }, { compact: run.passages.length > 200 });
+        }
+        const tokens = passageTokens(db, run.passages.map((p) => p.passageId));
+        for (const p of run.passages) {
+          const info = getPassage(db, p.passageId)!;
+          const tk = tokens.get(p.passageId)!;
+          const marks = new Set(p.candidates.flatMap((c) => markedTerms(c.reasons)));
+          say(`${p.passageId}  ${info.speaker ?? 'participant'}${info.start !== null ? ` (${clock(info.start)})` : ''}${p.unclaimed ? '  — unclaimed' : ''}`);
+          say(wrap(markTerms(tk.text, tk.lemmas, tk.spans, marks), 96, '  '));
+          say(
+            table(
+              ['id', 'confidence', 'theme', 'why'],
+              p.candidates.map((c) => [
+                `#${c.suggestionId}`,
+                `${c.confidence.toFixed(2)}${c.aboveThreshold ? ' *' : '  '}`,
+                path(c.themeId),
+                c.reasons.length ? clip(reasonText(c.reasons[0]!, snippets), 90) : '',
+              ]),
+            )
+              .split('\n')
+              .map((l) => '  ' + l)
+              .join('\n'),
+          );
+          say('');
+        }
+        const claimed = run.passages.filter((p) => !p.unclaimed);
+        const perTheme = new Map<string, number>();
+        for (const p of claimed) for (const c of p.candidates) if (c.chosen) perTheme.set(c.themeId, (perTheme.get(c.themeId) ?? 0) + 1);
+        say(`Run ${run.runId} (template revision ${run.rev}, model ${run.fingerprint.slice(0, 12)}): ${plural(run.passages.length, 'passage')}, ` +
+          `${claimed.length} with a theme above threshold (*), ${run.passages.length - claimed.length} unclaimed.`);
+        if (perTheme.size) {
+          say(table(['theme', 'passages'], [...perTheme].sort((a, b) => b[1] - a[1]).map(([id, n]) => [path(id), n])));
+        }
+        say('Decide with: trellis decide ID accept|reject|defer [--theme PATH] --coder NAME');
+      });
+    });
+}
+
+const round = (x: number) => Math.round(x * 1e4) / 1e4;
+const clip = (s: string, n: number) => (s.length > n ? s.slice(0, n - 1) + '…' : s);

@@ -1,0 +1,429 @@
+/**
+ * The review queue: which passages an interactive review session shows, in what order, and the
+ * guarded writes it makes. The screen (src/cli/review.ts) only draws and reads keys.
+ */
+import { UserError } from '../errors.js';
+import type { Reason } from '../suggest/types.js';
+import { addTheme } from '../template/ops.js';
+import { findByPath, walk } from '../template/paths.js';
+import type { DB } from './db.js';
+import { decide, undo, type Action, type DecisionRow } from './decisions.js';
+import { getPassage, passageTokens, type StoredPassage } from './passages.js';
+import { reviseTemplate } from './revise.js';
+import { suggest } from './suggestions.js';
+import { currentTemplate } from './template.js';
+
+export const ORDERS = ['transcript', 'uncertain', 'theme', 'confidence'] as const;
+export type ReviewOrder = (typeof ORDERS)[number];
+
+/** Used when a theme has no threshold of its own (no report for it). */
+export const FALLBACK_THRESHOLD = 0.5;
+
+export interface ReviewCandidate {
+  suggestionId: number;
+  themeId: string;
+  path: string;
+  confidence: number;
+  above: boolean;
+  /** The theme's threshold (or FALLBACK_THRESHOLD): the uncertain order measures from it. */
+  threshold: number;
+  reasons: Reason[];
+}
+
+export interface ReviewItem {
+  passageId: string;
+  transcript: string;
+  /** Import order of the transcript, then the passage's place in it: the default order. */
+  transcriptIndex: number;
+  ordinal: number;
+  /** Best first. */
+  candidates: ReviewCandidate[];
+}
+
+export interface ReviewSetup {
+  transcripts?: string[];
+  /** Only passages with a candidate of this theme or one of its sub-themes. */
+  theme?: string;
+  order?: ReviewOrder;
+  top?: number;
+}
+
+export interface ReviewStart {
+  runId: number;
+  items: ReviewItem[];
+  /** Passages of the run left out: already decided, or (with --theme) without that theme. */
+  left: number;
+}
+
+/**
+ * How far the top candidate's confidence is from its theme's threshold: near 0 the model is
+ * least sure whether the theme applies, so a decision there teaches it the most.
+ */
+export function uncertainty(item: ReviewItem): number {
+  const top = item.candidates[0];
+  return top ? Math.abs(top.confidence - top.threshold) : Infinity;
+}
+
+const byPlace = (a: ReviewItem, b: ReviewItem) => a.transcriptIndex - b.transcriptIndex || a.ordinal - b.ordinal;
+
+/**
+ * Orders the queue (pure). transcript: transcript, then position. uncertain: smallest
+ * uncertainty() first. theme: grouped by the top candidate's theme in template order.
+ * confidence: top candidate's confidence, highest first. Ties keep transcript order.
+ */
+export function orderQueue(items: ReviewItem[], order: ReviewOrder, themeRank: Map<string, number> = new Map()): ReviewItem[] {
+  const top = (i: ReviewItem) => i.candidates[0];
+  const rank = (i: ReviewItem) => themeRank.get(top(i)?.themeId ?? '') ?? Number.MAX_SAFE_INTEGER;
+  const cmp: Record<ReviewOrder, (a: ReviewItem, b: ReviewItem) => number> = {
+    transcript: byPlace,
+    uncertain: (a, b) => uncertainty(a) - uncertainty(b) || byPlace(a, b),
+    theme: (a, b) => rank(a) - rank(b) || (top(a)?.path ?? '').localeCompare(top(b)?.path ?? '') || byPlace(a, b),
+    confidence: (a, b) => (top(b)?.confidence ?? 0) - (top(a)?.confidence ?? 0) || byPlace(a, b),
+  };
+  return [...items].sort(cmp[order]);
+}
+
+/** Passages with a decision that still stands (not undone; a defer does not count). */
+function decidedPassages(db: DB): Set<string> {
+  const rows = db
+    .prepare(
+      `SELECT DISTINCT d.passage_id AS id FROM decisions d WHERE d.action NOT IN ('undo', 'defer') AND d.passage_id IS NOT NULL
+       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)`,
+    )
+    .all() as { id: string }[];
+  return new Set(rows.map((r) => r.id));
+}
+
+/** Theme id -> position in the current template (document order). */
+export function themeOrder(db: DB): Map<string, number> {
+  return new Map([...walk(currentTemplate(db))].map((e, i) => [e.node.id, i]));
+}
+
+/**
+ * Starts a session: a fresh suggestion run (so the queue reflects the latest codings and
+ * decisions), then the queue: passages of the run that are not coded and have no standing
+ * decision, filtered and ordered.
+ */
+export function startReview(db: DB, setup: ReviewSetup = {}): ReviewStart {
+  let within: Set<string> | null = null;
+  if (setup.theme) {
+    const node = findByPath(currentTemplate(db), setup.theme);
+    within = new Set([...walk({ roots: [node] })].map((e) => e.node.id));
+  }
+  const run = suggest(db, { top: setup.top ?? 5, transcripts: setup.transcripts });
+  const thresholds = new Map(run.reports.map((r) => [r.themeId, r.threshold]));
+  const place = new Map(
+    (db.prepare('SELECT p.id, p.ordinal, p.transcript_id AS t FROM passages p').all() as { id: string; ordinal: number; t: number }[]).map((r) => [r.id, r]),
+  );
+  const decided = decidedPassages(db);
+  const items: ReviewItem[] = [];
+  for (const p of run.passages) {
+    if (decided.has(p.passageId) || p.candidates.length === 0) continue;
+    if (within && !p.candidates.some((c) => within.has(c.themeId))) continue;
+    const at = place.get(p.passageId);
+    items.push({
+      passageId: p.passageId,
+      transcript: p.transcript,
+      transcriptIndex: at?.t ?? 0,
+      ordinal: at?.ordinal ?? 0,
+      candidates: p.candidates.map((c) => {
+        const t = thresholds.get(c.themeId);
+        return {
+          suggestionId: c.suggestionId,
+          themeId: c.themeId,
+          path: run.paths.get(c.themeId) ?? c.themeId,
+          confidence: c.confidence,
+          above: c.aboveThreshold,
+          threshold: t !== undefined && Number.isFinite(t) ? t : FALLBACK_THRESHOLD,
+          reasons: c.reasons,
+        };
+      }),
+    });
+  }
+  return { runId: run.runId, items: orderQueue(items, setup.order ?? 'transcript', themeOrder(db)), left: run.passages.length - items.length };
+}
+
+/** Another coder's (or another session's) claim on a passage, which closes it for this session. */
+export interface Claim {
+  kind: 'decision' | 'coding';
+  coder: string;
+  action?: string;
+  decisionId?: number;
+}
+
+/**
+ * Whether the passage is still open for this session: no current coding and no standing
+ * decision other than those this session made itself (`mine`: its decision ids).
+ */
+export function claimOn(db: DB, passageId: string, mine: ReadonlySet<number>): Claim | null {
+  const ds = db
+    .prepare(
+      `SELECT d.id, d.coder, d.action FROM decisions d WHERE d.passage_id = ? AND d.action NOT IN ('undo', 'defer')
+       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id) ORDER BY d.id`,
+    )
+    .all(passageId) as { id: number; coder: string; action: string }[];
+  const other = ds.find((d) => !mine.has(d.id));
+  if (other) return { kind: 'decision', coder: other.coder, action: other.action, decisionId: other.id };
+  const cs = db.prepare('SELECT coder, decision_id FROM codings WHERE passage_id = ? AND removed_at IS NULL').all(passageId) as {
+    coder: string;
+    decision_id: number | null;
+  }[];
+  const coding = cs.find((c) => c.decision_id === null || !mine.has(c.decision_id));
+  return coding ? { kind: 'coding', coder: coding.coder } : null;
+}
+
+const ACTION_WORDS: Record<string, string> = { accept: 'accepted', reject: 'rejected', recode: 're-coded', defer: 'deferred' };
+
+/** Raised when another session got to the passage first; the loop says so and moves on. */
+export class AlreadyDecided extends UserError {
+  constructor(
+    readonly passageId: string,
+    readonly claim: Claim,
+  ) {
+    super(
+      claim.kind === 'decision'
+        ? `${passageId} was already decided (${ACTION_WORDS[claim.action!] ?? claim.action} by ${claim.coder}, decision #${claim.decisionId})`
+        : `${passageId} was already coded (by ${claim.coder})`,
+    );
+    this.name = 'AlreadyDecided';
+  }
+}
+
+export interface ReviewDecision {
+  suggestionId: number;
+  action: Action;
+  themePath?: string;
+  note?: string;
+  coder: string;
+}
+
+/**
+ * One decision, in its own IMMEDIATE transaction: the write lock is taken before the passage is
+ * checked, so two sessions cannot both decide it (the second waits, then sees the first).
+ */
+export function reviewDecide(db: DB, passageId: string, d: ReviewDecision, mine: ReadonlySet<number>): DecisionRow {
+  return db
+    .transaction(() => {
+      const claim = claimOn(db, passageId, mine);
+      if (claim) throw new AlreadyDecided(passageId, claim);
+      return decide(db, d);
+    })
+    .immediate();
+}
+
+/**
+ * Adds a theme (a new template revision) and re-codes the passage to it, in one transaction:
+ * the theme and its first coding land together or not at all.
+ */
+export function recodeToNewTheme(
+  db: DB,
+  studyDir: string,
+  passageId: string,
+  d: { suggestionId: number; parentId: string | null; name: string; note?: string; coder: string },
+  mine: ReadonlySet<number>,
+): { decision: DecisionRow; rev: number | null; path: string } {
+  return db
+    .transaction(() => {
+      const claim = claimOn(db, passageId, mine);
+      if (claim) throw new AlreadyDecided(passageId, claim);
+      let id = '';
+      const r = reviseTemplate(
+        db,
+        studyDir,
+        'add',
+        (t, newId) => {
+          const out = addTheme(t, d.parentId, d.name, newId);
+          id = out.id;
+          return out;
+        },
+        d.coder,
+        `added while reviewing ${passageId}`,
+      );
+      const path = [...walk(r.template)].find((e) => e.node.id === id)!.path;
+      const decision = decide(db, { suggestionId: d.suggestionId, action: 'accept', themePath: path, note: d.note, coder: d.coder });
+      return { decision, rev: r.rev, path };
+    })
+    .immediate();
+}
+
+/** Undoes the coder's latest standing decision; returns the undo entry and the entry it undid. */
+export function undoLatest(db: DB, coder: string, note?: string): { undo: DecisionRow; undone: DecisionRow } {
+  return db
+    .transaction(() => {
+      const u = undo(db, coder, undefined, note);
+      const undone = db.prepare('SELECT * FROM decisions WHERE id = ?').get(u.undoes) as DecisionRow;
+      return { undo: u, undone };
+    })
+    .immediate();
+}
+
+/** Suggestion ids among these with a standing reject (shown struck out, not offered again). */
+export function standingRejects(db: DB, suggestionIds: number[]): Set<number> {
+  if (!suggestionIds.length) return new Set();
+  const rows = db
+    .prepare(
+      `SELECT d.suggestion_id AS id FROM decisions d WHERE d.action = 'reject' AND d.suggestion_id IN (${suggestionIds.map(() => '?').join(',')})
+       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)`,
+    )
+    .all(...suggestionIds) as { id: number }[];
+  return new Set(rows.map((r) => r.id));
+}
+
+/**
+ * The queue item for a passage outside the session's queue (going back to it after an undo):
+ * the candidates of the run that the undone decision came from, with the current theme paths.
+ */
+export function itemFromRun(db: DB, suggestionId: number): ReviewItem | undefined {
+  const s = db.prepare('SELECT run_id, passage_id FROM suggestions WHERE id = ?').get(suggestionId) as { run_id: number; passage_id: string } | undefined;
+  if (!s) return undefined;
+  const p = db.prepare('SELECT p.ordinal, p.transcript_id AS t, t.name FROM passages p JOIN transcripts t ON t.id = p.transcript_id WHERE p.id = ?').get(s.passage_id) as
+    | { ordinal: number; t: number; name: string }
+    | undefined;
+  if (!p) return undefined;
+  const rows = db
+    .prepare('SELECT id, theme_id, confidence, above, reasons FROM suggestions WHERE run_id = ? AND passage_id = ? ORDER BY rank')
+    .all(s.run_id, s.passage_id) as { id: number; theme_id: string; confidence: number; above: number; reasons: string }[];
+  const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+  return {
+    passageId: s.passage_id,
+    transcript: p.name,
+    transcriptIndex: p.t,
+    ordinal: p.ordinal,
+    candidates: rows.map((r) => ({
+      suggestionId: r.id,
+      themeId: r.theme_id,
+      path: paths.get(r.theme_id) ?? `${r.theme_id} (no longer in the template)`,
+      confidence: r.confidence,
+      above: r.above === 1,
+      threshold: FALLBACK_THRESHOLD,
+      reasons: JSON.parse(r.reasons) as Reason[],
+    })),
+  };
+}
+
+export interface Turn {
+  speaker: string | null;
+  start: number | null;
+  text: string;
+}
+
+export interface PassageView {
+  passage: StoredPassage;
+  tokens: { text: string; lemmas: string[]; spans: Int32Array };
+  before: Turn | null;
+  after: Turn | null;
+}
+
+/** The passage with its analysis, and the whole turns just before and after it, for context. */
+export function passageView(db: DB, passageId: string): PassageView | undefined {
+  const passage = getPassage(db, passageId);
+  const tokens = passageTokens(db, [passageId]).get(passageId);
+  if (!passage || !tokens) return undefined;
+  const turn = (n: number): Turn | null => {
+    const rows = db
+      .prepare(
+        `SELECT p.speaker, p.start_s AS start, p.text FROM passages p JOIN transcripts t ON t.id = p.transcript_id
+         WHERE t.name = ? AND p.turn = ? ORDER BY p.ordinal`,
+      )
+      .all(passage.transcript, n) as { speaker: string | null; start: number | null; text: string }[];
+    return rows.length ? { speaker: rows[0]!.speaker, start: rows[0]!.start, text: rows.map((r) => r.text).join(' ') } : null;
+  };
+  return { passage, tokens, before: turn(passage.turn - 1), after: turn(passage.turn + 1) };
+}
+
+/**
+ * Where the session stands (pure): the queue in order, a cursor, passages decided or deferred
+ * this session, and passages to show again first (after an undo).
+ */
+export class ReviewQueue {
+  private cursor = -1;
+  private readonly revisits: ReviewItem[] = [];
+  readonly deferred = new Set<string>();
+  readonly done = new Set<string>();
+  readonly closed = new Set<string>();
+  private readonly index: Map<string, number>;
+
+  constructor(readonly items: ReviewItem[]) {
+    this.index = new Map(items.map((it, i) => [it.passageId, i]));
+  }
+
+  get total(): number {
+    return this.items.length;
+  }
+
+  /** Passages not yet decided, deferred or found closed this session. */
+  get remaining(): number {
+    let n = 0;
+    for (const it of this.items) if (!this.handled(it.passageId)) n++;
+    return n;
+  }
+
+  /** 1-based position in the queue of a passage, or null when it came from outside it. */
+  positionOf(passageId: string): number | null {
+    const i = this.index.get(passageId);
+    return i === undefined ? null : i + 1;
+  }
+
+  item(passageId: string): ReviewItem | undefined {
+    const i = this.index.get(passageId);
+    return i === undefined ? undefined : this.items[i];
+  }
+
+  private handled(id: string): boolean {
+    return this.done.has(id) || this.deferred.has(id) || this.closed.has(id);
+  }
+
+  /** Show this passage next, before the queue goes on (going back to it after an undo). */
+  revisit(item: ReviewItem): void {
+    this.done.delete(item.passageId);
+    this.deferred.delete(item.passageId);
+    this.closed.delete(item.passageId);
+    this.revisits.push(item);
+  }
+
+  /** The next passage to show: a revisit first, else the next one in order not handled yet. */
+  next(): ReviewItem | undefined {
+    while (this.revisits.length) {
+      const it = this.revisits.pop()!;
+      if (!this.handled(it.passageId)) return it;
+    }
+    while (++this.cursor < this.items.length) {
+      const it = this.items[this.cursor]!;
+      if (!this.handled(it.passageId)) return it;
+    }
+    this.cursor = this.items.length;
+    return undefined;
+  }
+}
+
+/** Acceptance this session: accepts and re-codes out of verdicts (a defer is not a verdict). */
+export class Tally {
+  private readonly actions = new Map<number, string>();
+
+  add(d: DecisionRow): void {
+    this.actions.set(d.id, d.action);
+  }
+
+  /** Takes an undone decision out, if this session made it. */
+  remove(id: number): void {
+    this.actions.delete(id);
+  }
+
+  get ids(): ReadonlySet<number> {
+    return new Set(this.actions.keys());
+  }
+
+  count(action: string): number {
+    let n = 0;
+    for (const a of this.actions.values()) if (a === action) n++;
+    return n;
+  }
+
+  get accepted(): number {
+    return this.count('accept') + this.count('recode');
+  }
+
+  get decided(): number {
+    return this.accepted + this.count('reject');
+  }
+}

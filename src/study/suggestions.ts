@@ -1,0 +1,109 @@
+import { UserError } from '../errors.js';
+import { ThemeSuggester } from '../suggest/suggester.js';
+import type { Candidate, PassageSuggestions, Reason, SuggesterOptions, ThemeReport } from '../suggest/types.js';
+import type { DB } from './db.js';
+import { modelInputs } from './model.js';
+import { rejections } from './decisions.js';
+import { currentRevision } from './template.js';
+
+export interface StoredCandidate extends Candidate {
+  suggestionId: number;
+  rank: number;
+}
+
+export interface SuggestRun {
+  runId: number;
+  rev: number;
+  fingerprint: string;
+  passages: (Omit<PassageSuggestions, 'candidates'> & { candidates: StoredCandidate[] })[];
+  reports: ThemeReport[];
+  /** id → path of every current theme */
+  paths: Map<string, string>;
+}
+
+export interface SuggestOptions extends SuggesterOptions {
+  transcripts?: string[];
+  /** Return the K best candidates whatever the threshold; default: the chosen ones, else the best. */
+  top?: number;
+  /** Also suggest for passages that are already coded. */
+  includeCoded?: boolean;
+}
+
+/** Fits the theme profiles on the study's current codings (for `suggest` and `profile`). */
+export function fitModel(db: DB, opts: SuggesterOptions = {}) {
+  const rev = currentRevision(db);
+  if (!rev) throw new UserError('the study has no template yet: run "trellis template set FILE" first');
+  const inputs = modelInputs(db);
+  const negatives = rejections(db);
+  const model = new ThemeSuggester(opts).fit(inputs.passages, inputs.codings, inputs.themes, { negatives });
+  return { model, inputs, rev, negatives };
+}
+
+/**
+ * `suggest`: fits the profiles, ranks candidate themes for the uncoded participant passages,
+ * and stores the run (template revision, model fingerprint) and every candidate it returns.
+ */
+export function suggest(db: DB, opts: SuggestOptions = {}): SuggestRun {
+  const { model, inputs, rev, negatives } = fitModel(db, opts);
+  // A theme a coder rejected for a passage is not suggested for it again.
+  const rejected = new Set(negatives.map((n) => `${n.passageId}\u0000${n.themeId}`));
+  const byId = new Map(inputs.passages.map((p) => [p.id, p]));
+  let targets = opts.includeCoded ? inputs.passages.filter((p) => p.role === 'participant').map((p) => p.id) : inputs.uncoded;
+  if (opts.transcripts?.length) {
+    const want = new Set(opts.transcripts);
+    targets = targets.filter((id) => want.has(byId.get(id)!.transcript));
+  }
+  const top = opts.top;
+  // Reasons for the three best candidates (and every chosen one): enough to judge at a glance.
+  const predicted = model.predict(targets, { reasons: 3 });
+  const kept = predicted.map((p) => {
+    const open = rejected.size ? p.candidates.filter((c) => !rejected.has(`${p.passageId}\u0000${c.themeId}`)) : p.candidates;
+    const chosen = open.filter((c) => c.chosen);
+    return { ...p, unclaimed: chosen.length === 0, candidates: top ? open.slice(0, top) : chosen.length ? chosen : open.slice(0, 1) };
+  });
+
+  return db.transaction(() => {
+    const runId = Number(
+      db
+        .prepare('INSERT INTO suggestion_runs (created_at, rev, fingerprint, options, passages, unclaimed) VALUES (?, ?, ?, ?, ?, ?)')
+        .run(new Date().toISOString(), rev.rev, model.fingerprint, JSON.stringify(model.options), kept.length, kept.filter((p) => p.unclaimed).length)
+        .lastInsertRowid,
+    );
+    const ins = db.prepare(
+      'INSERT INTO suggestions (run_id, passage_id, theme_id, rank, confidence, above, chosen, reasons) VALUES (?, ?, ?, ?, ?, ?, ?, ?)',
+    );
+    const passages = kept.map((p) => ({
+      ...p,
+      candidates: p.candidates.map((c, i) => {
+        const reasons = c.reasons.length ? JSON.stringify(c.reasons) : '[]';
+        const id = Number(ins.run(runId, p.passageId, c.themeId, i + 1, c.confidence, c.aboveThreshold ? 1 : 0, c.chosen ? 1 : 0, reasons).lastInsertRowid);
+        return { ...c, suggestionId: id, rank: i + 1 };
+      }),
+    }));
+    const paths = new Map(inputs.themes.map((t) => [t.id, t.path]));
+    return { runId, rev: rev.rev, fingerprint: model.fingerprint, passages, reports: model.themeReports(), paths };
+  })();
+}
+
+export interface SuggestionRow {
+  id: number;
+  run_id: number;
+  passage_id: string;
+  theme_id: string;
+  rank: number;
+  confidence: number;
+  above: number;
+  chosen: number;
+  reasons: Reason[];
+  fingerprint: string;
+  rev: number;
+}
+
+export function getSuggestion(db: DB, id: number): SuggestionRow | undefined {
+  const row = db
+    .prepare(
+      `SELECT s.*, r.fingerprint, r.rev FROM suggestions s JOIN suggestion_runs r ON r.id = s.run_id WHERE s.id = ?`,
+    )
+    .get(id) as (Omit<SuggestionRow, 'reasons'> & { reasons: string }) | undefined;
+  return row ? { ...row, reasons: JSON.parse(row.reasons) as Reason[] } : undefined;
+}

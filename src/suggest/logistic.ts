@@ -1,0 +1,157 @@
+/**
+ * Binary logistic regression with weights shared by all themes and one intercept per theme:
+ * P(theme t applies to passage p) = sigmoid(w . f(p, t) + b_t). The signals are the same kind
+ * of quantity for every theme, so a handful of shared weights can be learned from a small coded
+ * batch where per-theme weights could not. Fitted by Newton's method with a ridge penalty.
+ */
+
+export interface GroupedData {
+  /** Row-major features, `k` per row. */
+  x: Float64Array;
+  k: number;
+  /** 0/1 outcome of each row. */
+  y: Uint8Array;
+  /** Group (theme) of each row, 0..groups-1. */
+  group: Int32Array;
+  groups: number;
+}
+
+export interface GroupedModel {
+  weights: number[];
+  intercepts: number[];
+}
+
+export function sigmoid(z: number): number {
+  return z >= 0 ? 1 / (1 + Math.exp(-z)) : Math.exp(z) / (1 + Math.exp(z));
+}
+
+/** Mean log-loss of a fitted model on data. */
+export function logLoss(m: GroupedModel, d: GroupedData): number {
+  const n = d.y.length;
+  let s = 0;
+  for (let i = 0; i < n; i++) {
+    const z = linear(m, d, i);
+    s += d.y[i] ? softplus(-z) : softplus(z);
+  }
+  return s / Math.max(1, n);
+}
+
+export function linear(m: GroupedModel, d: GroupedData, i: number): number {
+  let z = m.intercepts[d.group[i]!]!;
+  for (let j = 0; j < d.k; j++) z += m.weights[j]! * d.x[i * d.k + j]!;
+  return z;
+}
+
+function softplus(z: number): number {
+  return z > 0 ? z + Math.log1p(Math.exp(-z)) : Math.log1p(Math.exp(z));
+}
+
+/**
+ * @param ridge penalty on the shared weights (features should be standardised)
+ * @param interceptRidge small penalty keeping intercepts finite for a theme with no positives
+ */
+export function fitGrouped(d: GroupedData, ridge = 1, interceptRidge = 1e-3): GroupedModel {
+  const { k, groups } = d;
+  const n = d.y.length;
+  const dim = k + groups;
+  const beta = new Float64Array(dim);
+  // Start intercepts at each group's base rate.
+  const pos = new Float64Array(groups);
+  const cnt = new Float64Array(groups);
+  for (let i = 0; i < n; i++) {
+    cnt[d.group[i]!]!++;
+    if (d.y[i]) pos[d.group[i]!]!++;
+  }
+  for (let g = 0; g < groups; g++) beta[k + g] = Math.log((pos[g]! + 0.5) / (cnt[g]! - pos[g]! + 0.5));
+
+  const model = (): GroupedModel => ({ weights: [...beta.subarray(0, k)], intercepts: [...beta.subarray(k)] });
+  const objective = (b: Float64Array): number => {
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      let z = b[k + d.group[i]!]!;
+      for (let j = 0; j < k; j++) z += b[j]! * d.x[i * k + j]!;
+      s += d.y[i] ? softplus(-z) : softplus(z);
+    }
+    for (let j = 0; j < k; j++) s += 0.5 * ridge * b[j]! * b[j]!;
+    for (let g = 0; g < groups; g++) s += 0.5 * interceptRidge * b[k + g]! * b[k + g]!;
+    return s;
+  };
+
+  let f = objective(beta);
+  for (let it = 0; it < 50; it++) {
+    const grad = new Float64Array(dim);
+    const hess = new Float64Array(dim * dim);
+    for (let i = 0; i < n; i++) {
+      const g = d.group[i]!;
+      let z = beta[k + g]!;
+      for (let j = 0; j < k; j++) z += beta[j]! * d.x[i * k + j]!;
+      const p = sigmoid(z);
+      const r = p - d.y[i]!;
+      const w = Math.max(p * (1 - p), 1e-12);
+      const gi = k + g;
+      for (let j = 0; j < k; j++) {
+        const xj = d.x[i * k + j]!;
+        grad[j] = grad[j]! + r * xj;
+        for (let l = 0; l <= j; l++) hess[j * dim + l] = hess[j * dim + l]! + w * xj * d.x[i * k + l]!;
+        hess[gi * dim + j] = hess[gi * dim + j]! + w * xj;
+      }
+      grad[gi] = grad[gi]! + r;
+      hess[gi * dim + gi] = hess[gi * dim + gi]! + w;
+    }
+    for (let j = 0; j < k; j++) {
+      grad[j] = grad[j]! + ridge * beta[j]!;
+      hess[j * dim + j] = hess[j * dim + j]! + ridge;
+    }
+    for (let g = 0; g < groups; g++) {
+      grad[k + g] = grad[k + g]! + interceptRidge * beta[k + g]!;
+      hess[(k + g) * dim + k + g] = hess[(k + g) * dim + k + g]! + interceptRidge;
+    }
+    // Symmetrise the lower triangle we filled.
+    for (let a = 0; a < dim; a++) for (let b = 0; b < a; b++) hess[b * dim + a] = hess[a * dim + b]!;
+    const step = solveSpd(hess, grad, dim);
+    let t = 1;
+    let moved = false;
+    const gd = step.reduce((s, v, j) => s - v * grad[j]!, 0);
+    while (t > 1e-8) {
+      const next = beta.map((v, j) => v - t * step[j]!);
+      const nf = objective(next);
+      if (nf <= f + 1e-4 * t * gd) {
+        const change = Math.abs(f - nf);
+        beta.set(next);
+        f = nf;
+        moved = true;
+        if (change < 1e-8 * Math.max(1, Math.abs(f))) return model();
+        break;
+      }
+      t /= 2;
+    }
+    if (!moved) break;
+  }
+  return model();
+}
+
+/** Solves A x = b for a symmetric positive definite A (Cholesky). */
+export function solveSpd(a: Float64Array, b: Float64Array, n: number): Float64Array {
+  const l = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j <= i; j++) {
+      let s = a[i * n + j]!;
+      for (let m = 0; m < j; m++) s -= l[i * n + m]! * l[j * n + m]!;
+      if (i === j) l[i * n + i] = Math.sqrt(Math.max(s, 1e-12));
+      else l[i * n + j] = s / l[j * n + j]!;
+    }
+  }
+  const y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let s = b[i]!;
+    for (let m = 0; m < i; m++) s -= l[i * n + m]! * y[m]!;
+    y[i] = s / l[i * n + i]!;
+  }
+  const x = new Float64Array(n);
+  for (let i = n - 1; i >= 0; i--) {
+    let s = y[i]!;
+    for (let m = i + 1; m < n; m++) s -= l[m * n + i]! * x[m]!;
+    x[i] = s / l[i * n + i]!;
+  }
+  return x;
+}

@@ -1,0 +1,135 @@
+/** Plain-data shapes of the suggestion model: its inputs, its learned state and its answers. */
+
+export type Role = 'interviewer' | 'participant';
+
+export interface ThemeInfo {
+  id: string;
+  parentId: string | null;
+  name: string;
+  /** Full path, levels joined by " > " (for messages and reasons). */
+  path: string;
+  apriori: boolean;
+  definition: string;
+  /** Seed terms as lemmas (lemmatise them at the edge: contentLemmas(analyse(seed))). */
+  seeds: string[];
+  /** Non-stop lemmas of the definition, when the edge has analysed it; else split from `definition`. */
+  definitionTerms?: string[];
+}
+
+export interface ModelPassage {
+  id: string;
+  transcript: string;
+  ordinal: number;
+  role: Role;
+  /** Non-stop lemmas in order (contentLemmas of the stored analysis). */
+  terms: string[];
+}
+
+export interface Coding {
+  passageId: string;
+  themeId: string;
+}
+
+/** What fit() learns from. `negatives` is the place for rejected suggestions (next issue). */
+export interface FitInput {
+  /** ALL passages of the study, ordered by transcript then ordinal, so context is available. */
+  passages: ModelPassage[];
+  codings: Coding[];
+  themes: ThemeInfo[];
+  /** Passages a coder said do NOT carry a theme (rejections); reserved, not used yet. */
+  negatives?: Coding[];
+}
+
+export type Calibration = 'platt' | 'isotonic';
+
+export interface SuggesterOptions {
+  /** Precision each theme's default threshold must reach on the cross-validated batch (0.7). */
+  targetPrecision?: number;
+  /** Add bigrams of adjacent content lemmas to the vectors (default false: measured no gain). */
+  bigrams?: boolean;
+  /** A theme with fewer coded passages, or coded passages in fewer transcripts, is flagged. */
+  minExamples?: number;
+  minTranscripts?: number;
+  /** Total pseudo-count of the informative Dirichlet prior of the log-odds (default 500). */
+  priorStrength?: number;
+  /** Coded passages averaged in the nearest-exemplar signal (default 5). */
+  neighbours?: number;
+  /** Distance decay of the transcript-context signal; candidates tried by cross-validation. */
+  decays?: number[];
+  calibration?: Calibration;
+  /** Cosine above which two themes' centroids are reported as overlapping (0.8). */
+  overlapCosine?: number;
+  /** Which themes compete for a passage: those at the same depth (default 'level', measured best), siblings, or none. */
+  competition?: 'siblings' | 'level' | 'none';
+  /** Transcript context as a weighted mean, or scaled by the root of its weight (default 'mean'). */
+  contextScale?: 'mean' | 'sqrt';
+  /** One calibration per theme, or one for all themes (default 'theme'). */
+  calibrationScope?: 'theme' | 'pooled';
+  /** Ridge penalty of the signal-combination weights (default 1). */
+  ridge?: number;
+  /** Candidate signals; all by default. The lab switches them off to measure each. */
+  signals?: Partial<Record<SignalName, boolean>>;
+}
+
+/** The per-passage signals a theme's score combines. */
+export type SignalName =
+  | 'centroid' // cosine to the theme's centroid
+  | 'logodds' // mean weighted log-odds of the passage's terms
+  | 'exemplars' // mean cosine to the theme's nearest coded passages
+  | 'adjacent' // the combined base score of the passages just before and after
+  | 'transcript' // the base score of the rest of the transcript, decaying with distance
+  | 'question'; // the base score of the interviewer's question before the passage
+
+export interface TermWeight {
+  term: string;
+  /** Weighted log-odds ratio (theme vs the rest of the coded batch). */
+  weight: number;
+  z: number;
+}
+
+export interface ThemeReport {
+  themeId: string;
+  path: string;
+  /** Coded passages of the theme or any sub-theme. */
+  exemplars: number;
+  transcripts: number;
+  topTerms: TermWeight[];
+  /** Confidence at or above which a suggestion counts as above threshold. */
+  threshold: number;
+  /** Cross-validated precision and recall at the threshold; null when flagged. */
+  expectedPrecision: number | null;
+  expectedRecall: number | null;
+  /** True when the profile has no coded passage: built from the definition and seeds. */
+  seedOnly: boolean;
+  /** True when the theme has too few coded passages for its own figures. */
+  tooFew: boolean;
+  warnings: string[];
+}
+
+export type Reason =
+  | { kind: 'terms'; terms: { term: string; weight: number }[] }
+  | { kind: 'exemplar'; passageId: string; similarity: number }
+  | { kind: 'seeds'; terms: string[] }
+  | { kind: 'seed-only' } // "profile from definition and seeds only"
+  | { kind: 'context'; weight: number }
+  | { kind: 'question'; weight: number };
+
+export interface Candidate {
+  themeId: string;
+  /** Combined score (log-odds scale of the shared combination, before per-theme calibration). */
+  score: number;
+  /** Calibrated probability that the coder would give this theme. */
+  confidence: number;
+  aboveThreshold: boolean;
+  /** Chosen after the hierarchy rule (a sub-theme above threshold replaces its parent). */
+  chosen: boolean;
+  reasons: Reason[];
+}
+
+export interface PassageSuggestions {
+  passageId: string;
+  transcript: string;
+  /** Best first, by confidence. */
+  candidates: Candidate[];
+  unclaimed: boolean;
+}

@@ -1,0 +1,90 @@
+import { join } from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { CORPUS, freshStudy, snapshot, trellis } from './run.js';
+
+const FILES = ['t01-larch-staff-nurse.txt', 't02-kestrel-fy1.txt', 't03-harbour-hca.md', 't04-orchard-staff-nurse.vtt', 't08-orchard-hca.txt'];
+
+function demoStudy(code = true): string {
+  const dir = freshStudy();
+  expect(trellis(['template', 'set', join(CORPUS, 'template.txt')], dir).status).toBe(0);
+  expect(trellis(['add', ...FILES.map((f) => join(CORPUS, f))], dir).status).toBe(0);
+  if (code) expect(trellis(['sheet', 'import', join(CORPUS, 'initial-coding.csv'), '--coder', 'priya'], dir).status).toBe(0);
+  return dir;
+}
+
+/** The suggestions without the ids of the run that made them. */
+function content(stdout: string) {
+  const r = JSON.parse(stdout);
+  return r.passages.map((p: { candidates: { suggestion_id?: number }[] }) => ({
+    ...p,
+    candidates: p.candidates.map(({ suggestion_id: _id, ...c }) => c),
+  }));
+}
+
+describe('trellis suggest', () => {
+  let dir: string;
+  beforeAll(() => {
+    dir = demoStudy();
+  });
+
+  it('prints the scripting contract: ranked candidates with ids, paths, confidences, thresholds and reasons', () => {
+    const r = trellis(['suggest', '--transcript', 't08-orchard-hca', '--top', '4', '--json'], dir);
+    expect(r.status, r.stderr).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.passages.length).toBe(15); // t08's participant passages, none coded
+    for (const p of out.passages) {
+      expect(p).toEqual(expect.objectContaining({ passage_id: expect.stringMatching(/^t08-orchard-hca#\d+$/), transcript: 't08-orchard-hca', unclaimed: expect.any(Boolean) }));
+      expect(p.candidates).toHaveLength(4);
+      const conf = p.candidates.map((c: { confidence: number }) => c.confidence);
+      expect(conf).toEqual([...conf].sort((a, b) => b - a));
+      for (const c of p.candidates) {
+        expect(c).toEqual(expect.objectContaining({ suggestion_id: expect.any(Number), theme: expect.any(String), above_threshold: expect.any(Boolean), reasons: expect.any(Array) }));
+        expect(c.confidence).toBeGreaterThanOrEqual(0);
+        expect(c.confidence).toBeLessThanOrEqual(1);
+      }
+      expect(p.unclaimed).toBe(!p.candidates.some((c: { above_threshold: boolean }) => c.above_threshold));
+    }
+    const reasons = out.passages.flatMap((p: { candidates: { reasons: { kind: string; text: string }[] }[] }) => p.candidates[0]!.reasons);
+    expect(reasons.some((x: { kind: string }) => x.kind === 'terms')).toBe(true);
+    const ex = reasons.find((x: { kind: string }) => x.kind === 'exemplar');
+    expect(ex).toEqual(expect.objectContaining({ passage_id: expect.any(String), transcript: expect.any(String), snippet: expect.any(String), text: expect.any(String) }));
+  });
+
+  it('gives the same suggestions for the same study (deterministic), with the same model fingerprint', () => {
+    const a = trellis(['suggest', '--top', '3', '--json'], dir);
+    const b = trellis(['suggest', '--top', '3', '--json'], dir);
+    expect(content(a.stdout)).toEqual(content(b.stdout));
+    expect(JSON.parse(a.stdout).fingerprint).toBe(JSON.parse(b.stdout).fingerprint);
+    expect(JSON.parse(b.stdout).run_id).toBe(JSON.parse(a.stdout).run_id + 1);
+  });
+
+  it('marks matched terms in the text and summarises the run for people', () => {
+    const r = trellis(['suggest', '--transcript', 't08-orchard-hca'], dir);
+    expect(r.status).toBe(0);
+    expect(r.stdout).toMatch(/\[[A-Za-z-]+\]/); // matched terms in brackets (no colour when not a terminal)
+    expect(r.stdout).toMatch(/15 passages, \d+ with a theme above threshold \(\*\), \d+ unclaimed/);
+  });
+
+  it('explains, rather than crashes, when nothing is coded yet', () => {
+    const bare = demoStudy(false);
+    const before = snapshot(bare);
+    const r = trellis(['suggest'], bare);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toMatch(/no coded passages yet.*sheet import/);
+    expect(snapshot(bare)).toBe(before);
+  });
+
+  it('profiles a theme: top terms, exemplars, expected precision and recall, warnings', () => {
+    const r = trellis(['profile', 'Deterioration and escalation', '--json'], dir);
+    expect(r.status, r.stderr).toBe(0);
+    const [t] = JSON.parse(r.stdout).themes;
+    expect(t.path).toBe('Patient safety > Deterioration and escalation');
+    expect(t.exemplars).toBe(10);
+    expect(t.topTerms.length).toBeGreaterThan(3);
+    expect(t.topTerms.map((x: { term: string }) => x.term)).toEqual(expect.arrayContaining(['score']));
+    const all = JSON.parse(trellis(['profile', '--json'], dir).stdout).themes;
+    const allergies = all.find((x: { path: string }) => x.path.endsWith('> Allergies'));
+    expect(allergies.tooFew).toBe(true);
+    expect(allergies.expectedPrecision).toBeNull();
+  });
+});

@@ -1,0 +1,93 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { calibrate, fitIsotonic, fitPlatt } from '../../src/suggest/calibrate.js';
+import { logOdds } from '../../src/suggest/logodds.js';
+import { chooseThreshold, precisionRecallAt } from '../../src/suggest/thresholds.js';
+import { fitGrouped, sigmoid } from '../../src/suggest/logistic.js';
+
+const fx = JSON.parse(readFileSync(new URL('../reference/calibration.json', import.meta.url), 'utf8'));
+
+describe('Platt scaling against scikit-learn (tests/reference/calibration.json)', () => {
+  // Reference: sklearn.calibration._sigmoid_calibration, scikit-learn 1.2.1, via make_fixtures.py.
+  // scikit-learn stops its BFGS search at a looser tolerance than our Newton steps, hence 1e-4.
+  const m = fitPlatt(fx.platt.scores, fx.platt.labels);
+  it('finds the same a and b', () => {
+    expect(m.a).toBeCloseTo(fx.platt.a, 4);
+    expect(m.b).toBeCloseTo(fx.platt.b, 4);
+  });
+  it('gives the same probabilities', () => {
+    fx.platt.grid.forEach((s: number, i: number) => expect(calibrate(m, s)).toBeCloseTo(fx.platt.p[i], 4));
+  });
+});
+
+describe('isotonic regression against scikit-learn (tests/reference/calibration.json)', () => {
+  // Reference: IsotonicRegression(out_of_bounds="clip"), scikit-learn 1.2.1, via make_fixtures.py.
+  const m = fitIsotonic(fx.isotonic.x, fx.isotonic.y);
+  it('keeps the same threshold points', () => {
+    expect(m.x).toEqual(fx.isotonic.x_thresholds);
+    m.y.forEach((v, i) => expect(v).toBeCloseTo(fx.isotonic.y_thresholds[i], 12));
+  });
+  it('predicts the same values, interpolating and clipping', () => {
+    fx.isotonic.grid.forEach((s: number, i: number) => expect(calibrate(m, s)).toBeCloseTo(fx.isotonic.predicted[i], 12));
+  });
+});
+
+describe('weighted log-odds with an informative Dirichlet prior (Monroe, Colaresi & Quinn 2008)', () => {
+  it('is antisymmetric between the two groups', () => {
+    const a = logOdds(12, 400, 3, 900, 0.5, 50);
+    const b = logOdds(3, 900, 12, 400, 0.5, 50);
+    expect(a.delta).toBeCloseTo(-b.delta, 12);
+    expect(a.z).toBeCloseTo(-b.z, 12);
+  });
+  it('tends to the plain log odds ratio as the prior vanishes (eq. 16 with alpha -> 0)', () => {
+    const lo = logOdds(12, 400, 3, 900, 1e-9, 1e-7);
+    expect(lo.delta).toBeCloseTo(Math.log(12 / 388) - Math.log(3 / 897), 6);
+    // eq. 17: variance ~ 1/y_i + 1/y_j
+    expect(lo.z).toBeCloseTo(lo.delta / Math.sqrt(1 / 12 + 1 / 3), 6);
+  });
+  it('shrinks a rare term towards zero more than a common one', () => {
+    const rare = logOdds(1, 400, 0, 900, 0.2, 50);
+    const common = logOdds(40, 400, 0, 900, 0.2, 50);
+    expect(common.z).toBeGreaterThan(rare.z);
+    expect(rare.delta).toBeLessThan(Math.log((1 + 0.2) / 399) - Math.log(0.2 / 900) + 1e-9);
+  });
+});
+
+describe('thresholds for a target precision', () => {
+  const conf = [0.95, 0.9, 0.85, 0.8, 0.7, 0.6, 0.5, 0.4, 0.3, 0.2];
+  const y = [1, 1, 1, 0, 1, 0, 1, 0, 0, 0];
+  it('takes the lowest cut whose precision reaches the target', () => {
+    // cut at 0.7: 4 of 5 = 0.8 >= 0.75; at 0.5: 5 of 7 = 0.714 < 0.75
+    const c = chooseThreshold(conf, y, 0.75);
+    expect(c).toEqual({ threshold: 0.7, precision: 0.8, recall: 0.8, reached: true });
+    expect(precisionRecallAt(conf, y, 0.5)).toEqual({ precision: 5 / 7, recall: 1 });
+  });
+  it('falls back to the target itself when no cut reaches it', () => {
+    const c = chooseThreshold([0.9, 0.8, 0.7], [0, 1, 0], 0.9);
+    expect(c.reached).toBe(false);
+    expect(c.threshold).toBe(0.9);
+  });
+});
+
+describe('shared-weight logistic regression', () => {
+  it('recovers a known weight from noiseless-ish data', () => {
+    // y = 1 exactly when 2x - 1 + b_g > 0 for a deterministic grid: the fit separates the groups.
+    const xs: number[] = [];
+    const ys: number[] = [];
+    const gs: number[] = [];
+    for (let g = 0; g < 2; g++)
+      for (let i = 0; i < 200; i++) {
+        const x = -3 + (6 * i) / 199;
+        const p = sigmoid(1.5 * x + (g ? 1 : -1));
+        // deterministic "sampling": a fixed pseudo-random sequence
+        const u = ((i * 7919 + g * 104729) % 1000) / 1000;
+        xs.push(x);
+        ys.push(u < p ? 1 : 0);
+        gs.push(g);
+      }
+    const m = fitGrouped({ x: Float64Array.from(xs), k: 1, y: Uint8Array.from(ys), group: Int32Array.from(gs), groups: 2 }, 1e-6, 1e-6);
+    expect(m.weights[0]).toBeGreaterThan(1);
+    expect(m.weights[0]).toBeLessThan(2.2);
+    expect(m.intercepts[1]! - m.intercepts[0]!).toBeGreaterThan(1);
+  });
+});
