@@ -8,6 +8,8 @@ import { registerSuggest } from './suggest.js';
 import { registerProfile } from './profile.js';
 import { registerDecide } from './decide.js';
 import { registerLog } from './log.js';
+import { registerReview } from './review.js';
+import { registerAgree, registerStats } from './stats.js';
 import { registerTemplate } from './template.js';
 
 export const CAUTIONS = `
@@ -42,16 +44,21 @@ ${CAUTIONS}`,
   registerProfile(program);
   registerDecide(program);
   registerLog(program);
+  registerReview(program);
+  registerStats(program);
+  registerAgree(program);
   return program;
 }
 
 /** Runs the CLI; exit status 0 success, 1 user error, 2 internal error. */
 export async function main(argv: string[]): Promise<number> {
   // Output piped into a pager or `head` that stops reading is not an error.
-  process.stdout.on('error', (e: NodeJS.ErrnoException) => {
-    if (e.code === 'EPIPE') process.exit(0);
-    throw e;
-  });
+  if (!process.stdout.listenerCount('error')) {
+    process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+      if (e.code === 'EPIPE') process.exit(0);
+      throw e;
+    });
+  }
   const program = buildProgram();
   program.exitOverride();
   try {

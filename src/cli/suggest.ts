@@ -71,6 +71,7 @@ Examples:
                 theme: path(c.themeId),
                 confidence: round(c.confidence),
                 above_threshold: c.aboveThreshold,
+                chosen: c.chosen,
                 reasons: c.reasons.map((r) => reasonJson(r, snippets)),
               })),
             })),

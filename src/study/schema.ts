@@ -108,7 +108,7 @@ export const MIGRATIONS: string[] = [
     id            INTEGER PRIMARY KEY,
     at            TEXT NOT NULL,
     coder         TEXT NOT NULL,
-    action        TEXT NOT NULL CHECK (action IN ('accept', 'reject', 'recode', 'defer', 'undo')),
+    action        TEXT NOT NULL CHECK (action IN ('accept', 'reject', 'recode', 'defer', 'undo', 'promote', 'dismiss')),
     suggestion_id INTEGER,  -- no foreign key: the entry keeps its own copy of what was suggested
     passage_id    TEXT,
     transcript    TEXT,
@@ -120,7 +120,8 @@ export const MIGRATIONS: string[] = [
     rev           INTEGER,
     fingerprint   TEXT,
     bulk          INTEGER NOT NULL DEFAULT 0,
-    undoes        INTEGER REFERENCES decisions(id)
+    undoes        INTEGER REFERENCES decisions(id),
+    cluster_id    INTEGER  -- promote and dismiss act on a cluster of unclaimed passages
   );
   CREATE INDEX decisions_passage ON decisions (passage_id);
   CREATE INDEX decisions_suggestion ON decisions (suggestion_id);
@@ -137,6 +138,35 @@ export const MIGRATIONS: string[] = [
     coder      TEXT NOT NULL,
     passage_id TEXT NOT NULL,
     PRIMARY KEY (coder, passage_id)
+  ) WITHOUT ROWID;
+  `,
+  // 4: discovery: clusters of unclaimed passages, and what the researcher made of them.
+  `
+  CREATE TABLE discovery_runs (
+    id          INTEGER PRIMARY KEY,
+    created_at  TEXT NOT NULL,
+    rev         INTEGER NOT NULL,
+    suggestion_run INTEGER NOT NULL REFERENCES suggestion_runs(id),
+    pool        INTEGER NOT NULL,  -- unclaimed passages clustered
+    k           INTEGER NOT NULL,
+    silhouettes TEXT NOT NULL,     -- JSON [{k, silhouette}]
+    options     TEXT NOT NULL
+  );
+  CREATE TABLE clusters (
+    id          INTEGER PRIMARY KEY,
+    run_id      INTEGER NOT NULL REFERENCES discovery_runs(id),
+    label       TEXT NOT NULL,     -- C1, C2, ... within the run, largest first
+    size        INTEGER NOT NULL,
+    cohesion    REAL NOT NULL,
+    detail      TEXT NOT NULL,     -- JSON: terms, central passages, transcripts, speakers
+    status      TEXT NOT NULL DEFAULT 'open' CHECK (status IN ('open', 'promoted', 'dismissed')),
+    theme_id    TEXT               -- the theme it was promoted into
+  );
+  CREATE TABLE cluster_passages (
+    cluster_id  INTEGER NOT NULL REFERENCES clusters(id),
+    passage_id  TEXT NOT NULL,
+    similarity  REAL NOT NULL,     -- cosine to the cluster centre
+    PRIMARY KEY (cluster_id, passage_id)
   ) WITHOUT ROWID;
   `,
 ];

@@ -58,8 +58,11 @@ export function suggest(db: DB, opts: SuggestOptions = {}): SuggestRun {
   const predicted = model.predict(targets, { reasons: 3 });
   const kept = predicted.map((p) => {
     const open = rejected.size ? p.candidates.filter((c) => !rejected.has(`${p.passageId}\u0000${c.themeId}`)) : p.candidates;
+    // Best first: the themes the hierarchy rule chose (the most specific ones above threshold),
+    // then the rest by confidence; a parent's confidence always includes its sub-themes'.
     const chosen = open.filter((c) => c.chosen);
-    return { ...p, unclaimed: chosen.length === 0, candidates: top ? open.slice(0, top) : chosen.length ? chosen : open.slice(0, 1) };
+    const ranked = [...chosen, ...open.filter((c) => !c.chosen)];
+    return { ...p, unclaimed: chosen.length === 0, candidates: top ? ranked.slice(0, top) : chosen.length ? chosen : ranked.slice(0, 1) };
   });
 
   return db.transaction(() => {

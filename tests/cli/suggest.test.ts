@@ -35,8 +35,14 @@ describe('trellis suggest', () => {
     for (const p of out.passages) {
       expect(p).toEqual(expect.objectContaining({ passage_id: expect.stringMatching(/^t08-orchard-hca#\d+$/), transcript: 't08-orchard-hca', unclaimed: expect.any(Boolean) }));
       expect(p.candidates).toHaveLength(4);
-      const conf = p.candidates.map((c: { confidence: number }) => c.confidence);
-      expect(conf).toEqual([...conf].sort((a, b) => b - a));
+      // Best first: the themes the hierarchy rule chose, then the rest, each by confidence.
+      const chosen = p.candidates.filter((c: { chosen: boolean }) => c.chosen);
+      expect(p.candidates.slice(0, chosen.length)).toEqual(chosen);
+      for (const part of [chosen, p.candidates.slice(chosen.length)]) {
+        const conf = part.map((c: { confidence: number }) => c.confidence);
+        expect(conf).toEqual([...conf].sort((a, b) => b - a));
+      }
+      for (const c of chosen) expect(c.above_threshold).toBe(true);
       for (const c of p.candidates) {
         expect(c).toEqual(expect.objectContaining({ suggestion_id: expect.any(Number), theme: expect.any(String), above_threshold: expect.any(Boolean), reasons: expect.any(Array) }));
         expect(c.confidence).toBeGreaterThanOrEqual(0);

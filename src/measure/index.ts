@@ -1,0 +1,6 @@
+/** Statistics over data the study already holds; pure functions, no I/O. */
+export * from './agreement.js';
+export * from './acceptance.js';
+export * from './calibration.js';
+export * from './saturation.js';
+export * from './clustering.js';

@@ -1,0 +1,79 @@
+/** Everything a report or codebook shows, gathered from the study once; renderers only format it. */
+
+export interface ReportTheme {
+  id: string;
+  number: string; // "1.2.1"
+  name: string;
+  path: string;
+  depth: number;
+  apriori: boolean;
+  definition: string;
+  include: string;
+  exclude: string;
+  seeds: string[];
+  /** Passages coded to this theme itself / to it or any sub-theme. */
+  direct: number;
+  total: number;
+  /** Most representative coded quotes (closest to the theme's centroid first). */
+  quotes: { passageId: string; transcript: string; speaker: string | null; time: string; text: string }[];
+}
+
+export interface ReportRevision {
+  rev: number;
+  at: string;
+  author: string;
+  action: string;
+  reason: string | null;
+  changes: string[]; // readable lines: "renamed A -> B"
+}
+
+export interface AcceptanceRow {
+  label: string; // a theme path, a day, a band
+  decided: number;
+  accepted: number;
+  rate: number | null;
+}
+
+export interface CalibrationRow {
+  band: string; // "0.7-0.8"
+  lower: number;
+  upper: number;
+  count: number;
+  meanConfidence: number | null;
+  acceptance: number | null;
+}
+
+export interface ReportCluster {
+  id: number;
+  label: string;
+  size: number;
+  terms: string[];
+  transcripts: number;
+  cohesion: number;
+  status: 'open' | 'promoted' | 'dismissed';
+  examples: string[]; // snippets of the passages closest to its centre
+}
+
+export interface AgreementRow {
+  theme: string; // a path, or "all themes, pooled"
+  units: number;
+  percentAgreement: number | null;
+  kappa: number | null;
+  alpha: number | null;
+  band: string | null;
+}
+
+export interface ReportData {
+  title: string;
+  generatedAt: string;
+  counts: { transcripts: number; passages: number; participant: number; coded: number; themes: number; revision: number | null };
+  themes: ReportTheme[];
+  revisions: ReportRevision[];
+  /** Theme x transcript passage counts (rolled up over sub-themes), themes in template order. */
+  heatmap: { transcripts: string[]; themes: string[]; counts: number[][] };
+  acceptance: { overall: AcceptanceRow; perTheme: AcceptanceRow[]; overTime: { index: number; at: string; rate: number }[]; calibration: CalibrationRow[] };
+  saturation: { transcript: string; order: number; newThemes: number; newSubThemes: number; cumulative: number }[];
+  unclaimed: { share: number | null; passages: number; unclaimed: number; clusters: ReportCluster[] };
+  agreement: { coders: string[]; rows: AgreementRow[]; bandsSource: string; caution: string } | null;
+  cautions: string[];
+}

@@ -1,0 +1,123 @@
+import { acceptanceReport, type AcceptanceReport, type DecisionRecord } from '../measure/acceptance.js';
+import { agreementReport, type AgreementReport, type CodingRecord, type CodedRecord } from '../measure/agreement.js';
+import { saturationCurve, type SaturationReport } from '../measure/saturation.js';
+import { walk } from '../template/paths.js';
+import type { DB } from './db.js';
+import { effectiveDecisions } from './decisions.js';
+import { currentTemplate, revisionHistory } from './template.js';
+
+/** The pseudo-coder standing for trellis's above-threshold suggestions in agreement figures. */
+export const TOOL_CODER = 'trellis';
+
+export interface StudyStats {
+  acceptance: AcceptanceReport;
+  /** Participant passages with a coding, of all participant passages. */
+  coverage: { coded: number; participant: number; share: number | null };
+  /** The latest suggestion run: how many of its passages no theme claimed. */
+  unclaimed: { run: number | null; passages: number; unclaimed: number; share: number | null };
+  saturation: SaturationReport;
+  /**
+   * Re-codes to a sub-theme of the suggested theme: the suggestion named the right area and the
+   * coder chose a finer theme. Counted apart, and in a second rate that takes them as right.
+   */
+  refined: { count: number; rate: number | null };
+}
+
+export function decisionRecords(db: DB): DecisionRecord[] {
+  return effectiveDecisions(db)
+    .filter((d) => d.theme_id && d.confidence !== null)
+    .map((d) => ({
+      action: d.action as DecisionRecord['action'],
+      themeId: d.theme_id!,
+      chosenThemeId: d.chosen_theme,
+      confidence: d.confidence!,
+      rank: d.rank ?? 1,
+      transcript: d.transcript ?? '',
+      coder: d.coder,
+      at: d.at,
+      bulk: d.bulk === 1,
+    }));
+}
+
+export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyStats {
+  const cov = db
+    .prepare(
+      `SELECT (SELECT COUNT(*) FROM passages WHERE role = 'participant') AS participant,
+              (SELECT COUNT(DISTINCT c.passage_id) FROM codings c JOIN passages p ON p.id = c.passage_id
+                WHERE c.removed_at IS NULL AND p.role = 'participant') AS coded`,
+    )
+    .get() as { participant: number; coded: number };
+  const run = db.prepare('SELECT id, passages, unclaimed FROM suggestion_runs ORDER BY id DESC LIMIT 1').get() as
+    | { id: number; passages: number; unclaimed: number }
+    | undefined;
+  const firsts = db
+    .prepare(
+      `SELECT t.name AS transcript, MIN(c.created_at) AS firstCodedAt FROM codings c
+       JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id
+       GROUP BY t.id ORDER BY firstCodedAt, t.id`,
+    )
+    .all() as { transcript: string; firstCodedAt: string }[];
+  const records = decisionRecords(db).filter((d) => !(opts.excludeBulk && d.bulk));
+  const parent = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.parentId]));
+  const under = (id: string | null | undefined, ancestor: string) => {
+    for (let p = id ? parent.get(id) : null; p; p = parent.get(p)) if (p === ancestor) return true;
+    return false;
+  };
+  const refined = records.filter((d) => d.action === 'recode' && under(d.chosenThemeId, d.themeId)).length;
+  const acceptance = acceptanceReport(records);
+  const { decided, accepted } = acceptance.overall;
+  return {
+    acceptance,
+    refined: { count: refined, rate: decided ? (accepted + refined) / decided : null },
+    coverage: { ...cov, share: cov.participant ? cov.coded / cov.participant : null },
+    unclaimed: run
+      ? { run: run.id, passages: run.passages, unclaimed: run.unclaimed, share: run.passages ? run.unclaimed / run.passages : null }
+      : { run: null, passages: 0, unclaimed: 0, share: null },
+    saturation: saturationCurve(revisionHistory(db), firsts),
+  };
+}
+
+export interface AgreementOptions {
+  coders: string[];
+  transcripts?: string[];
+}
+
+/**
+ * Inter-coder agreement over the passages the named coders looked at. The name `trellis` stands
+ * for the tool: its above-threshold suggestions from the latest run that covered each passage.
+ */
+export function agreement(db: DB, opts: AgreementOptions): AgreementReport {
+  const inTranscripts = <R extends { transcript: string }>(rows: R[]): R[] =>
+    opts.transcripts?.length ? rows.filter((r) => opts.transcripts!.includes(r.transcript)) : rows;
+  const humans = opts.coders.filter((c) => c !== TOOL_CODER);
+  const q = (sql: string, ...args: unknown[]) => db.prepare(sql).all(...args) as { coder: string; passage_id: string; transcript: string; theme_id?: string }[];
+  const marks = humans.map(() => '?').join(',');
+  const seen = humans.length
+    ? inTranscripts(q(`SELECT s.coder, s.passage_id, t.name AS transcript FROM seen s JOIN passages p ON p.id = s.passage_id JOIN transcripts t ON t.id = p.transcript_id WHERE s.coder IN (${marks})`, ...humans))
+    : [];
+  const codings = humans.length
+    ? inTranscripts(q(`SELECT c.coder, c.passage_id, c.theme_id, t.name AS transcript FROM codings c JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id WHERE c.removed_at IS NULL AND c.coder IN (${marks})`, ...humans))
+    : [];
+  const coded: CodedRecord[] = seen.map((s) => ({ coder: s.coder, passageId: s.passage_id }));
+  const records: CodingRecord[] = codings.map((c) => ({ coder: c.coder, passageId: c.passage_id, themeId: c.theme_id! }));
+  for (const c of codings) coded.push({ coder: c.coder, passageId: c.passage_id });
+  if (opts.coders.includes(TOOL_CODER)) {
+    // The latest run that covered each passage, and its chosen (above-threshold) themes.
+    const latest = inTranscripts(
+      db
+        .prepare(
+          `SELECT s.passage_id, t.name AS transcript, MAX(s.run_id) AS run_id FROM suggestions s
+           JOIN passages p ON p.id = s.passage_id JOIN transcripts t ON t.id = p.transcript_id GROUP BY s.passage_id`,
+        )
+        .all() as { passage_id: string; transcript: string; run_id: number }[],
+    );
+    const chosen = db.prepare('SELECT theme_id FROM suggestions WHERE run_id = ? AND passage_id = ? AND chosen = 1');
+    for (const l of latest) {
+      coded.push({ coder: TOOL_CODER, passageId: l.passage_id });
+      for (const r of chosen.all(l.run_id, l.passage_id) as { theme_id: string }[]) records.push({ coder: TOOL_CODER, passageId: l.passage_id, themeId: r.theme_id });
+    }
+  }
+  const passages = [...new Set(coded.map((c) => c.passageId))].sort();
+  const themes = [...walk(currentTemplate(db))].map((e) => e.node.id);
+  return agreementReport({ passages, coders: opts.coders, themes, codings: records, coded });
+}

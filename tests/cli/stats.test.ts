@@ -1,0 +1,72 @@
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { CORPUS, freshStudy, trellis, write } from './run.js';
+
+const json = (dir: string, args: string[]) => {
+  const r = trellis([...args, '--json'], dir);
+  expect(r.status, r.stderr).toBe(0);
+  return JSON.parse(r.stdout);
+};
+
+describe('trellis agree', () => {
+  it("computes per-theme Cohen's kappa and Krippendorff's alpha from two coders' sheets", () => {
+    const dir = freshStudy();
+    write(dir, 'template.txt', 'Queues\nBreaks\n');
+    trellis(['template', 'set', 'template.txt'], dir);
+    write(dir, 'notes.txt', Array.from({ length: 10 }, (_, i) => `Paragraph ${i + 1} about the morning queue for tablets.`).join('\n\n'));
+    trellis(['add', 'notes.txt'], dir);
+    const sheet = (present: number[]) =>
+      'passage_id,themes\n' + Array.from({ length: 10 }, (_, i) => `notes#${i + 1},${present.includes(i + 1) ? 'Queues' : ''}`).join('\n') + '\n';
+    write(dir, 'a.csv', sheet([1, 2, 3, 4, 5]));
+    write(dir, 'b.csv', sheet([1, 2, 3, 4, 6]));
+    expect(trellis(['sheet', 'import', 'a.csv', '--coder', 'ann'], dir).status).toBe(0);
+    expect(trellis(['sheet', 'import', 'b.csv', '--coder', 'ben'], dir).status).toBe(0);
+    const r = json(dir, ['agree', '--coders', 'ann,ben']);
+    const queues = r.themes.find((t: { units: number; present: number }) => t.present > 0);
+    // Worked by hand (the standard formula): both present 4, one each alone, both absent 4:
+    // p_o = 0.8, p_e = 0.5 x 0.5 + 0.5 x 0.5 = 0.5, kappa = (0.8 - 0.5) / (1 - 0.5) = 0.6.
+    expect(queues.units).toBe(10);
+    expect(queues.percentAgreement).toBeCloseTo(0.8, 10);
+    expect(queues.kappa.value).toBeCloseTo(0.6, 10);
+    expect(queues.kappa.band).toBe('moderate');
+    // Alpha, nominal, worked by hand with Krippendorff's coincidence matrix: n = 20 values,
+    // o(P,P) = 8, o(A,A) = 8, o(P,A) = o(A,P) = 2, n_P = n_A = 10; D_o = 4/20 = 0.2,
+    // D_e = 2 x 10 x 10 / (20 x 19) = 0.5263; alpha = 1 - 0.2 / 0.5263 = 0.62.
+    expect(queues.alpha.value).toBeCloseTo(0.62, 10);
+    expect(r.bandsSource).toMatch(/Landis.*Koch.*1977/);
+    const text = trellis(['agree', '--coders', 'ann,ben'], dir).stdout;
+    expect(text).toMatch(/support, but do not replace/);
+    expect(trellis(['agree', '--coders', 'ann'], dir).status).toBe(1);
+  });
+});
+
+describe('trellis stats', () => {
+  it('counts acceptance overall, by confidence band and by theme, with coverage and saturation', () => {
+    const dir = freshStudy();
+    expect(trellis(['template', 'set', join(CORPUS, 'template.txt')], dir).status).toBe(0);
+    const files = ['t01-larch-staff-nurse.txt', 't02-kestrel-fy1.txt', 't03-harbour-hca.md', 't04-orchard-staff-nurse.vtt', 't05-ward9-fy2.txt'];
+    expect(trellis(['add', ...files.map((f) => join(CORPUS, f))], dir).status).toBe(0);
+    expect(trellis(['sheet', 'import', join(CORPUS, 'initial-coding.csv'), '--coder', 'priya'], dir).status).toBe(0);
+    const sug = json(dir, ['suggest', '--transcript', 't05-ward9-fy2', '--top', '2']);
+    const tops = sug.passages.map((p: { candidates: { suggestion_id: number; confidence: number; theme: string }[] }) => p.candidates[0]);
+    const other = tops[4].theme === 'Team communication' ? 'Training and support' : 'Team communication';
+    json(dir, ['decide', String(tops[0].suggestion_id), 'accept', '--coder', 'tom']);
+    json(dir, ['decide', String(tops[1].suggestion_id), 'accept', '--coder', 'tom']);
+    json(dir, ['decide', String(tops[2].suggestion_id), 'reject', '--coder', 'tom']);
+    json(dir, ['decide', String(tops[3].suggestion_id), 'defer', '--coder', 'tom']);
+    json(dir, ['decide', String(tops[4].suggestion_id), 'reject', '--theme', other, '--coder', 'tom']);
+    // A new theme added while coding t05 shows on the saturation curve.
+    expect(trellis(['template', 'add', 'Paper workarounds'], dir).status).toBe(0);
+    const s = json(dir, ['stats']);
+    expect(s.acceptance.overall).toMatchObject({ decided: 4, accepted: 2, rejected: 1, recoded: 1, deferred: 1, rate: 0.5 });
+    const bands = s.acceptance.calibration.filter((b: { count: number }) => b.count);
+    expect(bands.reduce((n: number, b: { count: number }) => n + b.count, 0)).toBe(4);
+    const inBand = (c: number) => bands.find((b: { lower: number; upper: number }) => c >= b.lower && c < b.upper + 1e-9);
+    expect(inBand(tops[0].confidence)).toBeDefined();
+    expect(s.coverage.coded).toBe(52 + 3);
+    expect(s.acceptance.recodes).toHaveLength(1);
+    const last = s.saturation.curve.at(-1);
+    expect(last.transcript).toBe('t05-ward9-fy2');
+    expect(last.newThemes).toBe(1);
+  });
+});
