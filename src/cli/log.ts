@@ -2,9 +2,8 @@ import type { Command } from 'commander';
 import { writeFileSync } from 'node:fs';
 import { stringify } from 'csv-stringify/sync';
 import { UserError } from '../errors.js';
-import { allDecisions } from '../study/decisions.js';
+import { decisionLog } from '../study/decisions.js';
 import { currentTemplate } from '../study/template.js';
-import { pathOf } from '../template/paths.js';
 import { studyCommand, withStudy, type StudyOpts } from './common.js';
 import { describeDecision } from './decide.js';
 import { printJson, say } from './output.js';
@@ -18,15 +17,7 @@ export function registerLog(program: Command): void {
       if (!['text', 'csv', 'json'].includes(opts.format)) throw new UserError(`--format is text, csv or json (got "${opts.format}")`);
       await withStudy(opts, (db) => {
         const t = currentTemplate(db);
-        const path = (id: string | null) => {
-          if (!id) return '';
-          try {
-            return pathOf(t, id);
-          } catch {
-            return id;
-          }
-        };
-        const rows = allDecisions(db).map((d) => ({ ...d, theme_path: path(d.theme_id), chosen_path: path(d.chosen_theme) }));
+        const rows = decisionLog(db);
         const format = opts.json ? 'json' : opts.format;
         let text: string;
         if (format === 'json') text = JSON.stringify({ decisions: rows }, null, 2) + '\n';

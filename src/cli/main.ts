@@ -8,8 +8,8 @@ import { registerSuggest } from './suggest.js';
 import { registerProfile } from './profile.js';
 import { registerDecide } from './decide.js';
 import { registerLog } from './log.js';
-import { registerReview } from './review.js';
 import { registerAgree, registerStats } from './stats.js';
+import { registerExport } from './export.js';
 import { registerTemplate } from './template.js';
 
 export const CAUTIONS = `
@@ -44,9 +44,9 @@ ${CAUTIONS}`,
   registerProfile(program);
   registerDecide(program);
   registerLog(program);
-  registerReview(program);
   registerStats(program);
   registerAgree(program);
+  registerExport(program);
   return program;
 }
 

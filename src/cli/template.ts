@@ -5,7 +5,8 @@ import { UserError } from '../errors.js';
 import { decodeText } from '../ingest/decode.js';
 import { addTheme, mergeThemes, moveTheme, renameTheme, retireTheme, splitTheme } from '../template/ops.js';
 import { findByPath, splitPathList, walk } from '../template/paths.js';
-import type { Change, Revised, Template } from '../template/types.js';
+import { describeChange } from '../template/describe.js';
+import type { Revised, Template } from '../template/types.js';
 import { themeCounts } from '../study/status.js';
 import { reviseTemplate, setTemplate, type RevisionResult } from '../study/revise.js';
 import { currentRevision, revisionHistory } from '../study/template.js';
@@ -24,27 +25,6 @@ function revising(cmd: Command): Command {
   return withCommon(cmd)
     .option('--reason <text>', 'why: kept in the revision history (the audit trail)')
     .option('--coder <name>', 'who made the change', defaultCoder());
-}
-
-export function describeChange(c: Change): string {
-  switch (c.kind) {
-    case 'added':
-      return `added    ${c.path}`;
-    case 'removed':
-      return `removed  ${c.path} (retired; its history is kept)`;
-    case 'renamed':
-      return `renamed  ${c.from} -> ${c.to}`;
-    case 'moved':
-      return `moved    ${c.from} -> ${c.to}`;
-    case 'merged':
-      return `merged   ${c.from} into ${c.to}`;
-    case 'split':
-      return `split    ${c.path} into ${c.into.join(', ')}`;
-    case 'retired':
-      return `retired  ${c.path}`;
-    case 'edited':
-      return `edited   ${c.path} (${c.fields.join(', ')})`;
-  }
 }
 
 function report(r: RevisionResult, json?: boolean): void {

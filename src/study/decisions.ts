@@ -1,5 +1,5 @@
 import { UserError } from '../errors.js';
-import { findByPath, pathOf } from '../template/paths.js';
+import { findByPath, pathOf, walk } from '../template/paths.js';
 import type { DB } from './db.js';
 import { getSuggestion } from './suggestions.js';
 import { currentRevision, currentTemplate } from './template.js';
@@ -177,4 +177,11 @@ export function rejections(db: DB): { passageId: string; themeId: string }[] {
   return effectiveDecisions(db)
     .filter((d) => (d.action === 'reject' || d.action === 'recode') && d.passage_id && d.theme_id)
     .map((d) => ({ passageId: d.passage_id!, themeId: d.theme_id! }));
+}
+
+/** The whole log with theme paths beside the ids, for listing and export. */
+export function decisionLog(db: DB): (DecisionRow & { theme_path: string; chosen_path: string })[] {
+  const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+  const path = (id: string | null) => (id ? (paths.get(id) ?? id) : '');
+  return allDecisions(db).map((d) => ({ ...d, theme_path: path(d.theme_id), chosen_path: path(d.chosen_theme) }));
 }

@@ -1,0 +1,60 @@
+import type { Command } from 'commander';
+import { writeFileSync } from 'node:fs';
+import { stringify } from 'csv-stringify/sync';
+import { UserError } from '../errors.js';
+import { decisionLog } from '../study/decisions.js';
+import { codingsForExport, themeMatrix } from '../study/export.js';
+import { currentTemplate } from '../study/template.js';
+import { printOutline } from '../template/print.js';
+import { studyCommand, withStudy, type StudyOpts } from './common.js';
+import { say } from './output.js';
+
+const WHAT = ['codings', 'matrix', 'log', 'template'];
+const csv = (rows: Record<string, unknown>[] | unknown[][], header?: string[]) =>
+  '\ufeff' + stringify(rows as never, { header: !!header || !Array.isArray(rows[0]), columns: header, record_delimiter: '\r\n' });
+
+export function registerExport(program: Command): void {
+  studyCommand(program, 'export', 'export codings, the theme x transcript matrix, the decision log or the template')
+    .argument('<what>', WHAT.join(', '))
+    .requiredOption('--out <file>', 'the file to write')
+    .option('--format <format>', 'csv or json (codings, log); the matrix is CSV, the template an outline', 'csv')
+    .addHelpText(
+      'after',
+      `
+codings   every current coding: passage, transcript, speaker, time, theme path, coder, origin
+matrix    passages coded per theme (rows, rolled up over sub-themes) and transcript (columns)
+log       the decision log (the audit trail)
+template  the current template as an outline that "trellis template set" reads back
+
+Examples:
+  trellis export codings --out codings.csv
+  trellis export codings --format json --out codings.json
+  trellis export matrix --out matrix.csv
+  trellis export template --out template-rev7.txt`,
+    )
+    .action(async (what: string, opts: StudyOpts & { out: string; format: string }) => {
+      if (!WHAT.includes(what)) throw new UserError(`export what? one of ${WHAT.join(', ')} (got "${what}")`);
+      if (!['csv', 'json'].includes(opts.format)) throw new UserError(`--format is csv or json (got "${opts.format}")`);
+      const text = await withStudy(opts, (db) => {
+        switch (what) {
+          case 'codings': {
+            const rows = codingsForExport(db);
+            return opts.format === 'json' ? JSON.stringify({ codings: rows }, null, 2) + '\n' : csv(rows as unknown as Record<string, unknown>[], rows.length ? undefined : ['passage_id', 'transcript', 'speaker', 'time', 'theme', 'coder', 'origin', 'coded_at', 'text']);
+          }
+          case 'matrix': {
+            const m = themeMatrix(db);
+            return csv(m.rows.map((r) => [r.number, r.theme, ...r.counts]), ['number', 'theme', ...m.transcripts]);
+          }
+          case 'log': {
+            const rows = decisionLog(db);
+            return opts.format === 'json' ? JSON.stringify({ decisions: rows }, null, 2) + '\n' : csv(rows as unknown as Record<string, unknown>[]);
+          }
+          default:
+            return printOutline(currentTemplate(db));
+        }
+      });
+      writeFileSync(opts.out, text);
+      if (opts.json) process.stdout.write(JSON.stringify({ out: opts.out, what }) + '\n');
+      else say(`Wrote ${what} to ${opts.out}.`);
+    });
+}

@@ -1,0 +1,69 @@
+import { clock } from '../sheet/sheet.js';
+import { walk } from '../template/paths.js';
+import type { DB } from './db.js';
+import { currentTemplate } from './template.js';
+
+export interface CodingExport {
+  passage_id: string;
+  transcript: string;
+  speaker: string;
+  time: string;
+  theme: string;
+  coder: string;
+  origin: string;
+  coded_at: string;
+  text: string;
+}
+
+/** Every current coding with its passage, for analysis elsewhere (a retired theme is named so). */
+export function codingsForExport(db: DB): CodingExport[] {
+  const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+  const names = new Map((db.prepare('SELECT id, name FROM themes').all() as { id: string; name: string }[]).map((t) => [t.id, t.name]));
+  const rows = db
+    .prepare(
+      `SELECT c.passage_id, t.name AS transcript, p.speaker, p.start_s, c.theme_id, c.coder, c.origin, c.created_at, p.text
+       FROM codings c JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id
+       WHERE c.removed_at IS NULL ORDER BY t.id, p.ordinal, c.id`,
+    )
+    .all() as { passage_id: string; transcript: string; speaker: string | null; start_s: number | null; theme_id: string; coder: string; origin: string; created_at: string; text: string }[];
+  return rows.map((r) => ({
+    passage_id: r.passage_id,
+    transcript: r.transcript,
+    speaker: r.speaker ?? '',
+    time: clock(r.start_s),
+    theme: paths.get(r.theme_id) ?? `${names.get(r.theme_id) ?? r.theme_id} (retired)`,
+    coder: r.coder,
+    origin: r.origin,
+    coded_at: r.created_at,
+    text: r.text,
+  }));
+}
+
+/** Theme x transcript matrix of coded passages, rolled up over sub-themes (each passage once). */
+export function themeMatrix(db: DB): { transcripts: string[]; rows: { number: string; theme: string; counts: number[] }[] } {
+  const entries = [...walk(currentTemplate(db))];
+  const transcripts = (db.prepare('SELECT name FROM transcripts ORDER BY id').all() as { name: string }[]).map((t) => t.name);
+  const idx = new Map(transcripts.map((t, i) => [t, i]));
+  const coded = db
+    .prepare('SELECT DISTINCT c.theme_id, c.passage_id, t.name AS transcript FROM codings c JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id WHERE c.removed_at IS NULL')
+    .all() as { theme_id: string; passage_id: string; transcript: string }[];
+  const byTheme = new Map<string, Map<string, string>>();
+  for (const c of coded) {
+    if (!byTheme.has(c.theme_id)) byTheme.set(c.theme_id, new Map());
+    byTheme.get(c.theme_id)!.set(c.passage_id, c.transcript);
+  }
+  const rolled = new Map<string, Map<string, string>>();
+  for (const e of [...entries].reverse()) {
+    const m = new Map(byTheme.get(e.node.id) ?? []);
+    for (const ch of e.node.children) for (const [p, t] of rolled.get(ch.id) ?? []) m.set(p, t);
+    rolled.set(e.node.id, m);
+  }
+  return {
+    transcripts,
+    rows: entries.map((e) => {
+      const counts = new Array<number>(transcripts.length).fill(0);
+      for (const t of rolled.get(e.node.id)!.values()) counts[idx.get(t)!]!++;
+      return { number: e.number, theme: e.path, counts };
+    }),
+  };
+}

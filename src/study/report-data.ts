@@ -1,0 +1,189 @@
+import { basename, resolve } from 'node:path';
+import type { ReportCluster, ReportData, ReportTheme } from '../report/types.js';
+import { clock } from '../sheet/sheet.js';
+import { describeChange } from '../template/describe.js';
+import { walk } from '../template/paths.js';
+import { cosine, sum, normalised } from '../text/vectors.js';
+import { TfidfVectorizer } from '../text/tfidf.js';
+import { currentCodings } from './codings.js';
+import type { DB } from './db.js';
+import { agreement, studyStats } from './measures.js';
+import { modelInputs } from './model.js';
+import { listPassages } from './passages.js';
+import { studyStatus, themeCounts } from './status.js';
+import { currentTemplate, revisionHistory } from './template.js';
+
+export interface ReportOptions {
+  studyDir: string;
+  title?: string;
+  /** Quotes per theme (the report takes 3, the codebook 2). */
+  quotes?: number;
+  cautions: string[];
+}
+
+/** Gathers everything the report and the codebook show, from the study, in one pass. */
+export function reportData(db: DB, opts: ReportOptions): ReportData {
+  const template = currentTemplate(db);
+  const entries = [...walk(template)];
+  const status = studyStatus(db);
+  const counts = new Map(themeCounts(db, template).map((c) => [c.id, c]));
+  const passages = new Map(listPassages(db).map((p) => [p.id, p]));
+  const codings = currentCodings(db);
+
+  // Passages per theme, rolled up over sub-themes (a passage counts once per theme).
+  const direct = new Map<string, Set<string>>();
+  for (const c of codings) {
+    let s = direct.get(c.theme_id);
+    if (!s) direct.set(c.theme_id, (s = new Set()));
+    s.add(c.passage_id);
+  }
+  const rolled = new Map<string, Set<string>>();
+  for (const e of [...entries].reverse()) {
+    const s = new Set(direct.get(e.node.id) ?? []);
+    for (const ch of e.node.children) for (const p of rolled.get(ch.id) ?? []) s.add(p);
+    rolled.set(e.node.id, s);
+  }
+
+  const quotes = representativeQuotes(db, entries.map((e) => e.node.id), direct, rolled, opts.quotes ?? 3);
+  const themes: ReportTheme[] = entries.map((e) => ({
+    id: e.node.id,
+    number: e.number,
+    name: e.node.name,
+    path: e.path,
+    depth: e.depth,
+    apriori: e.node.apriori,
+    definition: e.node.definition,
+    include: e.node.include,
+    exclude: e.node.exclude,
+    seeds: e.node.seeds,
+    direct: counts.get(e.node.id)?.direct ?? 0,
+    total: counts.get(e.node.id)?.total ?? 0,
+    quotes: (quotes.get(e.node.id) ?? []).map((id) => {
+      const p = passages.get(id)!;
+      return { passageId: id, transcript: p.transcript, speaker: p.speaker, time: clock(p.start), text: p.text };
+    }),
+  }));
+
+  const transcripts = status.perTranscript.map((t) => t.name);
+  const tIndex = new Map(transcripts.map((t, i) => [t, i]));
+  const heat = entries.map((e) => {
+    const row = new Array<number>(transcripts.length).fill(0);
+    for (const pid of rolled.get(e.node.id) ?? []) {
+      const p = passages.get(pid);
+      if (p) row[tIndex.get(p.transcript)!]!++;
+    }
+    return row;
+  });
+
+  const stats = studyStats(db);
+  const paths = new Map(entries.map((e) => [e.node.id, e.path]));
+  const a = stats.acceptance;
+  const humanCoders = status.perCoder.map((c) => c.coder);
+  const agree = humanCoders.length >= 2 ? agreement(db, { coders: humanCoders }) : null;
+
+  return {
+    title: opts.title ?? `Study report: ${basename(resolve(opts.studyDir))}`,
+    generatedAt: new Date().toISOString(),
+    counts: {
+      transcripts: status.transcripts,
+      passages: status.passages.total,
+      participant: status.passages.participant,
+      coded: status.coded,
+      themes: status.themes,
+      revision: status.revision,
+    },
+    themes,
+    revisions: revisionHistory(db).map((r) => ({
+      rev: r.rev,
+      at: r.created_at,
+      author: r.author,
+      action: r.action,
+      reason: r.reason,
+      changes: r.changes.map(describeChange).map((s) => s.replace(/\s+/g, ' ')),
+    })),
+    heatmap: { transcripts, themes: entries.map((e) => e.path), counts: heat },
+    acceptance: {
+      overall: { label: 'all suggestions', decided: a.overall.decided, accepted: a.overall.accepted, rate: a.overall.rate },
+      perTheme: a.perTheme.map((g) => ({ label: paths.get(g.key) ?? `${g.key} (retired)`, decided: g.decided, accepted: g.accepted, rate: g.rate })),
+      overTime: a.cumulative.map((c) => ({ index: c.index, at: c.at, rate: c.rate })),
+      calibration: a.calibration.map((b) => ({ band: b.band, lower: b.lower, upper: b.upper, count: b.count, meanConfidence: b.meanConfidence, acceptance: b.rate })),
+    },
+    saturation: stats.saturation.curve.map((p) => ({ transcript: p.transcript, order: p.order, newThemes: p.newThemes, newSubThemes: p.newSubThemes, cumulative: p.cumulative })),
+    unclaimed: { share: stats.unclaimed.share, passages: stats.unclaimed.passages, unclaimed: stats.unclaimed.unclaimed, clusters: currentClusters(db) },
+    agreement:
+      agree && agree.pairablePassages
+        ? {
+            coders: agree.coders,
+            rows: [
+              ...agree.themes
+                .filter((t) => t.present > 0)
+                .map((t) => ({ theme: paths.get(t.themeId) ?? t.themeId, units: t.units, percentAgreement: t.percentAgreement, kappa: t.kappa.value, alpha: t.alpha.value, band: t.alpha.band })),
+              { theme: 'all themes, pooled', units: agree.pooled.units, percentAgreement: agree.pooled.percentAgreement, kappa: agree.pooled.kappa.value, alpha: agree.pooled.alpha.value, band: agree.pooled.alpha.band },
+            ],
+            bandsSource: agree.bandsSource,
+            caution: agree.caution,
+          }
+        : null,
+    cautions: opts.cautions,
+  };
+}
+
+/**
+ * The coded passages nearest each theme's centre (TF-IDF centroid of its own codings, or of its
+ * sub-themes' when it has none): the quotes that best show what the theme holds.
+ */
+function representativeQuotes(
+  db: DB,
+  themeIds: string[],
+  direct: Map<string, Set<string>>,
+  rolled: Map<string, Set<string>>,
+  n: number,
+): Map<string, string[]> {
+  const out = new Map<string, string[]>();
+  if (!themeIds.some((id) => rolled.get(id)?.size)) return out;
+  const { passages } = modelInputs(db);
+  const vec = new TfidfVectorizer();
+  const vectors = vec.fitTransform(passages.map((p) => p.terms));
+  const byId = new Map(passages.map((p, i) => [p.id, vectors[i]!]));
+  for (const id of themeIds) {
+    const own = [...(direct.get(id)?.size ? direct.get(id)! : (rolled.get(id) ?? []))].filter((p) => byId.has(p)).sort();
+    if (!own.length) continue;
+    const centre = normalised(sum(own.map((p) => byId.get(p)!)));
+    out.set(
+      id,
+      own
+        .map((p) => ({ p, s: cosine(byId.get(p)!, centre) }))
+        .sort((a, b) => b.s - a.s || (a.p < b.p ? -1 : 1))
+        .slice(0, n)
+        .map((x) => x.p),
+    );
+  }
+  return out;
+}
+
+/** The clusters of the latest discovery run, if there has been one. */
+function currentClusters(db: DB): ReportCluster[] {
+  const run = db.prepare('SELECT MAX(id) AS id FROM discovery_runs').get() as { id: number | null };
+  if (run.id === null) return [];
+  const rows = db.prepare('SELECT id, label, size, cohesion, detail, status FROM clusters WHERE run_id = ? ORDER BY id').all(run.id) as {
+    id: number;
+    label: string;
+    size: number;
+    cohesion: number;
+    detail: string;
+    status: ReportCluster['status'];
+  }[];
+  return rows.map((r) => {
+    const d = JSON.parse(r.detail) as { terms: { term: string }[]; transcripts: string[]; central: { text: string }[] };
+    return {
+      id: r.id,
+      label: r.label,
+      size: r.size,
+      cohesion: r.cohesion,
+      status: r.status,
+      terms: d.terms.map((t) => t.term),
+      transcripts: d.transcripts.length,
+      examples: d.central.map((c) => c.text),
+    };
+  });
+}
