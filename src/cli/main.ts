@@ -8,6 +8,7 @@ import { registerSuggest } from './suggest.js';
 import { registerProfile } from './profile.js';
 import { registerDecide } from './decide.js';
 import { registerLog } from './log.js';
+import { registerReview } from './review.js';
 import { registerAgree, registerStats } from './stats.js';
 import { registerExport } from './export.js';
 import { registerTemplate } from './template.js';
@@ -44,6 +45,7 @@ ${CAUTIONS}`,
   registerProfile(program);
   registerDecide(program);
   registerLog(program);
+  registerReview(program);
   registerStats(program);
   registerAgree(program);
   registerExport(program);

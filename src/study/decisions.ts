@@ -49,11 +49,14 @@ export function allDecisions(db: DB): DecisionRow[] {
   return db.prepare('SELECT * FROM decisions ORDER BY id').all() as DecisionRow[];
 }
 
+/** The decision that still stands on this suggestion, or on the same passage and theme from another run. */
 function standing(db: DB, suggestionId: number): DecisionRow | undefined {
   return db
     .prepare(
-      `SELECT * FROM decisions d WHERE d.suggestion_id = ? AND d.action NOT IN ('undo', 'defer')
-       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id) ORDER BY d.id DESC LIMIT 1`,
+      `SELECT d.* FROM decisions d, suggestions s WHERE s.id = ?
+         AND (d.suggestion_id = s.id OR (d.passage_id = s.passage_id AND d.theme_id = s.theme_id))
+         AND d.action NOT IN ('undo', 'defer')
+         AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id) ORDER BY d.id DESC LIMIT 1`,
     )
     .get(suggestionId) as DecisionRow | undefined;
 }
@@ -63,7 +66,8 @@ function standing(db: DB, suggestionId: number): DecisionRow | undefined {
  * re-code becomes a coding whose origin says so; a reject is kept as negative evidence.
  */
 export function decide(db: DB, d: DecideInput): DecisionRow {
-  return db.transaction(() => record(db, d))();
+  // IMMEDIATE: it reads, then writes; another process committing in between must make it wait, not fail.
+  return db.transaction(() => record(db, d)).immediate();
 }
 
 function record(db: DB, d: DecideInput): DecisionRow {
@@ -149,7 +153,7 @@ export function undo(db: DB, coder: string, decisionId?: number, note?: string):
     );
     db.prepare("UPDATE codings SET removed_at = ?, removed_by = ? WHERE decision_id = ? AND removed_at IS NULL").run(now, coder, target.id);
     return db.prepare('SELECT * FROM decisions WHERE id = ?').get(id) as DecisionRow;
-  })();
+  }).immediate();
 }
 
 /**
@@ -169,7 +173,7 @@ export function acceptAllAbove(db: DB, minConfidence: number, themePath: string,
       )
       .all(run.id, theme, minConfidence) as { id: number }[];
     return ids.filter((r) => !standing(db, r.id)).map((r) => record(db, { suggestionId: r.id, action: 'accept', coder, note, bulk: true }));
-  })();
+  }).immediate();
 }
 
 /** (passage, theme) pairs a coder rejected or re-coded away from: negative evidence. */

@@ -104,12 +104,13 @@ export function themeOrder(db: DB): Map<string, number> {
  * decisions), then the queue: passages of the run that are not coded and have no standing
  * decision, filtered and ordered.
  */
-export function startReview(db: DB, setup: ReviewSetup = {}): ReviewStart {
+export function startReview(db: DB, setup: ReviewSetup = {}, fitting: () => void = () => undefined): ReviewStart {
   let within: Set<string> | null = null;
   if (setup.theme) {
     const node = findByPath(currentTemplate(db), setup.theme);
     within = new Set([...walk({ roots: [node] })].map((e) => e.node.id));
   }
+  fitting(); // the arguments are checked: the slow part starts
   const run = suggest(db, { top: setup.top ?? 5, transcripts: setup.transcripts });
   const thresholds = new Map(run.reports.map((r) => [r.themeId, r.threshold]));
   const place = new Map(
@@ -312,6 +313,8 @@ export interface PassageView {
   tokens: { text: string; lemmas: string[]; spans: Int32Array };
   before: Turn | null;
   after: Turn | null;
+  /** Passages in its transcript, for "passage 6 of 40". */
+  passages: number;
 }
 
 /** The passage with its analysis, and the whole turns just before and after it, for context. */
@@ -328,7 +331,8 @@ export function passageView(db: DB, passageId: string): PassageView | undefined 
       .all(passage.transcript, n) as { speaker: string | null; start: number | null; text: string }[];
     return rows.length ? { speaker: rows[0]!.speaker, start: rows[0]!.start, text: rows.map((r) => r.text).join(' ') } : null;
   };
-  return { passage, tokens, before: turn(passage.turn - 1), after: turn(passage.turn + 1) };
+  const count = db.prepare('SELECT COUNT(*) AS n FROM passages p JOIN transcripts t ON t.id = p.transcript_id WHERE t.name = ?').get(passage.transcript) as { n: number };
+  return { passage, tokens, before: turn(passage.turn - 1), after: turn(passage.turn + 1), passages: count.n };
 }
 
 /**
@@ -399,6 +403,8 @@ export class ReviewQueue {
 /** Acceptance this session: accepts and re-codes out of verdicts (a defer is not a verdict). */
 export class Tally {
   private readonly actions = new Map<number, string>();
+  /** Undo entries made this session. */
+  undos = 0;
 
   add(d: DecisionRow): void {
     this.actions.set(d.id, d.action);

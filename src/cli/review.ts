@@ -1,0 +1,605 @@
+import type { Command } from 'commander';
+import { resolve } from 'node:path';
+import { UserError } from '../errors.js';
+import type { DecisionRow } from '../study/decisions.js';
+import { openStudy, type DB } from '../study/db.js';
+import { getPassage } from '../study/passages.js';
+import {
+  AlreadyDecided,
+  ORDERS,
+  ReviewQueue,
+  Tally,
+  claimOn,
+  itemFromRun,
+  passageView,
+  recodeToNewTheme,
+  reviewDecide,
+  standingRejects,
+  startReview,
+  undoLatest,
+  type ReviewCandidate,
+  type ReviewItem,
+  type ReviewOrder,
+} from '../study/review.js';
+import { requireTranscripts } from '../study/transcripts.js';
+import { currentTemplate } from '../study/template.js';
+import { walk } from '../template/paths.js';
+import { collect, studyCommand, type StudyOpts } from './common.js';
+import { coderOf, describeDecision } from './decide.js';
+import { useColour } from './marks.js';
+import type { Snippets } from './reasons.js';
+import { decodeKeys, type Key } from './review-keys.js';
+import { MAX_MATCHES, renderScreen, type Mode, type ScreenModel, type Showing, type Style } from './review-screen.js';
+import { matchThemes, type ThemeEntry } from './review-search.js';
+
+interface ReviewOpts extends StudyOpts {
+  coder?: string;
+  order: string;
+  theme?: string;
+  transcript?: string[];
+  colour: boolean;
+}
+
+export const NEEDS_TERMINAL =
+  'review needs a terminal (it reads single keys); in scripts use: trellis decide SUGGESTION_ID accept|reject|defer --coder NAME';
+
+export function registerReview(program: Command): void {
+  const cmd = studyCommand(program, 'review', 'go through the suggestions one passage at a time, deciding with single keys');
+  // Shared by every study command, but an interactive screen has no JSON to give.
+  cmd.options.find((o) => o.long === '--json')?.hideHelp();
+  cmd
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .option('--order <order>', `${ORDERS.join(', ')}`, 'transcript')
+    .option('--theme <path>', 'only passages with a candidate of this theme or one of its sub-themes')
+    .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
+    .option('--no-colour', 'plain text only (also when NO_COLOR is set or TERM=dumb)')
+    .addHelpText(
+      'after',
+      `
+Starts with a fresh suggestion run, so the queue reflects the latest codings and decisions,
+then shows one passage at a time: where it is, the turns before and after it, the passage with
+the matched terms in [brackets], and up to five candidate themes with their confidence, a * when
+at or above the theme's threshold, and a reason. The queue holds the passages of the run that
+are not coded and have no standing decision.
+
+Keys (single keys, no Enter):
+  1-5    accept that candidate
+  x      reject: then 1-5 for that candidate, or x again for the top one
+  r      re-code: search the template by typing, or create a new sub-theme there and then
+  d      defer: the passage is skipped for the rest of this session
+  n      a note, kept with your next decision
+  u      undo your latest standing decision, and go back to its passage
+  Enter  after a reject: on to the next passage
+  ?      the keys;   q or Ctrl-C quit;   Esc cancels a prompt
+
+Orders:
+  transcript  transcript by transcript, in passage order (the default)
+  uncertain   top candidate's confidence nearest its theme's threshold first (0.5 when the
+              theme has none): where a decision teaches the model the most
+  theme       grouped by the top candidate's theme, in template order (transcript order within)
+  confidence  the top candidate's confidence, highest first
+
+Each decision is saved (its own transaction) before the next passage is drawn, and the screen
+says so; quitting or a crash loses nothing that the screen confirmed. Suggestions are aids:
+the researcher decides what each passage is about.
+
+Examples:
+  trellis review --coder alex
+  trellis review --coder alex --order uncertain --transcript t05-ward9-fy2
+  trellis review --coder alex --theme "Patient safety" --no-colour
+In scripts (no terminal), decide one suggestion at a time instead:
+  trellis decide 412 accept --coder alex`,
+    )
+    .action(async (opts: ReviewOpts) => {
+      if (!process.stdin.isTTY || !process.stdout.isTTY) throw new UserError(NEEDS_TERMINAL);
+      if (opts.json) throw new UserError('review is interactive and has no --json output; for scripts use "trellis suggest --json" and "trellis decide"');
+      if (!(ORDERS as readonly string[]).includes(opts.order)) throw new UserError(`--order is one of ${ORDERS.join(', ')} (got "${opts.order}")`);
+      const coder = coderOf(opts);
+      const db = openStudy(opts.study);
+      try {
+        requireTranscripts(db, opts.transcript);
+        const start = startReview(db, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder }, () =>
+          process.stdout.write('Fitting theme profiles and scoring passages...\n'),
+        );
+        const filters = [...(opts.transcript ?? []).map((t) => `transcript ${t}`), ...(opts.theme ? [`theme ${opts.theme}`] : [])];
+        const session = new Session(db, resolve(opts.study), coder, opts.order, filters, new ReviewQueue(start.items), {
+          colour: opts.colour && useColour(),
+          dumb: process.env.TERM === 'dumb',
+        });
+        const summary = await session.run();
+        process.stdout.write(summary + '\n');
+      } finally {
+        db.close();
+      }
+    });
+}
+
+interface Current extends Showing {
+  /** This session has a standing decision on the passage (a reject): Enter moves on. */
+  decidedHere: boolean;
+}
+
+const SIGNALS = ['SIGTERM', 'SIGHUP', 'SIGINT'] as const;
+
+/** One interactive session: reads keys, acts through src/study/review.ts, redraws. */
+class Session {
+  private mode: Mode = { kind: 'main' };
+  private current: Current | undefined;
+  private message = '';
+  private note: string | undefined;
+  private readonly tally = new Tally();
+  private finish = false;
+  private readonly snippets: Snippets;
+
+  constructor(
+    private readonly db: DB,
+    private readonly studyDir: string,
+    private readonly coder: string,
+    private readonly order: string,
+    private readonly filters: string[],
+    private readonly queue: ReviewQueue,
+    private readonly look: { colour: boolean; dumb: boolean },
+  ) {
+    const cache = new Map<string, { transcript: string; text: string } | undefined>();
+    this.snippets = {
+      get: (id) => {
+        if (!cache.has(id)) {
+          const p = getPassage(db, id);
+          cache.set(id, p ? { transcript: p.transcript, text: p.text } : undefined);
+        }
+        return cache.get(id);
+      },
+    };
+  }
+
+  /** Runs until q or Ctrl-C; resolves with a summary to print after the screen is restored. */
+  run(): Promise<string> {
+    const stdin = process.stdin;
+    const stdout = process.stdout;
+    const alt = !this.look.dumb;
+    return new Promise((done, fail) => {
+      const onData = (chunk: Buffer | string) => {
+        try {
+          for (const key of decodeKeys(chunk.toString())) {
+            this.handle(key);
+            if (this.finish) break;
+          }
+          if (!this.finish) this.draw();
+        } catch (e) {
+          // Not the coder's doing: restore the terminal, then report it as an internal error.
+          restore();
+          return fail(e);
+        }
+        if (this.finish) {
+          restore();
+          done(this.summary());
+        }
+      };
+      const onResize = () => this.draw();
+      const onSignal = (signal: NodeJS.Signals) => {
+        // The terminal is gone: nothing to restore or print to. Every decision is committed.
+        if (signal === 'SIGHUP') process.exit(0);
+        restore();
+        done(this.summary());
+      };
+      const restore = () => {
+        stdin.off('data', onData);
+        stdout.off('resize', onResize);
+        for (const s of SIGNALS) process.off(s, onSignal);
+        if (stdin.isTTY) stdin.setRawMode(false);
+        stdin.pause();
+        if (alt) stdout.write('\x1b[?25h\x1b[?1049l');
+      };
+      stdin.setRawMode(true);
+      stdin.setEncoding('utf8');
+      stdin.on('data', onData);
+      stdout.on('resize', onResize);
+      for (const s of SIGNALS) process.on(s, onSignal);
+      // The other screen of the terminal: the coder's scrollback is left as it was.
+      if (alt) stdout.write('\x1b[?1049h\x1b[?25l');
+      try {
+        this.advance();
+        if (this.queue.total === 0) this.message = 'No passage is waiting: every suggested passage is coded or decided.';
+        this.draw();
+      } catch (e) {
+        restore();
+        return fail(e);
+      }
+      stdin.resume();
+    });
+  }
+
+  private style(): Style {
+    const cols = process.stdout.columns || Number(process.env.COLUMNS) || 80;
+    return { ...this.look, width: Math.max(40, Math.min(cols, 120) - 1), rows: process.stdout.rows || undefined };
+  }
+
+  private matches(): ThemeEntry[] {
+    return this.mode.kind === 'search' ? matchThemes(this.mode.entries, this.mode.query).slice(0, MAX_MATCHES) : [];
+  }
+
+  private draw(): void {
+    const m: ScreenModel = {
+      coder: this.coder,
+      order: this.order,
+      filters: this.filters,
+      showing: this.current,
+      total: this.queue.total,
+      remaining: this.queue.remaining,
+      accepted: this.tally.accepted,
+      decided: this.tally.decided,
+      deferred: this.queue.deferred.size,
+      message: this.message,
+      note: this.note,
+      mode: this.mode,
+      matches: this.matches(),
+      snippets: this.snippets,
+    };
+    const screen = renderScreen(m, this.style());
+    // Clear and draw in one write; a dumb terminal gets the screens one after another.
+    process.stdout.write(this.look.dumb ? '\n\n' + screen + '\n' : '\x1b[H\x1b[2J' + screen);
+  }
+
+  private summary(): string {
+    const t = this.tally;
+    const parts = [`${t.count('accept')} accepted`, `${t.count('recode')} re-coded`, `${t.count('reject')} rejected`, `${t.count('defer')} deferred`, `${t.undos} undone`];
+    const pct = t.decided ? ` (${Math.round((100 * t.accepted) / t.decided)}%)` : '';
+    return (
+      `Review ended. This session: ${parts.join(', ')}.\n` +
+      `Acceptance ${t.accepted} of ${t.decided}${pct}. Every decision is in the log: trellis log --study ${this.studyDir}`
+    );
+  }
+
+  // ---- moving through the queue
+
+  /** Shows the next open passage; passages decided or coded elsewhere meanwhile are passed over. */
+  private advance(): void {
+    this.mode = { kind: 'main' };
+    for (;;) {
+      const item = this.queue.next();
+      if (!item) {
+        this.current = undefined;
+        return;
+      }
+      const claim = claimOn(this.db, item.passageId, this.tally.ids);
+      const view = claim ? undefined : passageView(this.db, item.passageId);
+      if (!view) {
+        this.queue.closed.add(item.passageId);
+        continue;
+      }
+      const rejected = standingRejects(this.db, item.candidates.map((c) => c.suggestionId));
+      this.current = { item, view, rejected, position: this.queue.positionOf(item.passageId), decidedHere: rejected.size > 0 };
+      if (rejected.size >= item.candidates.length) {
+        this.queue.done.add(item.passageId);
+        continue;
+      }
+      return;
+    }
+  }
+
+  private openCandidates(): ReviewCandidate[] {
+    return this.current ? this.current.item.candidates.filter((c) => !this.current!.rejected.has(c.suggestionId)) : [];
+  }
+
+  private describe(d: DecisionRow): string {
+    const text = describeDecision(d, currentTemplate(this.db));
+    const m = /^decision #(\d+): (.*)$/.exec(text);
+    return m ? `${m[2]} (decision #${m[1]})` : text;
+  }
+
+  /** Runs one write; says "saved" only once it has returned, i.e. once it is committed. */
+  private commit(work: () => DecisionRow): DecisionRow | undefined {
+    const passageId = this.current!.item.passageId;
+    try {
+      const d = work();
+      this.tally.add(d);
+      this.note = undefined;
+      this.message = `saved: ${this.describe(d)}`;
+      return d;
+    } catch (e) {
+      if (e instanceof AlreadyDecided || (e instanceof UserError && /already decided/.test(e.message))) {
+        // Another session got there first: nothing of ours was written; go on.
+        this.queue.closed.add(passageId);
+        this.advance();
+        this.message = `not saved: ${e.message}. On to the next passage.`;
+        return undefined;
+      }
+      if (e instanceof UserError) {
+        this.message = `not saved: ${e.message}`;
+        return undefined;
+      }
+      if (isBusy(e)) {
+        this.message = 'not saved: another process has been writing to the study for a while; press the key again in a moment.';
+        return undefined;
+      }
+      throw e;
+    }
+  }
+
+  private decideOn(c: ReviewCandidate, action: 'accept' | 'reject' | 'defer', themePath?: string): DecisionRow | undefined {
+    const passageId = this.current!.item.passageId;
+    return this.commit(() =>
+      reviewDecide(this.db, passageId, { suggestionId: c.suggestionId, action, themePath, note: this.note, coder: this.coder }, this.tally.ids),
+    );
+  }
+
+  // ---- keys
+
+  private handle(key: Key): void {
+    if (key.name === 'ctrl-c') return this.quit();
+    switch (this.mode.kind) {
+      case 'help':
+        this.mode = { kind: 'main' };
+        return;
+      case 'reject':
+        return this.onReject(key);
+      case 'note':
+        return this.onNote(key, this.mode);
+      case 'search':
+        return this.onSearch(key, this.mode);
+      case 'name':
+        return this.onName(key, this.mode);
+      case 'main':
+        return this.onMain(key);
+    }
+  }
+
+  /** A prompt replaces the last outcome line, which would only distract from it. */
+  private enter(mode: Mode): void {
+    this.mode = mode;
+    this.message = '';
+  }
+
+  private quit(): void {
+    this.finish = true;
+  }
+
+  private onMain(key: Key): void {
+    const ch = key.name === 'char' ? key.char : '';
+    if (ch === 'q' || key.name === 'ctrl-d') return this.quit();
+    if (ch === '?') return this.enter({ kind: 'help' });
+    if (ch === 'u') return this.undo();
+    if (key.name === 'escape') {
+      this.message = '';
+      return;
+    }
+    const cur = this.current;
+    if (!cur) {
+      this.message = 'The queue is done: u undoes your latest decision, q quits.';
+      return;
+    }
+    if (/^[1-9]$/.test(ch)) return this.accept(Number(ch));
+    if (ch === 'x') return this.enter({ kind: 'reject' });
+    if (ch === 'd') return this.defer();
+    if (ch === 'n') return this.enter({ kind: 'note', text: this.note ?? '' });
+    if (ch === 'r') return this.enter({ kind: 'search', purpose: 'recode', query: '', sel: 0, entries: this.themeEntries() });
+    if (key.name === 'enter' || ch === ' ') {
+      if (cur.decidedHere) {
+        this.queue.done.add(cur.item.passageId);
+        this.advance();
+        this.message = '';
+      } else this.message = 'Decide first (1-5 accept, x reject, r re-code), or d to defer it.';
+      return;
+    }
+    this.message = `"${ch || key.name}" is not a key here: press ? for the keys.`;
+  }
+
+  private candidate(n: number): ReviewCandidate | undefined {
+    const cur = this.current!;
+    const c = cur.item.candidates[n - 1];
+    if (!c) {
+      this.message = `There is no candidate ${n} for this passage.`;
+      return undefined;
+    }
+    if (cur.rejected.has(c.suggestionId)) {
+      this.message = `Candidate ${n} (${c.path}) is rejected already; u undoes that.`;
+      return undefined;
+    }
+    return c;
+  }
+
+  private accept(n: number): void {
+    const c = this.candidate(n);
+    if (!c) return;
+    const pid = this.current!.item.passageId;
+    if (this.decideOn(c, 'accept')) {
+      this.queue.done.add(pid);
+      this.advance();
+    }
+  }
+
+  private reject(n: number): void {
+    const c = this.candidate(n);
+    if (!c) return;
+    const cur = this.current!;
+    if (!this.decideOn(c, 'reject')) return;
+    cur.rejected = new Set([...cur.rejected, c.suggestionId]);
+    cur.decidedHere = true;
+    if (this.openCandidates().length === 0) {
+      this.queue.done.add(cur.item.passageId);
+      this.advance();
+      this.message += '. Every candidate is rejected: on to the next passage.';
+    } else this.message += '. Decide another candidate, or Enter for the next passage.';
+  }
+
+  private defer(): void {
+    const top = this.openCandidates()[0]!;
+    const pid = this.current!.item.passageId;
+    if (this.decideOn(top, 'defer')) {
+      this.queue.deferred.add(pid);
+      this.advance();
+    }
+  }
+
+  private onReject(key: Key): void {
+    this.mode = { kind: 'main' };
+    const ch = key.name === 'char' ? key.char : '';
+    if (key.name === 'escape') {
+      this.message = 'Reject cancelled.';
+      return;
+    }
+    if (/^[1-9]$/.test(ch)) return this.reject(Number(ch));
+    if (ch === 'x' || key.name === 'enter') {
+      const top = this.openCandidates()[0]!;
+      return this.reject(this.current!.item.candidates.indexOf(top) + 1);
+    }
+    this.message = 'Reject cancelled (press x, then 1-5 or x).';
+  }
+
+  private onNote(key: Key, mode: Extract<Mode, { kind: 'note' }>): void {
+    if (key.name === 'escape') {
+      this.mode = { kind: 'main' };
+      this.message = 'Note cancelled.';
+    } else if (key.name === 'enter') {
+      this.note = mode.text.trim() || undefined;
+      this.mode = { kind: 'main' };
+      this.message = this.note ? 'The note will be kept with your next decision.' : 'No note.';
+    } else editLine(mode, key);
+  }
+
+  // ---- re-coding
+
+  private themeEntries(): ThemeEntry[] {
+    return [...walk(currentTemplate(this.db))].map((e) => ({ id: e.node.id, path: e.path, name: e.node.name }));
+  }
+
+  private onSearch(key: Key, mode: Extract<Mode, { kind: 'search' }>): void {
+    const matches = this.matches();
+    const rows = matches.length + 1; // the last row: a new theme
+    if (key.name === 'escape') {
+      this.mode = { kind: 'main' };
+      this.message = mode.purpose === 'recode' ? 'Re-code cancelled.' : 'New theme cancelled.';
+      return;
+    }
+    if (key.name === 'up') mode.sel = (mode.sel + rows - 1) % rows;
+    else if (key.name === 'down') mode.sel = (mode.sel + 1) % rows;
+    else if (key.name === 'backspace') {
+      mode.query = mode.query.slice(0, -1);
+      mode.sel = 0;
+    } else if (key.name === 'ctrl-u') {
+      mode.query = '';
+      mode.sel = 0;
+    } else if (key.name === 'enter') this.chooseRow(mode, matches, mode.sel);
+    else if (key.name === 'char') {
+      if (/^[1-9]$/.test(key.char)) {
+        const i = Number(key.char) - 1;
+        if (i < matches.length) this.chooseRow(mode, matches, i);
+        else this.message = `There is no theme ${key.char} in the list.`;
+      } else if (key.char === '+') this.chooseRow(mode, matches, matches.length);
+      else {
+        mode.query += key.char;
+        mode.sel = 0;
+      }
+    }
+  }
+
+  private chooseRow(mode: Extract<Mode, { kind: 'search' }>, matches: ThemeEntry[], row: number): void {
+    const e = matches[row];
+    if (mode.purpose === 'recode') {
+      if (e) return this.recodeTo(e);
+      // "Create a new sub-theme here": its parent is found by the same search; a query that
+      // matched no theme is offered as the name.
+      this.mode = { kind: 'search', purpose: 'parent', query: '', sel: 0, entries: mode.entries, preset: matches.length ? '' : mode.query.trim() };
+      return;
+    }
+    this.mode = { kind: 'name', parentId: e ? e.id : null, parentPath: e ? e.path : null, text: mode.preset ?? '' };
+  }
+
+  private recodeTo(e: ThemeEntry): void {
+    const cur = this.current!;
+    const pid = cur.item.passageId;
+    this.mode = { kind: 'main' };
+    // The chosen theme is one of the open candidates: that is an accept of it, not a re-code.
+    const same = this.openCandidates().find((c) => c.themeId === e.id);
+    const done = same ? this.decideOn(same, 'accept') : this.decideOn(this.openCandidates()[0]!, 'accept', e.path);
+    if (done) {
+      this.queue.done.add(pid);
+      this.advance();
+    }
+  }
+
+  private onName(key: Key, mode: Extract<Mode, { kind: 'name' }>): void {
+    if (key.name === 'escape') {
+      this.mode = { kind: 'main' };
+      this.message = 'New theme cancelled.';
+      return;
+    }
+    if (key.name !== 'enter') return editLine(mode, key);
+    const name = mode.text.trim();
+    if (!name) {
+      this.message = 'Type a name for the new theme (or Esc to cancel).';
+      return;
+    }
+    const cur = this.current!;
+    const top = this.openCandidates()[0]!;
+    let rev: number | null = null;
+    let path = '';
+    const d = this.commit(() => {
+      const r = recodeToNewTheme(this.db, this.studyDir, cur.item.passageId, { suggestionId: top.suggestionId, parentId: mode.parentId, name, note: this.note, coder: this.coder }, this.tally.ids);
+      rev = r.rev;
+      path = r.path;
+      return r.decision;
+    });
+    if (!d) {
+      // A bad name (a clash, say): stay in the prompt so it can be corrected.
+      if (this.current === cur && this.message.startsWith('not saved')) return;
+      this.mode = { kind: 'main' };
+      return;
+    }
+    this.message = `saved: template revision ${rev} adds ${path}; ${this.describe(d)}`;
+    this.queue.done.add(cur.item.passageId);
+    this.advance();
+  }
+
+  // ---- undo
+
+  private undo(): void {
+    let result: ReturnType<typeof undoLatest>;
+    try {
+      result = undoLatest(this.db, this.coder, this.note);
+    } catch (e) {
+      if (e instanceof UserError || isBusy(e)) {
+        this.message = `nothing undone: ${e instanceof UserError ? e.message : 'another process is writing to the study; try again in a moment'}`;
+        return;
+      }
+      throw e;
+    }
+    const { undo, undone } = result;
+    this.note = undefined;
+    this.tally.undos++;
+    this.tally.remove(undone.id);
+    const what = `undone: ${this.describe(undone)} (undo entry #${undo.id})`;
+    const cur = this.current;
+    if (cur && cur.item.passageId === undone.passage_id) {
+      // A reject on the passage on screen: it stays, with that candidate back.
+      cur.rejected = standingRejects(this.db, cur.item.candidates.map((c) => c.suggestionId));
+      cur.decidedHere = cur.rejected.size > 0;
+      this.message = what;
+      return;
+    }
+    const item: ReviewItem | undefined =
+      (undone.passage_id ? this.queue.item(undone.passage_id) : undefined) ?? (undone.suggestion_id !== null ? itemFromRun(this.db, undone.suggestion_id) : undefined);
+    if (!item) {
+      this.message = `${what}; its passage is no longer in the study.`;
+      return;
+    }
+    // Back to that passage now; the one on screen comes after it.
+    if (cur) this.queue.revisit(cur.item);
+    this.queue.revisit(item);
+    this.advance();
+    this.message =
+      this.current?.item.passageId === item.passageId ? `${what}; back to that passage.` : `${what}; that passage has been decided or coded by someone else meanwhile.`;
+  }
+}
+
+/** SQLite gave up waiting for another process's write (after the busy timeout). */
+function isBusy(e: unknown): boolean {
+  return e instanceof Error && 'code' in e && typeof e.code === 'string' && e.code.startsWith('SQLITE_BUSY');
+}
+
+/** Line editing for the note and name prompts. */
+function editLine(mode: { text: string }, key: Key): void {
+  if (key.name === 'backspace') mode.text = mode.text.slice(0, -1);
+  else if (key.name === 'ctrl-u') mode.text = '';
+  else if (key.name === 'char') mode.text += key.char;
+}
