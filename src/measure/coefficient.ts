@@ -17,5 +17,5 @@ export function undefinedBecause(reason: string): Coefficient {
   return { value: null, reason };
 }
 
-/** One label a coder gave a unit; null = this coder gave none (missing). */
+/** A label a coder gave a unit (a theme id, a category, or 0/1 for absent/present). */
 export type Label = string | number;
