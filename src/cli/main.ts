@@ -11,7 +11,15 @@ import { registerLog } from './log.js';
 import { registerReview } from './review.js';
 import { registerAgree, registerStats } from './stats.js';
 import { registerExport } from './export.js';
+import { registerReport } from './report.js';
 import { registerTemplate } from './template.js';
+
+/** The cautions every report carries, one paragraph each. */
+export const REPORT_CAUTIONS = [
+  'The study stays on the researcher\'s disk: trellis never opens a network connection, and this report needs none.',
+  'Suggestions are aids: every coding shown here was made or confirmed by a researcher, and interpretation remains theirs.',
+  'Ethics approval, consent, de-identification and data-protection duties remain with the research team, under their institution\'s rules. This report quotes transcripts: share it as you would share them.',
+];
 
 export const CAUTIONS = `
 Your data: trellis never opens a network connection; the study (study.db and template.txt)
@@ -49,6 +57,7 @@ ${CAUTIONS}`,
   registerStats(program);
   registerAgree(program);
   registerExport(program);
+  registerReport(program);
   return program;
 }
 

@@ -60,6 +60,7 @@ export interface AgreementRow {
   percentAgreement: number | null;
   kappa: number | null;
   alpha: number | null;
+  /** Landis & Koch band of alpha. */
   band: string | null;
 }
 
@@ -70,8 +71,10 @@ export interface ReportData {
   themes: ReportTheme[];
   revisions: ReportRevision[];
   /** Theme x transcript passage counts (rolled up over sub-themes), themes in template order. */
+  /** `themes` are theme paths, as in `themes[].path`. */
   heatmap: { transcripts: string[]; themes: string[]; counts: number[][] };
-  acceptance: { overall: AcceptanceRow; perTheme: AcceptanceRow[]; overTime: { index: number; at: string; rate: number }[]; calibration: CalibrationRow[] };
+  acceptance: { overall: AcceptanceRow; perTheme: AcceptanceRow[]; /** Cumulative acceptance rate after each decided suggestion. */
+    overTime: { index: number; at: string; rate: number }[]; calibration: CalibrationRow[] };
   saturation: { transcript: string; order: number; newThemes: number; newSubThemes: number; cumulative: number }[];
   unclaimed: { share: number | null; passages: number; unclaimed: number; clusters: ReportCluster[] };
   agreement: { coders: string[]; rows: AgreementRow[]; bandsSource: string; caution: string } | null;

@@ -82,7 +82,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
   const agree = humanCoders.length >= 2 ? agreement(db, { coders: humanCoders }) : null;
 
   return {
-    title: opts.title ?? `Study report: ${basename(resolve(opts.studyDir))}`,
+    title: opts.title ?? basename(resolve(opts.studyDir)),
     generatedAt: new Date().toISOString(),
     counts: {
       transcripts: status.transcripts,
@@ -99,7 +99,11 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
       author: r.author,
       action: r.action,
       reason: r.reason,
-      changes: r.changes.map(describeChange).map((s) => s.replace(/\s+/g, ' ')),
+      // A starting template is a long list of additions: one line says it.
+      changes:
+        r.changes.length > 8 && r.changes.every((c) => c.kind === 'added')
+          ? [`added ${r.changes.length} themes`]
+          : r.changes.map(describeChange).map((s) => s.replace(/\s+/g, ' ')),
     })),
     heatmap: { transcripts, themes: entries.map((e) => e.path), counts: heat },
     acceptance: {

@@ -48,4 +48,18 @@ describe('trellis export', () => {
     expect(total('Patient safety')).toBe(show.themes[1].passages_with_subthemes);
     expect(trellis(['export', 'nothing', '--out', 'x'], dir).status).toBe(1);
   });
+
+  it('writes the HTML report and the codebook from the study', () => {
+    const dir = studyWithCodings();
+    const r = trellis(['report', '--out', 'r.html', '--title', 'Handover study'], dir);
+    expect(r.status, r.stderr).toBe(0);
+    const html = readFileSync(join(dir, 'r.html'), 'utf8');
+    expect(html).toContain('Handover study');
+    expect(html).not.toMatch(/<script|https?:\/\//);
+    expect(html).toContain('Deterioration and escalation');
+    for (const f of ['md', 'csv', 'html']) expect(trellis(['codebook', '--format', f, '--out', `cb.${f}`], dir).status).toBe(0);
+    const md = readFileSync(join(dir, 'cb.md'), 'utf8');
+    expect(md).toMatch(/^#+ 2\.1\.2\.1 Allergies/m);
+    expect(trellis(['codebook', '--format', 'pdf', '--out', 'x'], dir).status).toBe(1);
+  });
 });

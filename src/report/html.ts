@@ -1,0 +1,337 @@
+/**
+ * The study report: one self-contained HTML file (inline styles and SVG, no scripts, nothing
+ * fetched) for a supervisor, a funder or the team's own audit trail. Pure: ReportData in, text out.
+ */
+
+import { AGREEMENT_CAUTION, LANDIS_KOCH_BANDS, agreementBand } from '../measure/bands.js';
+import { FEW_DECISIONS, acceptanceChart, calibrationChart, heatmapChart, overTimeChart, saturationChart, themeLabeller, unclaimedChart } from './charts.js';
+import { BASE_CSS, htmlDocument } from './document.js';
+import { esc, fixed, int, oneLine, pct, plural, when } from './escape.js';
+import type { ReportCluster, ReportData, ReportTheme } from './types.js';
+
+const REPORT_CSS = `
+header.doc { border-bottom: 1px solid var(--rule); padding-bottom: 16px; }
+.kicker { text-transform: uppercase; letter-spacing: 0.08em; font-size: 0.75rem; color: var(--muted); font-weight: 600; margin: 0 0 6px; }
+main { border-top: 6px solid var(--accent); }
+nav.toc { margin: 16px 0 0; font-size: 0.9rem; display: flex; flex-wrap: wrap; align-items: baseline; gap: 4px 0; }
+nav.toc h2 { font-size: 0.75rem; text-transform: uppercase; letter-spacing: 0.08em; color: var(--muted); border: 0; margin: 0 12px 0 0; padding: 0; }
+nav.toc ol { margin: 0; padding: 0; list-style: none; display: flex; flex-wrap: wrap; gap: 2px 20px; }
+nav.toc a { color: var(--accent); text-decoration: none; }
+.stats { display: grid; grid-template-columns: repeat(4, minmax(0, 1fr)); gap: 12px; margin: 16px 0; }
+.stat { border: 1px solid var(--rule); border-left: 4px solid var(--accent); border-radius: 4px; padding: 10px 14px 12px; background: #fafbfc; }
+.stat .v { display: block; font-size: 1.75rem; font-weight: 700; line-height: 1.15; font-variant-numeric: tabular-nums; }
+.stat .k { display: block; font-size: 0.88rem; font-weight: 600; margin-top: 2px; }
+.stat .s { display: block; font-size: 0.8rem; color: var(--muted); }
+@media (max-width: 700px) { .stats { grid-template-columns: repeat(2, minmax(0, 1fr)); } }
+figure { margin: 6px 0 0; }
+.scroll { overflow-x: auto; }
+.scroll svg.chart { max-width: none; }
+svg.chart { display: block; max-width: 100%; height: auto; font-family: inherit; }
+figcaption { color: var(--muted); font-size: 0.85rem; margin-top: 6px; max-width: 80ch; }
+.pair { display: flex; flex-wrap: wrap; gap: 24px; align-items: flex-start; }
+.pair > figure { flex: 0 1 454px; }
+.pair > table { flex: 1 1 300px; width: auto; }
+table.tree td.theme { padding-right: 12px; }
+table.tree th.num { white-space: nowrap; width: 9em; }
+table.tree tr.top td { border-top: 1px solid var(--rule); }
+table.tree tr.top td.theme .name { font-weight: 700; }
+table.tree .def { display: block; color: var(--muted); font-size: 0.82rem; line-height: 1.35; }
+table.revisions ul { margin: 0; padding-left: 1.1em; }
+table.revisions li { margin: 0; line-height: 1.35; }
+table.revisions td.why { width: 22%; }
+table.agreement tr.pooled td { font-weight: 700; border-top: 2px solid var(--rule); }
+.cluster { border: 1px solid var(--rule); border-radius: 6px; padding: 4px 16px 10px; margin: 14px 0; }
+.cluster h4 { margin-top: 10px; }
+.terms { display: flex; flex-wrap: wrap; gap: 6px; list-style: none; padding: 0; margin: 6px 0; }
+.terms li { border: 1px solid var(--rule); border-radius: 3px; padding: 0 7px; font-size: 0.85rem; background: var(--tint); }
+.theme-quotes { margin: 18px 0 26px; }
+ul.cautions li { margin: 6px 0; max-width: 80ch; }
+@media print { nav.toc { display: none; } .scroll { overflow: visible; } .scroll svg.chart { max-width: 100%; } }
+`;
+
+const SECTIONS = [
+  ['summary', 'Summary'],
+  ['template', 'The template and its revisions'],
+  ['coverage', 'Themes across transcripts'],
+  ['acceptance', 'Acceptance of suggestions'],
+  ['saturation', 'Saturation'],
+  ['unclaimed', 'Unclaimed passages and clusters'],
+  ['agreement', 'Inter-coder agreement'],
+  ['quotes', 'Representative quotes'],
+  ['cautions', 'Cautions'],
+] as const;
+
+function section(id: (typeof SECTIONS)[number][0], body: string): string {
+  const title = SECTIONS.find(([k]) => k === id)![1];
+  return `<section id="${id}">\n<h2>${esc(title)}</h2>\n${body}\n</section>`;
+}
+
+const empty = (sentence: string) => `<p class="empty">${esc(sentence)}</p>`;
+
+function figure(heading: string, svg: string, caption: string, scroll = false): string {
+  return `<h3>${esc(heading)}</h3>\n<figure>${scroll ? `<div class="scroll">${svg}</div>` : svg}<figcaption>${esc(caption)}</figcaption></figure>`;
+}
+
+function stat(value: string, label: string, sub?: string): string {
+  return `<div class="stat"><span class="v">${esc(value)}</span><span class="k">${esc(label)}</span>${sub ? `<span class="s">${esc(sub)}</span>` : ''}</div>`;
+}
+
+// ---------------------------------------------------------------------------------------------
+
+function summary(d: ReportData): string {
+  const c = d.counts;
+  const a = d.acceptance.overall;
+  const apriori = d.themes.filter((t) => t.apriori).length;
+  const depth = d.themes.reduce((m, t) => Math.max(m, t.number.split('.').length), 0);
+  const codedShare = c.participant > 0 ? c.coded / c.participant : null;
+  const cards = [
+    stat(int(c.transcripts), 'transcripts'),
+    stat(int(c.passages), 'passages', `${int(c.participant)} from participants`),
+    stat(int(c.coded), 'passages coded', codedShare === null ? undefined : `${pct(codedShare)} of participant passages`),
+    stat(int(c.themes), 'themes', `${apriori} a priori; ${depth ? plural(depth, 'level') : 'no levels'} deep`),
+    stat(c.revision === null ? '–' : String(c.revision), 'template revision', plural(d.revisions.length, 'revision') + ' recorded'),
+    stat(a.decided ? pct(a.rate) : '–', 'suggestions accepted', a.decided ? `${int(a.accepted)} of ${int(a.decided)} decided` : 'no decisions yet'),
+    stat(d.unclaimed.share === null ? '–' : pct(d.unclaimed.share), 'passages unclaimed', d.unclaimed.share === null ? 'not yet measured' : `${int(d.unclaimed.unclaimed)} of ${int(d.unclaimed.passages)}; ${plural(d.unclaimed.clusters.length, 'cluster')}`),
+  ];
+  const ag = d.agreement?.rows.find((r) => /pooled/i.test(r.theme)) ?? null;
+  // The row's band may belong to another coefficient: the card names the band of its own value.
+  if (ag) cards.push(stat(fixed(ag.kappa), "Cohen's κ, pooled", `${agreementBand(ag.kappa) ?? 'undefined'}; ${d.agreement!.coders.join(' and ')}`));
+  const sentence =
+    `This report covers ${plural(c.transcripts, 'transcript')} divided into ${plural(c.passages, 'passage')}, ` +
+    `${int(c.coded)} of which carry at least one theme from a template of ${plural(c.themes, 'theme')}` +
+    (c.revision === null ? '.' : ` (revision ${c.revision}).`) +
+    (a.decided ? ` Coders have decided on ${plural(a.decided, 'suggestion')} and accepted ${pct(a.rate)} of them.` : ' No suggestion has been decided on yet.');
+  return `<div class="stats">${cards.join('')}</div>\n<p>${esc(sentence)}</p>`;
+}
+
+function templateTree(themes: readonly ReportTheme[]): string {
+  if (!themes.length) return empty('The template has no themes yet.');
+  const rows = themes.map((t) => {
+    const level = t.number.split('.').length - 1;
+    const def = t.definition ? `<span class="def">${esc(oneLine(t.definition))}</span>` : '';
+    return (
+      `<tr class="${level === 0 ? 'top' : 'sub'}"><td class="nowrap">${esc(t.number)}</td>` +
+      `<td class="theme" style="padding-left:${(8 + level * 22).toFixed(0)}px"><span class="name">${esc(t.name)}</span>${t.apriori ? '<span class="tag">a priori</span>' : ''}${def}</td>` +
+      `<td class="num">${int(t.direct)}</td><td class="num">${int(t.total)}</td></tr>`
+    );
+  });
+  return (
+    `<table class="tree"><caption>Themes in template order. "Coded to it": passages coded to the theme itself; "with sub-themes": to it or any theme below it (a passage counts once). Themes marked a priori were defined before coding began.</caption>` +
+    `<thead><tr><th scope="col">No.</th><th scope="col">Theme</th><th scope="col" class="num">Coded to it</th><th scope="col" class="num">With sub-themes</th></tr></thead>` +
+    `<tbody>${rows.join('\n')}</tbody></table>`
+  );
+}
+
+/** Date and time as two unbreakable halves, so a narrow column wraps between them only. */
+function stamp(iso: string): string {
+  const [date, ...rest] = when(iso).split(' ');
+  return rest.length ? `<span class="nowrap">${esc(date)}</span> <span class="nowrap">${esc(rest.join(' '))}</span>` : esc(date);
+}
+
+function revisionHistory(d: ReportData): string {
+  if (!d.revisions.length) return empty('No template revisions have been recorded yet.');
+  const rows = [...d.revisions]
+    .sort((a, b) => a.rev - b.rev)
+    .map((r) => {
+      const changes = r.changes.length
+        ? `<ul>${r.changes.map((c) => `<li>${esc(c.replace(/ -> /g, ' → '))}</li>`).join('')}</ul>`
+        : '<span class="note">no change to the themes</span>';
+      return (
+        `<tr><td class="num">${r.rev}</td><td>${stamp(r.at)}</td><td>${esc(r.author)}</td><td>${esc(r.action)}</td>` +
+        `<td>${changes}</td><td class="why">${r.reason ? esc(r.reason) : '<span class="note">no reason given</span>'}</td></tr>`
+      );
+    });
+  return (
+    `<table class="revisions"><caption>Every revision of the template, oldest first: the audit trail of how the template developed.</caption>` +
+    `<thead><tr><th scope="col" class="num">Rev.</th><th scope="col">When</th><th scope="col">By</th><th scope="col">Action</th><th scope="col">What changed</th><th scope="col">Why</th></tr></thead>` +
+    `<tbody>${rows.join('\n')}</tbody></table>`
+  );
+}
+
+function coverage(d: ReportData): string {
+  const svg = heatmapChart(d);
+  if (!svg) return empty('No transcripts have been coded yet, so there is nothing to map.');
+  return figure(
+    'Passages per theme and transcript',
+    svg,
+    'Rows follow the template; counts include sub-themes, so a top-level row sums its branch (a passage coded to two sub-themes counts once). Empty columns show transcripts not yet coded; empty rows, themes no passage carries yet.',
+    true,
+  );
+}
+
+function acceptance(d: ReportData): string {
+  const a = d.acceptance;
+  if (a.overall.decided === 0) return empty('No suggestions have been decided on yet, so acceptance and calibration cannot be measured.');
+  const parts: string[] = [];
+  parts.push(
+    `<p>${esc(
+      `Of ${plural(a.overall.decided, 'suggestion')} decided (accepted, rejected or re-coded to another theme), ${int(a.overall.accepted)} were accepted: ${pct(a.overall.rate)}. ` +
+        'Deferred suggestions are left out until they are decided. Acceptance shows how often coders took a suggestion, not whether a coding is right.',
+    )}</p>`,
+  );
+  const bars = acceptanceChart(d);
+  const undecided = a.perTheme.filter((r) => r.decided === 0).length;
+  parts.push(
+    bars
+      ? figure(
+          'Acceptance per theme',
+          bars,
+          `Bars: share of each theme's decided suggestions that were accepted, with the counts. Dashed line: all themes together. Hatched bars rest on fewer than ${FEW_DECISIONS} decisions and are unstable.` +
+            (undecided ? ` ${plural(undecided, 'theme')} with suggestions but no decision yet ${undecided === 1 ? 'is' : 'are'} not shown.` : ''),
+        )
+      : `<h3>Acceptance per theme</h3>${empty('No theme has a decided suggestion yet.')}`,
+  );
+
+  const cal = calibrationChart(d);
+  if (cal) {
+    const rows = a.calibration
+      .map(
+        (r) =>
+          `<tr><td class="nowrap">${esc(r.band)}</td><td class="num">${int(r.count)}</td><td class="num">${r.meanConfidence === null ? '–' : r.meanConfidence.toFixed(2)}</td><td class="num">${r.count ? pct(r.acceptance) : '–'}</td></tr>`,
+      )
+      .join('');
+    parts.push(
+      `<h3>Calibration: confidence against acceptance</h3>\n<div class="pair"><figure>${cal}<figcaption>${esc(
+        'Each point is a confidence band: across is the mean confidence of its suggestions, up is the share accepted. Points below the diagonal mean the confidence was too high for that band; above it, too low.',
+      )}</figcaption></figure>` +
+        `<table><caption>The calibration table (decided suggestions only).</caption><thead><tr><th scope="col">Confidence band</th><th scope="col" class="num">Decided</th><th scope="col" class="num">Mean confidence</th><th scope="col" class="num">Accepted</th></tr></thead><tbody>${rows}</tbody></table></div>`,
+    );
+  } else parts.push(`<h3>Calibration: confidence against acceptance</h3>${empty('No confidence band holds a decided suggestion yet.')}`);
+
+  const line = overTimeChart(d);
+  parts.push(
+    line
+      ? figure(
+          'Acceptance over time',
+          line,
+          'The share of suggestions accepted so far, after each decision in the order the decisions were made. Early values rest on few decisions and swing widely; a steady rise after refitting suggests the profiles learned from the decisions.',
+        )
+      : `<h3>Acceptance over time</h3>${empty('No decisions with a time have been recorded yet.')}`,
+  );
+  return parts.join('\n');
+}
+
+function saturation(d: ReportData): string {
+  const svg = saturationChart(d);
+  if (!svg) return empty('No transcript has been coded yet, so there is no saturation curve.');
+  const last = [...d.saturation].sort((a, b) => a.order - b.order).slice(-3);
+  const quiet = last.length === 3 && last.every((p) => p.newThemes + p.newSubThemes === 0);
+  return figure(
+    'New themes and sub-themes by transcript',
+    svg,
+    'Themes added to the template while each transcript was being coded, credited to that transcript, in coding order; themes of the template before coding began (such as the a priori themes) are not counted. A curve that flattens suggests that further transcripts are adding little that is new; it is not proof of saturation.' +
+      (quiet ? ' The last three transcripts coded added no new theme.' : ''),
+  );
+}
+
+const STATUS_WORDS: Record<ReportCluster['status'], string> = {
+  open: 'open: not yet reviewed',
+  promoted: 'promoted into the template',
+  dismissed: 'dismissed',
+};
+const STATUS_ORDER: ReportCluster['status'][] = ['open', 'promoted', 'dismissed'];
+
+function unclaimed(d: ReportData): string {
+  const u = d.unclaimed;
+  const parts: string[] = [];
+  const svg = unclaimedChart(d);
+  if (svg) {
+    parts.push(
+      figure(
+        'Claimed and unclaimed passages',
+        svg,
+        'A passage is unclaimed when no theme\'s profile claims it: material the template may not yet name. Some unclaimed passages are small talk; the clusters below group the rest by shared vocabulary.',
+      ),
+    );
+  } else parts.push(empty('The unclaimed share has not been measured yet: no passage has been scored against the theme profiles.'));
+
+  parts.push('<h3>Clusters of unclaimed passages</h3>');
+  if (!u.clusters.length) {
+    parts.push(empty('No clusters have been formed from the unclaimed passages yet.'));
+    return parts.join('\n');
+  }
+  parts.push(`<p>${esc(`${plural(u.clusters.length, 'cluster')} from the latest discovery run. Each is a possible new theme, named by its most characteristic terms; the examples are the passages nearest its centre.`)}</p>`);
+  const ordered = [...u.clusters].sort((a, b) => STATUS_ORDER.indexOf(a.status) - STATUS_ORDER.indexOf(b.status) || b.size - a.size || a.id - b.id);
+  for (const c of ordered) {
+    parts.push(
+      `<article class="cluster"><h4>Cluster ${c.id}: ${esc(c.label)}</h4>` +
+        `<p class="meta">${esc(`${plural(c.size, 'passage')} from ${plural(c.transcripts, 'transcript')} · cohesion ${fixed(c.cohesion)} · ${STATUS_WORDS[c.status] ?? c.status}`)}</p>` +
+        (c.terms.length ? `<ul class="terms" aria-label="characteristic terms">${c.terms.map((t) => `<li>${esc(t)}</li>`).join('')}</ul>` : '') +
+        c.examples.map((e) => `<blockquote><p>${esc(oneLine(e))}</p></blockquote>`).join('') +
+        `</article>`,
+    );
+  }
+  return parts.join('\n');
+}
+
+function agreement(d: ReportData): string {
+  const ag = d.agreement;
+  if (!ag || !ag.rows.length) {
+    return empty('No two coders have coded the same passages yet, so inter-coder agreement cannot be reported. Agreement needs a second coder to code a shared set of transcripts independently.');
+  }
+  const label = themeLabeller(d.themes);
+  const rows = ag.rows
+    .map((r) => {
+      const pooled = /pooled/i.test(r.theme);
+      const l = label(r.theme);
+      return (
+        `<tr${pooled ? ' class="pooled"' : ''}><td>${esc(pooled ? r.theme : l.label)}</td><td class="num">${int(r.units)}</td>` +
+        `<td class="num">${pct(r.percentAgreement, 1)}</td><td class="num">${fixed(r.kappa)}</td><td class="num">${fixed(r.alpha)}</td><td>${r.band ? esc(r.band) : '–'}</td></tr>`
+      );
+    })
+    .join('\n');
+  const key = LANDIS_KOCH_BANDS.map((b) => `${b.label} ${b.range}`).join('; ');
+  return (
+    `<p>${esc(`Coders compared: ${ag.coders.join(', ')}. For each theme, every passage both coders coded is a unit, and they agree on it when both applied the theme or neither did. Themes are compared as coded: a coding to a sub-theme does not count for its parent.`)}</p>` +
+    `<table class="agreement"><thead><tr><th scope="col">Theme</th><th scope="col" class="num">Passages compared</th><th scope="col" class="num">Percent agreement</th><th scope="col" class="num">Cohen's κ</th><th scope="col" class="num">Krippendorff's α</th><th scope="col">Band (of α)</th></tr></thead><tbody>${rows}</tbody></table>` +
+    `<p class="note">${esc(`Bands (${key}) follow ${ag.bandsSource}`)}</p>` +
+    `<p class="callout">${esc(ag.caution || AGREEMENT_CAUTION)}</p>`
+  );
+}
+
+function quotes(d: ReportData): string {
+  const withQuotes = d.themes.filter((t) => t.quotes.length);
+  if (!withQuotes.length) return empty('No passages have been coded yet, so there are no quotes to show.');
+  const blocks = withQuotes.map((t) => {
+    const qs = t.quotes
+      .map((q) => {
+        const source = [q.transcript, q.speaker ?? 'speaker not recorded', q.time].filter(Boolean).join(' · ');
+        return `<blockquote><p>${esc(oneLine(q.text))}</p><footer>${esc(source)} <span class="id">${esc(q.passageId)}</span></footer></blockquote>`;
+      })
+      .join('');
+    return `<div class="theme-quotes"><h3>${esc(`${t.number} ${t.name}`)}${t.apriori ? '<span class="tag">a priori</span>' : ''}</h3><p class="meta">${esc(t.path)} · ${esc(plural(t.total, 'passage'))}</p>${qs}</div>`;
+  });
+  return (
+    `<p>${esc('For each theme, the coded passages closest to the centre of its coded material: the quotes that best show what the theme holds. Check that quotes are de-identified before sharing this report.')}</p>\n` +
+    blocks.join('\n')
+  );
+}
+
+function cautions(d: ReportData): string {
+  if (!d.cautions.length) return empty('No cautions were recorded with this report.');
+  return `<ul class="cautions">${d.cautions.map((c) => `<li>${esc(c)}</li>`).join('')}</ul>`;
+}
+
+/** The whole report as one HTML document. */
+export function renderReport(data: ReportData): string {
+  const rev = data.counts.revision === null ? 'no template revision recorded' : `template revision ${data.counts.revision}`;
+  const header =
+    `<header class="doc"><p class="kicker">Template analysis report</p><h1>${esc(data.title)}</h1>` +
+    `<p class="meta">${esc(`Generated ${when(data.generatedAt)} · ${rev} · ${plural(data.counts.transcripts, 'transcript')}`)}</p>` +
+    `<p class="note">${esc('This report quotes interview transcripts. Treat it with the same care as the transcripts themselves.')}</p>` +
+    `<nav class="toc" aria-label="Contents"><h2>Contents</h2><ol>${SECTIONS.map(([id, t]) => `<li><a href="#${id}">${esc(t)}</a></li>`).join('')}</ol></nav></header>`;
+  const body = [
+    header,
+    section('summary', summary(data)),
+    section('template', `<h3>The template</h3>\n${templateTree(data.themes)}\n<h3>Revision history</h3>\n${revisionHistory(data)}`),
+    section('coverage', coverage(data)),
+    section('acceptance', acceptance(data)),
+    section('saturation', saturation(data)),
+    section('unclaimed', unclaimed(data)),
+    section('agreement', agreement(data)),
+    section('quotes', quotes(data)),
+    section('cautions', cautions(data)),
+    `<footer class="doc">${esc(`Made by trellis from the study's own records, on this computer. ${when(data.generatedAt)}.`)}</footer>`,
+  ].join('\n');
+  return htmlDocument(data.title, BASE_CSS + REPORT_CSS, body);
+}
