@@ -8,6 +8,11 @@
 //   node bench/lab-suggest.mjs                  the chosen model + the peers
 //   VARIANTS=all node bench/lab-suggest.mjs     every variant in VARIANTS below (no peers)
 //   SEED=2 SKIP_PEER=1 ...                      another split / skip the Python peers
+//   PROTOCOL=cli ...                            the passages of bench:quality (see below)
+//
+// PROTOCOL=cli reproduces bench:quality in-process: a study made by the CLI (every paragraph a
+// passage, short ones included and left uncoded in coded samples), its modelInputs, the same
+// codings and the same scoring, so the lab's figures are the benchmark's without the subprocess.
 //
 // Needs the build (npx tsc -p tsconfig.json). Analysed passages are cached in bench/out/.
 import { execFileSync } from 'node:child_process';
@@ -32,27 +37,20 @@ const VARIANTS = {
   'no context': { signals: { adjacent: false, transcript: false } },
   'adjacent only': { signals: { transcript: false } },
   'transcript only': { signals: { adjacent: false } },
+  'no length': { signals: { length: false } },
+  'no LOTO correction': { looCorrection: false },
+  'mean context only': { contextScales: ['mean'] },
+  'sqrt context only': { contextScales: ['sqrt'] },
   'centroid only (+context)': { signals: { logodds: false, exemplars: false } },
   'logodds only (+context)': { signals: { centroid: false, exemplars: false } },
   'exemplars only (+context)': { signals: { centroid: false, logodds: false, exemplars: true } },
-  'centroid only no context': { signals: { logodds: false, exemplars: false, adjacent: false, transcript: false } },
-  'logodds only no context': { signals: { centroid: false, exemplars: false, adjacent: false, transcript: false } },
-  'exemplars only no context': { signals: { centroid: false, logodds: false, exemplars: true, adjacent: false, transcript: false } },
   bigrams: { bigrams: true },
-  isotonic: { calibration: 'isotonic' },
   'no competition': { competition: 'none' },
-  'no competition + isotonic': { competition: 'none', calibration: 'isotonic' },
   'sibling competition': { competition: 'siblings' },
-  'pooled calibration': { calibrationScope: 'pooled' },
-  'pooled isotonic': { calibrationScope: 'pooled', calibration: 'isotonic' },
   'prior 100': { priorStrength: 100 },
   'prior 2000': { priorStrength: 2000 },
-  'prior 10000': { priorStrength: 10000 },
   'with exemplars signal': { signals: { exemplars: true } },
-  sqrt: { contextScale: 'sqrt' },
-  'sqrt + pooled': { contextScale: 'sqrt', calibrationScope: 'pooled' },
-  'exemplars k=1': { signals: { exemplars: true }, neighbours: 1 },
-  'exemplars k=10': { signals: { exemplars: true }, neighbours: 10 },
+  'ridge 10': { ridge: 10 },
 };
 
 function rng(seed) {
@@ -89,10 +87,10 @@ async function loadPassages() {
   return passages;
 }
 
-function split(passages) {
+function split(passages, seed = SEED) {
   const byCat = new Map();
   for (const [file, cat] of brownCategories()) (byCat.get(cat) ?? byCat.set(cat, []).get(cat)).push(file);
-  const rand = rng(SEED);
+  const rand = rng(seed);
   const train = new Set();
   for (const cat of LEAVES) {
     const files = byCat.get(cat).slice().sort();
@@ -115,8 +113,7 @@ function themes() {
   return out;
 }
 
-function measure(preds, truth) {
-  const leaf = new Set(LEAVES);
+function measure(preds, truth, leafOf = (id) => (LEAVES.includes(id) ? id : null)) {
   let top1 = 0;
   let top3 = 0;
   const tp = Object.fromEntries(LEAVES.map((l) => [l, 0]));
@@ -124,13 +121,13 @@ function measure(preds, truth) {
   const fn = { ...tp };
   const bins = Array.from({ length: 10 }, () => ({ n: 0, conf: 0, acc: 0 }));
   preds.forEach((p, i) => {
-    const leaves = p.candidates.filter((c) => leaf.has(c.themeId));
+    const leaves = p.candidates.filter((c) => leafOf(c.themeId));
     const y = truth[i];
     const best = leaves[0];
-    const ok = best.themeId === y;
+    const ok = leafOf(best.themeId) === y;
     if (ok) top1++, tp[y]++;
-    else fp[best.themeId]++, fn[y]++;
-    if (leaves.slice(0, 3).some((c) => c.themeId === y)) top3++;
+    else fp[leafOf(best.themeId)]++, fn[y]++;
+    if (leaves.slice(0, 3).some((c) => leafOf(c.themeId) === y)) top3++;
     const b = bins[Math.min(9, Math.floor(best.confidence * 10))];
     b.n++;
     b.conf += best.confidence;
@@ -140,44 +137,122 @@ function measure(preds, truth) {
   const f1 = LEAVES.map((l) => (tp[l] ? (2 * tp[l]) / (2 * tp[l] + fp[l] + fn[l]) : 0));
   const ece = bins.reduce((s, b) => s + (b.n ? (b.n / n) * Math.abs(b.acc / b.n - b.conf / b.n) : 0), 0);
   const unclaimed = preds.filter((p) => p.unclaimed).length / n;
-  if (process.env.BINS) console.log(bins.map((b) => `${b.n}:${(b.conf / b.n).toFixed(2)}/${(b.acc / b.n).toFixed(2)}`).join(" "));
+  if (process.env.BINS) console.log('    bins n:conf/acc ' + bins.map((b) => `${b.n}:${(b.conf / b.n).toFixed(2)}/${(b.acc / b.n).toFixed(2)}`).join(' '));
   return { top1: top1 / n, top3: top3 / n, macroF1: f1.reduce((a, b) => a + b, 0) / f1.length, ece, unclaimed };
 }
 
-function runOurs(name, opts, passages, codings, testIds, truth) {
+function runOurs(name, opts, data) {
+  const { passages, codings, themes, testIds, truth, leafOf, negatives } = data;
   const t0 = performance.now();
-  const model = new ThemeSuggester(opts).fit(passages, codings, themes());
+  const model = new ThemeSuggester(opts).fit(passages, codings, themes, { negatives });
   const t1 = performance.now();
   const preds = model.predict(testIds);
   const t2 = performance.now();
-  const m = measure(preds, truth);
+  const m = measure(preds, truth, leafOf);
+  // The same measures on the coded batch's own LOTO confidences: what calibration was fitted on.
+  const coded = [...new Map(codings.map((c) => [c.passageId, c.themeId]))];
+  const loto = measure(model.predict(coded.map(([id]) => id), { reasons: 0 }), coded.map(([, t]) => leafOf(t)), leafOf);
+  m.lotoEce = loto.ece;
+  m.lotoTop1 = loto.top1;
   const ctx = model.state.context;
   const weights = Object.fromEntries(ctx.inputs.map((n, j) => [n, +ctx.weights[j].toFixed(3)]));
   const base = Object.fromEntries(model.state.base.inputs.map((n, j) => [n, +model.state.base.weights[j].toFixed(3)]));
   return { name, ...m, fitSeconds: (t1 - t0) / 1000, predictSeconds: (t2 - t1) / 1000, decay: ctx.decay, base, weights, fingerprint: model.fingerprint };
 }
 
-const all = await loadPassages();
-const train = split(all);
-const passages = all.map((p) => ({ id: p.id, transcript: p.transcript, ordinal: p.ordinal, role: 'participant', terms: p.terms }));
-const codings = all.filter((p) => train.has(p.transcript)).map((p) => ({ passageId: p.id, themeId: p.label }));
-const test = all.filter((p) => !train.has(p.transcript));
-const testIds = test.map((p) => p.id);
-const truth = test.map((p) => p.label);
-console.log(`lab:suggest  seed ${SEED}: ${train.size} coded samples (${codings.length} passages), ${test.length} test passages`);
+/** The paragraph protocol: only paragraphs of at least 20 words, every one coded in the batch. */
+function paragraphData(all, seed) {
+  const train = split(all, seed);
+  const passages = all.map((p) => ({ id: p.id, transcript: p.transcript, ordinal: p.ordinal, role: 'participant', terms: p.terms }));
+  const codings = all.filter((p) => train.has(p.transcript)).map((p) => ({ passageId: p.id, themeId: p.label }));
+  const test = all.filter((p) => !train.has(p.transcript));
+  return { passages, codings, themes: themes(), testIds: test.map((p) => p.id), truth: test.map((p) => p.label), train, all };
+}
 
+/** The study bench:quality builds, made once by the CLI in bench/out/lab-study. */
+async function cliStudy() {
+  const { main } = await import('../dist/cli/main.js');
+  const { openStudy } = await import('../dist/study/db.js');
+  const { modelInputs } = await import('../dist/study/model.js');
+  const { brownTemplate, writeBrownTexts } = await import('./brown.mjs');
+  const dir = join(OUT, 'lab-study');
+  if (!existsSync(join(dir, 'study.db'))) {
+    const run = async (...args) => {
+      const write = process.stdout.write.bind(process.stdout);
+      process.stdout.write = () => true;
+      try {
+        if ((await main(['node', 'trellis', ...args])) !== 0) throw new Error(`trellis ${args[0]} failed`);
+      } finally {
+        process.stdout.write = write;
+      }
+    };
+    const files = writeBrownTexts(join(OUT, 'brown-txt'));
+    await run('init', dir, '--window', '100000');
+    writeFileSync(join(OUT, 'lab-template.txt'), brownTemplate());
+    await run('template', 'set', '--study', dir, join(OUT, 'lab-template.txt'));
+    await run('add', '--study', dir, ...files);
+  }
+  const db = openStudy(dir);
+  const inputs = modelInputs(db);
+  const words = new Map(db.prepare('SELECT id, text FROM passages').all().map((r) => [r.id, r.text]));
+  db.close();
+  return { inputs, words };
+}
+
+function cliData({ inputs, words }, seed, seededBatch, wordCount) {
+  const cats = brownCategories();
+  const batch = seededBatch(0.25, seed);
+  const leafId = new Map(inputs.themes.filter((t) => t.parentId !== null).map((t) => [t.name, t.id]));
+  const leafName = new Map([...leafId].map(([n, id]) => [id, n]));
+  const isPassage = (p) => wordCount(words.get(p.id)) >= 20;
+  const codings = inputs.passages.filter((p) => batch.has(p.transcript) && isPassage(p)).map((p) => ({ passageId: p.id, themeId: leafId.get(cats.get(p.transcript)) }));
+  const test = inputs.passages.filter((p) => !batch.has(p.transcript) && isPassage(p));
+  return {
+    passages: inputs.passages,
+    codings,
+    themes: inputs.themes,
+    testIds: test.map((p) => p.id),
+    truth: test.map((p) => cats.get(p.transcript)),
+    leafOf: (id) => leafName.get(id) ?? null,
+    train: batch,
+  };
+}
+
+const PROTOCOL = process.env.PROTOCOL ?? 'paragraphs';
+const SEEDS = (process.env.SEEDS ?? String(SEED)).split(',').map(Number);
 const names = process.env.VARIANTS === 'all' ? Object.keys(VARIANTS) : (process.env.VARIANTS ?? 'default').split(',');
 const fmt = (v) => (typeof v === 'number' ? v.toFixed(3) : String(v));
-for (const name of names) {
-  const r = runOurs(name, VARIANTS[name], passages, codings, testIds, truth);
-  console.log(
-    `  ${name.padEnd(28)} top1 ${fmt(r.top1)}  top3 ${fmt(r.top3)}  macroF1 ${fmt(r.macroF1)}  ECE ${fmt(r.ece)}  unclaimed ${fmt(r.unclaimed)}  ` +
-      `fit ${r.fitSeconds.toFixed(2)} s  predict ${r.predictSeconds.toFixed(2)} s  decay ${r.decay}  base ${JSON.stringify(r.base)}  context ${JSON.stringify(r.weights)}  fp ${r.fingerprint}`,
-  );
+const all = PROTOCOL === 'paragraphs' ? await loadPassages() : null;
+const cli = PROTOCOL === 'cli' ? await cliStudy() : null;
+const brown = await import('./brown.mjs');
+const results = new Map();
+let data = null;
+for (const seed of SEEDS) {
+  data = all ? paragraphData(all, seed) : cliData(cli, seed, brown.seededBatch, brown.wordCount);
+  console.log(`lab:suggest  ${PROTOCOL} protocol, seed ${seed}: ${data.train.size} coded samples (${data.codings.length} coded passages), ${data.testIds.length} test passages`);
+  for (const name of names) {
+    const r = runOurs(name, VARIANTS[name], data);
+    (results.get(name) ?? results.set(name, []).get(name)).push(r);
+    console.log(
+      `  ${name.padEnd(28)} top1 ${fmt(r.top1)}  top3 ${fmt(r.top3)}  macroF1 ${fmt(r.macroF1)}  ECE ${fmt(r.ece)} (LOTO ${fmt(r.lotoEce)}, top1 ${fmt(r.lotoTop1)})  unclaimed ${fmt(r.unclaimed)}  ` +
+        `fit ${r.fitSeconds.toFixed(2)} s  predict ${r.predictSeconds.toFixed(2)} s  decay ${r.decay}  base ${JSON.stringify(r.base)}  context ${JSON.stringify(r.weights)}  fp ${r.fingerprint}`,
+    );
+  }
+}
+if (SEEDS.length > 1) {
+  console.log(`means over seeds ${SEEDS.join(', ')}:`);
+  const mean = (rs, k) => rs.reduce((s, r) => s + r[k], 0) / rs.length;
+  for (const [name, rs] of results) {
+    console.log(
+      `  ${name.padEnd(28)} top1 ${fmt(mean(rs, 'top1'))}  top3 ${fmt(mean(rs, 'top3'))}  macroF1 ${fmt(mean(rs, 'macroF1'))}  ECE ${fmt(mean(rs, 'ece'))} (${rs.map((r) => r.ece.toFixed(3)).join(' / ')})  ` +
+        `fit+predict ${(mean(rs, 'fitSeconds') + mean(rs, 'predictSeconds')).toFixed(2)} s`,
+    );
+  }
 }
 console.log(`  peak memory (max RSS): ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB`);
+const { train } = data;
 
-if (!process.env.SKIP_PEER && process.env.VARIANTS !== 'all') {
+if (!process.env.SKIP_PEER && process.env.VARIANTS !== 'all' && PROTOCOL === 'paragraphs' && SEEDS.length === 1) {
   const file = join(OUT, `brown-split-${SEED}.jsonl`);
   writeFileSync(file, all.map((p) => JSON.stringify({ id: p.id, text: p.text, split: train.has(p.transcript) ? 'train' : 'test', label: p.label })).join('\n') + '\n');
   const peer = JSON.parse(execFileSync('/usr/bin/python3', ['/work/shared/peers/sklearn_peer.py', 'classify', file], { encoding: 'utf8', maxBuffer: 1 << 26 }));

@@ -87,4 +87,9 @@ if (existsSync(second)) {
   await trellis('agree', '--study', rel(study), '--coders', 'priya,tom', '--transcript', 't01-larch-staff-nurse', '--transcript', 't02-kestrel-fy1');
 }
 
+await trellis('report', '--study', rel(study), '--out', rel(join(study, 'report.html')), '--title', 'Calderbrook General: the e-handover study (invented demo)');
+await trellis('codebook', '--study', rel(study), '--out', rel(join(study, 'codebook.md')));
+console.log(`\nReport:   ${join(study, 'report.html')}`);
+console.log(`Codebook: ${join(study, 'codebook.md')}`);
+
 console.log(`\nThe demo study is in ${study}. Try: node bin/trellis status --study ${rel(study)}`);
