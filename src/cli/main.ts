@@ -12,6 +12,7 @@ import { registerReview } from './review.js';
 import { registerAgree, registerStats } from './stats.js';
 import { registerExport } from './export.js';
 import { registerReport } from './report.js';
+import { registerDiscover } from './discover.js';
 import { registerTemplate } from './template.js';
 
 /** The cautions every report carries, one paragraph each. */
@@ -37,11 +38,16 @@ export function buildProgram(): Command {
       `
 Examples:
   trellis init my-study                      create a study folder
-  trellis add --study my-study interviews/*.txt
-  trellis template set --study my-study template.txt
-  trellis sheet export --study my-study --out sheet.csv
-  trellis sheet import --study my-study sheet.csv --coder alex
-  trellis status --study my-study
+  cd my-study
+  trellis template set template.txt          record the template (an outline)
+  trellis add ~/interviews/*.txt             import transcripts
+  trellis sheet export --out sheet.csv       code the first batch in a spreadsheet...
+  trellis sheet import sheet.csv --coder alex
+  trellis suggest --transcript t05           candidate themes with confidence and reasons
+  trellis review --coder alex                decide them one passage at a time
+  trellis discover                           what the template misses
+  trellis stats                              how often suggestions were right
+  trellis report --out report.html           the study report
 ${CAUTIONS}`,
     );
   registerInit(program);
@@ -57,6 +63,7 @@ ${CAUTIONS}`,
   registerStats(program);
   registerAgree(program);
   registerExport(program);
+  registerDiscover(program);
   registerReport(program);
   return program;
 }

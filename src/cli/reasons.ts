@@ -1,4 +1,14 @@
-import type { Reason } from '../suggest/types.js';
+import type { Reason as ModelReason } from '../suggest/types.js';
+
+/** A suggestion made by promoting a cluster of unclaimed passages into a theme. */
+export interface ClusterReason {
+  kind: 'cluster';
+  clusterId: number;
+  label: string;
+  similarity: number;
+}
+
+export type Reason = ModelReason | ClusterReason;
 
 export interface Snippets {
   get(passageId: string): { transcript: string; text: string } | undefined;
@@ -28,6 +38,8 @@ export function reasonText(r: Reason, snippets: Snippets): string {
       return `the surrounding passages point here too (${num(r.weight)})`;
     case 'question':
       return `the interviewer's question points here (${num(r.weight)})`;
+    case 'cluster':
+      return `in cluster ${r.clusterId} (${r.label}) promoted to this theme; closeness to the cluster ${num(r.similarity)}, not a calibrated confidence`;
   }
 }
 

@@ -146,7 +146,7 @@ export const MIGRATIONS: string[] = [
     id          INTEGER PRIMARY KEY,
     created_at  TEXT NOT NULL,
     rev         INTEGER NOT NULL,
-    suggestion_run INTEGER NOT NULL REFERENCES suggestion_runs(id),
+    fingerprint TEXT NOT NULL,     -- the suggestion model the pool was judged by
     pool        INTEGER NOT NULL,  -- unclaimed passages clustered
     k           INTEGER NOT NULL,
     silhouettes TEXT NOT NULL,     -- JSON [{k, silhouette}]

@@ -1,0 +1,151 @@
+import type { Command } from 'commander';
+import { resolve } from 'node:path';
+import { UserError } from '../errors.js';
+import { dismissCluster, promoteCluster, runDiscovery, triageStudy } from '../study/discovery.js';
+import { currentTemplate } from '../study/template.js';
+import { requireTranscripts } from '../study/transcripts.js';
+import { walk } from '../template/paths.js';
+import { coderOf } from './decide.js';
+import { collect, positiveInt, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { wrap } from './marks.js';
+import { plural, printJson, say, table } from './output.js';
+
+const pct = (x: number) => `${Math.round(100 * x)}%`;
+const clip = (s: string, n: number) => {
+  const flat = s.replace(/\s+/g, ' ').trim();
+  return flat.length > n ? flat.slice(0, n - 1) + '…' : flat;
+};
+
+export function registerDiscover(program: Command): void {
+  studyCommand(program, 'discover', 'cluster the passages no theme claims into possible new themes')
+    .option('--k <k>', 'the number of clusters (default: chosen by mean silhouette)', positiveInt('--k'))
+    .addHelpText(
+      'after',
+      `
+The unclaimed pool: participant passages with substance (at least 7 topic words, not small
+talk) that nobody has coded and no theme claims at its own level. trellis clusters them with
+k-means (k-means++ start, several seeded restarts) on TF-IDF vectors, choosing k by the mean
+silhouette, and describes each cluster by its distinctive terms (log-odds against the rest of
+the study) and the passages nearest its centre. A cluster is a hint, not a theme: read its
+passages, then promote it into the template or dismiss it. See docs/discovery.md.
+
+Examples:
+  trellis discover
+  trellis discover --k 4 --json`,
+    )
+    .action(async (opts: StudyOpts & { k?: number }) => {
+      await withStudy(opts, (db) => {
+        const run = runDiscovery(db, { k: opts.k });
+        const pool = run.pool.pool;
+        if (opts.json) {
+          return printJson({
+            run_id: run.runId,
+            k: run.result.k,
+            silhouette: run.result.silhouette,
+            clusters: run.clusters.map((c) => ({
+              cluster_id: c.cluster_id,
+              label: c.label,
+              size: c.size,
+              terms: c.detail.terms.map((t) => t.term),
+              passage_ids: c.passage_ids,
+              term_weights: c.detail.terms,
+              central: c.detail.central,
+              transcripts: c.detail.transcripts,
+              speakers: c.detail.speakers,
+              cohesion: c.cohesion,
+              dismissed_before: c.detail.dismissed_before,
+            })),
+            unclaimed: pool.map((p) => p.id),
+            nearest: Object.fromEntries(pool.map((p) => [p.id, p.nearest])),
+            suppressed: run.result.suppressed,
+          });
+        }
+        const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+        const counts = run.pool.counts;
+        say(`Unclaimed pool: ${plural(pool.length, 'passage')} (left out: ${counts.coded} coded, ${counts.claimed} claimed by a theme, ${counts.short} short, ${counts['small-talk']} small talk, ${counts.interviewer} interviewer).`);
+        const almost = new Map<string, number>();
+        for (const p of pool) if (p.nearest) almost.set(p.nearest.themeId, (almost.get(p.nearest.themeId) ?? 0) + 1);
+        if (almost.size) say(`Nearest themes of the unclaimed: ${[...almost].sort((a, b) => b[1] - a[1]).slice(0, 4).map(([t, n]) => `almost ${names.get(t) ?? t} (${n})`).join('; ')}`);
+        if (run.result.silhouette.length) say(`Mean silhouette by k: ${run.result.silhouette.map((s) => `k=${s.k} ${s.score.toFixed(3)}`).join(', ')}; k = ${run.result.k} (${run.result.chosenBy}).`);
+        for (const c of run.clusters) {
+          say('');
+          say(`Cluster ${c.cluster_id} (${c.label}): ${plural(c.size, 'passage')} from ${plural(c.detail.transcripts.length, 'transcript')}, cohesion ${c.cohesion.toFixed(2)}${c.detail.dismissed_before.length ? `; ${c.detail.dismissed_before.length} dismissed before` : ''}`);
+          say(`  terms: ${c.detail.terms.slice(0, 10).map((t) => t.term).join(', ')}`);
+          say(`  transcripts: ${c.detail.transcripts.join(', ')}`);
+          for (const x of c.detail.central) say(wrap(`${x.passage_id}: "${clip(x.text, 220)}"`, 96, '    '));
+        }
+        if (run.result.suppressed.length) say(`\n${plural(run.result.suppressed.length, 'cluster')} held back: mostly passages dismissed before, with too little new material.`);
+        if (run.clusters.length) say('\nPromote one into the template: trellis promote CLUSTER --name NAME [--parent PATH] --coder NAME\nor set it aside: trellis dismiss CLUSTER --note TEXT --coder NAME');
+      });
+    });
+
+  studyCommand(program, 'promote', "make a cluster a theme: a template revision, and its passages suggestions for review")
+    .argument('<cluster>', 'the cluster id (from trellis discover)')
+    .requiredOption('--name <name>', 'the new theme name')
+    .option('--parent <path>', 'the parent theme (default: a top-level theme)')
+    .option('--note <text>', 'why, kept in the log and the revision history')
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .addHelpText('after', '\nExample:\n  trellis promote 7 --name "Paper workarounds" --coder priya --note "informal printed lists"\n\nThe passages are not coded: they become suggestions of the new theme, for review.')
+    .action(async (cluster: string, opts: StudyOpts & { name: string; parent?: string; note?: string; coder?: string }) => {
+      const coder = coderOf(opts);
+      const id = Number(cluster);
+      if (!Number.isInteger(id) || id < 1) throw new UserError(`"${cluster}" is not a cluster id`);
+      await withStudy(opts, (db) => {
+        const p = promoteCluster(db, resolve(opts.study), id, opts.name, opts.parent, coder, opts.note);
+        if (opts.json) return printJson(p);
+        say(`Cluster ${id} is now the theme "${opts.name}" (template revision ${p.rev}); its ${plural(p.suggestions, 'passage')} are suggestions of it, for review (trellis review --coder ${coder}).`);
+      });
+    });
+
+  studyCommand(program, 'dismiss', 'set a cluster aside as noise or out of scope (logged; it does not come back unless new material joins it)')
+    .argument('<cluster>', 'the cluster id (from trellis discover)')
+    .requiredOption('--note <text>', 'why it was dismissed')
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .addHelpText('after', '\nExample:\n  trellis dismiss 8 --note "car park and canteen small talk" --coder priya')
+    .action(async (cluster: string, opts: StudyOpts & { note: string; coder?: string }) => {
+      const coder = coderOf(opts);
+      const id = Number(cluster);
+      if (!Number.isInteger(id) || id < 1) throw new UserError(`"${cluster}" is not a cluster id`);
+      await withStudy(opts, (db) => {
+        const decision = dismissCluster(db, id, coder, opts.note);
+        if (opts.json) return printJson({ cluster_id: id, decision_id: decision });
+        say(`Cluster ${id} dismissed (decision #${decision}).`);
+      });
+    });
+
+  studyCommand(program, 'triage', 'rank the uncoded transcripts by how much of each the template fails to claim')
+    .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
+    .addHelpText(
+      'after',
+      `
+A transcript's unclaimed share is the words of its unclaimed passages over the words of its
+substantive participant passages. Read the most novel first: that is where the template will
+need revising. Cluster shares refer to the latest "trellis discover".
+
+Examples:
+  trellis triage
+  trellis triage --json`,
+    )
+    .action(async (opts: StudyOpts & { transcript?: string[] }) => {
+      await withStudy(opts, (db) => {
+        requireTranscripts(db, opts.transcript);
+        const { rows, clusters } = triageStudy(db, opts.transcript);
+        if (opts.json) return printJson({ transcripts: rows });
+        const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path.split(' > ').pop()!]));
+        if (!rows.length) return say('No uncoded transcripts to triage.');
+        say(
+          table(
+            ['transcript', 'unclaimed', 'passages', 'dominant suggested themes', 'open clusters'],
+            rows.map((r) => [
+              r.transcript,
+              `${pct(r.unclaimedShare)} of words`,
+              `${r.unclaimedPassages}/${r.substantivePassages}`,
+              r.themes.map((t) => `${names.get(t.themeId) ?? t.themeId} (${t.passages})`).join(', '),
+              r.clusters.map((c) => `${c.clusterId}: ${c.passages}`).join(', '),
+            ]),
+          ),
+        );
+        if (!clusters.length) say('\n(no open clusters: run "trellis discover" to see which clusters each transcript feeds)');
+      });
+    });
+}

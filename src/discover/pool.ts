@@ -1,0 +1,135 @@
+/**
+ * The unclaimed pool: substantive participant passages that no coding and no theme's profile
+ * claims. Each keeps the theme that came nearest, so "almost Workload" is visible.
+ *
+ * Substantive: a participant passage with at least `minTerms` topic lemmas (content lemmas less
+ * the small-talk words below) whose content lemmas are less than `maxSmallTalkShare` small talk.
+ * 7 was read off the demo transcripts (corpora/handover, 180 participant passages): every passage
+ * with 7 or more topic lemmas carries content; 6 is the first count with small talk ("No problem.
+ * It's been a busy week, so it's nice to sit down"). See docs/discovery.md.
+ *
+ * Claimed: a theme claims a passage when it is chosen (above threshold, after the hierarchy rule)
+ * and coders code at its level: it is a leaf, or coders applied it directly to a passage. A parent
+ * that clears its threshold only through its sub-themes' evidence ("Informative", with no leaf
+ * clearing) does not claim: the passage may be a new sub-theme, which is what discovery is for.
+ */
+import type { Coding, PassageSuggestions } from '../suggest/types.js';
+import type { NearestTheme, PoolCandidate, PoolEntry, PoolExclusion, PoolResult } from './types.js';
+
+/**
+ * Politeness, agreement, laughter and transcription marks: content lemmas by the general stop
+ * list, but small talk in an interview. They do not count towards a passage's topic lemmas.
+ */
+export const SMALL_TALK: ReadonlySet<string> = new Set([
+  'thank', 'thanks', 'welcome', 'hello', 'hi', 'hiya', 'bye', 'goodbye', 'cheers', 'sorry', 'please',
+  'pleasure', 'fine', 'alright', 'sure', 'course', 'exactly', 'absolutely', 'definitely', 'totally',
+  'true', 'indeed', 'aye', 'cool', 'brilliant', 'lovely', 'great', 'love',
+  'laugh', 'laughs', 'laughter', 'laughing', 'chuckle', 'sigh', 'sighs', 'pause', 'inaudible', 'crosstalk',
+]);
+
+/** A pronoun with its auxiliary ("i'm", "that's") or a bare clitic ("'s"), which the lemmatiser can leave. */
+const CONTRACTION = /^(i|you|we|they|he|she|it|that|there|here|what|who|where|let)?['\u2019](m|re|s|ve|ll|d)$/;
+
+export interface PoolOptions {
+  /** Fewest topic lemmas for a substantive passage (default 7). */
+  minTerms?: number;
+  /** Share of content lemmas that are small talk at which a passage is small talk (default 0.5). */
+  maxSmallTalkShare?: number;
+  /**
+   * 'leaf' (default): a chosen theme claims when it is a leaf or coders applied it directly.
+   * 'any': any chosen theme claims (the suggester's own `unclaimed` flag).
+   */
+  claimAt?: 'leaf' | 'any';
+}
+
+export interface PoolInput {
+  /** The passages to sort (usually every passage of the study). */
+  passages: readonly PoolCandidate[];
+  /** The model's suggestions for (some of) them; a passage with none is 'not-scored'. */
+  suggestions: readonly PassageSuggestions[];
+  /** The template: theme ids with their parents (leaves are themes no other theme names). */
+  themes: readonly { id: string; parentId: string | null }[];
+  /** Human codings, accepted suggestions included: a coded passage is claimed by its coder. */
+  codings: readonly Coding[];
+  /** Rejected suggestions: a theme the coder rejected for a passage does not claim it. */
+  rejected?: readonly Coding[];
+  /** Each theme's threshold (ThemeReport.threshold), shown beside the nearest theme's confidence. */
+  thresholds?: Readonly<Record<string, number>>;
+}
+
+/** The topic lemmas of a passage: content lemmas less small talk and pronoun contractions. */
+export function topicTerms(terms: readonly string[]): string[] {
+  return terms.filter((t) => !SMALL_TALK.has(t) && !CONTRACTION.test(t));
+}
+
+/** Why a passage is not substantive, or null when it is. */
+export function substantiveCheck(p: Pick<PoolCandidate, 'role' | 'terms'>, opts: PoolOptions = {}): 'interviewer' | 'short' | 'small-talk' | null {
+  if (p.role !== 'participant') return 'interviewer';
+  const minTerms = opts.minTerms ?? 7;
+  const maxShare = opts.maxSmallTalkShare ?? 0.5;
+  const talk = p.terms.filter((t) => SMALL_TALK.has(t)).length;
+  if (p.terms.length > 0 && talk / p.terms.length >= maxShare) return 'small-talk';
+  if (topicTerms(p.terms).length < minTerms) return 'short';
+  return null;
+}
+
+export function isSubstantive(p: Pick<PoolCandidate, 'role' | 'terms'>, opts: PoolOptions = {}): boolean {
+  return substantiveCheck(p, opts) === null;
+}
+
+/** The themes that claim at their level: leaves, and themes coders applied directly. */
+export function claimingThemes(themes: PoolInput['themes'], codings: readonly Coding[]): Set<string> {
+  const parents = new Set(themes.map((t) => t.parentId).filter((p): p is string => p !== null));
+  const out = new Set(themes.filter((t) => !parents.has(t.id)).map((t) => t.id));
+  const known = new Set(themes.map((t) => t.id));
+  for (const c of codings) if (known.has(c.themeId)) out.add(c.themeId);
+  return out;
+}
+
+/** Sorts passages into the unclaimed pool and the rest (with the rule that kept each out). */
+export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolResult {
+  const claimAt = opts.claimAt ?? 'leaf';
+  const claiming = claimingThemes(input.themes, input.codings);
+  const coded = new Set(input.codings.map((c) => c.passageId));
+  const rejected = new Set((input.rejected ?? []).map((c) => `${c.passageId}\u0000${c.themeId}`));
+  const byId = new Map(input.suggestions.map((s) => [s.passageId, s]));
+  const pool: PoolEntry[] = [];
+  const excluded: PoolResult['excluded'] = [];
+  const counts: PoolResult['counts'] = { interviewer: 0, short: 0, 'small-talk': 0, coded: 0, claimed: 0, 'not-scored': 0, unclaimed: 0 };
+  const out = (id: string, reason: PoolExclusion) => {
+    excluded.push({ id, reason });
+    counts[reason]++;
+  };
+  for (const p of input.passages) {
+    const why = substantiveCheck(p, opts);
+    if (why) {
+      out(p.id, why);
+      continue;
+    }
+    if (coded.has(p.id)) {
+      out(p.id, 'coded');
+      continue;
+    }
+    const s = byId.get(p.id);
+    if (!s) {
+      out(p.id, 'not-scored');
+      continue;
+    }
+    const live = s.candidates.filter((c) => !rejected.has(`${p.id}\u0000${c.themeId}`));
+    // Above threshold rather than chosen: a rejected sub-theme must not hide a parent that claims.
+    const claims = live.some((c) => c.aboveThreshold && (claimAt === 'any' || claiming.has(c.themeId)));
+    if (claims) {
+      out(p.id, 'claimed');
+      continue;
+    }
+    // Candidates are ranked best first; the nearest is the best one that could have claimed.
+    const near = live.find((c) => claimAt === 'any' || claiming.has(c.themeId));
+    const threshold = near ? input.thresholds?.[near.themeId] : undefined;
+    const nearest: NearestTheme | null = near ? { themeId: near.themeId, confidence: near.confidence, ...(threshold === undefined ? {} : { threshold }) } : null;
+    const clearedParents = live.filter((c) => c.aboveThreshold && !(claimAt === 'any' || claiming.has(c.themeId))).map((c) => c.themeId);
+    // Small talk and clitics would only add noise to the clusters' vectors and terms.
+    pool.push({ id: p.id, transcript: p.transcript, speaker: p.speaker, terms: topicTerms(p.terms), words: p.words ?? p.terms.length, nearest, clearedParents });
+    counts.unclaimed++;
+  }
+  return { pool, excluded, counts };
+}

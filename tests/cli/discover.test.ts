@@ -1,0 +1,98 @@
+import { readdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { CORPUS, freshStudy, snapshot, trellis } from './run.js';
+
+interface Found {
+  run_id: number;
+  k: number;
+  silhouette: { k: number; score: number }[];
+  clusters: { cluster_id: number; size: number; terms: string[]; passage_ids: string[]; transcripts: string[] }[];
+  unclaimed: string[];
+}
+
+const json = (dir: string, args: string[]) => {
+  const r = trellis([...args, '--json'], dir, { TRELLIS_CODER: 'priya' });
+  expect(r.status, r.stderr).toBe(0);
+  return JSON.parse(r.stdout);
+};
+
+/** The whole demo study: twelve transcripts, the first four coded. */
+function demoStudy(): string {
+  const dir = freshStudy();
+  expect(trellis(['template', 'set', join(CORPUS, 'template.txt')], dir).status).toBe(0);
+  const files = readdirSync(CORPUS).filter((f) => /^t\d\d-.*\.(txt|md|vtt|docx)$/.test(f)).sort();
+  expect(trellis(['add', ...files.map((f) => join(CORPUS, f))], dir).status).toBe(0);
+  expect(trellis(['sheet', 'import', join(CORPUS, 'initial-coding.csv'), '--coder', 'priya'], dir).status).toBe(0);
+  return dir;
+}
+
+const PAPER = /paper|sheet|print|pocket|crib|scrap|shred|confidential|notebook|whiteboard/;
+
+describe('discover, promote, dismiss and triage', () => {
+  let dir: string;
+  let found: Found;
+  beforeAll(() => {
+    dir = demoStudy();
+    found = json(dir, ['discover']);
+  });
+
+  it('clusters the unclaimed pool, with k chosen by silhouette, and the planted paper-workaround theme among the clusters', () => {
+    expect(found.silhouette.length).toBeGreaterThan(1);
+    const best = found.silhouette.reduce((a, b) => (b.score > a.score ? b : a));
+    expect(found.k).toBe(best.k);
+    const inClusters = found.clusters.flatMap((c) => c.passage_ids);
+    expect(new Set(inClusters).size).toBe(inClusters.length);
+    for (const id of inClusters) expect(found.unclaimed).toContain(id);
+    // The informal paper workarounds appear only in t06-t12 and are in no theme of the template.
+    const paper = found.clusters.filter((c) => c.terms.slice(0, 10).filter((t) => PAPER.test(t)).length >= 2);
+    expect(paper.length).toBeGreaterThan(0);
+    for (const c of paper) for (const t of c.transcripts) expect(Number(t.slice(1, 3))).toBeGreaterThanOrEqual(6);
+  });
+
+  it('is deterministic for the same study', () => {
+    const again: Found = json(dir, ['discover']);
+    expect(again.clusters.map(({ cluster_id: _c, ...rest }) => rest)).toEqual(found.clusters.map(({ cluster_id: _c, ...rest }) => rest));
+    found = again; // promote and dismiss act on the latest run's clusters
+  });
+
+  it('promotes a cluster: a template revision with seed terms, and its passages as suggestions, not codings', () => {
+    const c = found.clusters.find((x) => x.terms.slice(0, 10).some((t) => PAPER.test(t)))!;
+    const before = json(dir, ['status']);
+    const p = json(dir, ['promote', String(c.cluster_id), '--name', 'Paper workarounds', '--note', 'printed lists and crib sheets']);
+    expect(p.suggestions).toBe(c.size);
+    const show = json(dir, ['template', 'show']);
+    const theme = show.themes.find((t: { name: string }) => t.name === 'Paper workarounds');
+    expect(theme.seeds.length).toBeGreaterThan(2);
+    expect(json(dir, ['status']).coded).toBe(before.coded);
+    const log = json(dir, ['log']).decisions;
+    expect(log.at(-1)).toMatchObject({ action: 'promote', cluster_id: c.cluster_id, note: 'printed lists and crib sheets' });
+    // The suggestions can be decided like any other.
+    const sugId = (trellis(['decide', '--help'], dir), p.runId);
+    expect(sugId).toBeGreaterThan(0);
+    const again = trellis(['promote', String(c.cluster_id), '--name', 'Again'], dir, { TRELLIS_CODER: 'priya' });
+    expect(again.status).toBe(1);
+    expect(again.stderr).toMatch(/already promoted/);
+  });
+
+  it('dismisses a cluster; the next discover does not bring it back', () => {
+    const run: Found = json(dir, ['discover']);
+    const c = run.clusters[run.clusters.length - 1]!;
+    json(dir, ['dismiss', String(c.cluster_id), '--note', 'role descriptions, not about handover']);
+    const next: Found = json(dir, ['discover']);
+    const same = next.clusters.filter((x) => x.passage_ids.filter((p) => c.passage_ids.includes(p)).length > c.size / 2);
+    expect(same).toHaveLength(0);
+    const before = snapshot(dir);
+    const r = trellis(['dismiss', '99999', '--note', 'x'], dir, { TRELLIS_CODER: 'priya' });
+    expect(r.status).toBe(1);
+    expect(snapshot(dir)).toBe(before);
+  });
+
+  it('triages the uncoded transcripts, most unclaimed first', () => {
+    const t = json(dir, ['triage']).transcripts as { transcript: string; unclaimedShare: number }[];
+    expect(t.map((r) => r.transcript)).not.toContain('t01-larch-staff-nurse'); // coded
+    expect(t.length).toBe(8);
+    const shares = t.map((r) => r.unclaimedShare);
+    expect(shares).toEqual([...shares].sort((a, b) => b - a));
+  });
+});

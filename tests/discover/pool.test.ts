@@ -1,0 +1,116 @@
+import { describe, expect, it } from 'vitest';
+import { claimingThemes, isSubstantive, substantiveCheck, topicTerms, unclaimedPool } from '../../src/discover/pool.js';
+import type { PoolCandidate } from '../../src/discover/types.js';
+import type { Candidate, PassageSuggestions } from '../../src/suggest/types.js';
+
+// All passages and themes here are invented. The template:
+//   Workload > Staffing, Workload > Admin, Support (a root with no sub-theme: a leaf).
+const THEMES = [
+  { id: 'work', parentId: null },
+  { id: 'staff', parentId: 'work' },
+  { id: 'admin', parentId: 'work' },
+  { id: 'support', parentId: null },
+];
+
+const TALK = ['rota', 'short', 'staff', 'shift', 'cover', 'agency', 'nurse', 'ward', 'night'];
+
+function passage(id: string, terms: string[] = TALK, role: 'participant' | 'interviewer' = 'participant'): PoolCandidate {
+  return { id, transcript: id.split('#')[0]!, speaker: role === 'participant' ? 'P' : 'Interviewer', role, terms, words: terms.length * 2 };
+}
+
+function cand(themeId: string, confidence: number, above: boolean, chosen = above): Candidate {
+  return { themeId, score: 0, confidence, aboveThreshold: above, chosen, reasons: [] };
+}
+
+function sugg(id: string, candidates: Candidate[]): PassageSuggestions {
+  const sorted = candidates.slice().sort((a, b) => b.confidence - a.confidence);
+  return { passageId: id, transcript: id.split('#')[0]!, candidates: sorted, unclaimed: !sorted.some((c) => c.chosen) };
+}
+
+describe('substantive passages', () => {
+  it('needs a participant, 7 topic lemmas and less than half small talk', () => {
+    expect(substantiveCheck({ role: 'interviewer', terms: TALK })).toBe('interviewer');
+    expect(substantiveCheck({ role: 'participant', terms: TALK.slice(0, 6) })).toBe('short');
+    expect(substantiveCheck({ role: 'participant', terms: TALK.slice(0, 7) })).toBeNull();
+    // Small talk does not count towards the 7: "thank", "laugh", "fine" and "i'm" are not topic.
+    expect(substantiveCheck({ role: 'participant', terms: [...TALK.slice(0, 6), 'thank', "i'm"] })).toBe('short');
+    const chatty = ['thank', 'lovely', 'laugh', 'fine', 'sure', 'great', 'cheers', 'sorry', ...TALK.slice(0, 7)];
+    expect(substantiveCheck({ role: 'participant', terms: chatty })).toBe('small-talk');
+    expect(isSubstantive({ role: 'participant', terms: chatty.slice(2) })).toBe(true); // 6 of 13
+  });
+
+  it('takes other limits', () => {
+    expect(isSubstantive({ role: 'participant', terms: TALK.slice(0, 3) }, { minTerms: 3 })).toBe(true);
+    expect(isSubstantive({ role: 'participant', terms: ['thank', ...TALK] }, { maxSmallTalkShare: 0.1 })).toBe(false);
+  });
+
+  it('strips pronoun contractions and small talk only', () => {
+    expect(topicTerms(["i'm", 'rota', 'laugh', "that\u2019s", "'s", 'problem', "o'clock"])).toEqual(['rota', 'problem', "o'clock"]);
+  });
+});
+
+describe('the unclaimed pool', () => {
+  it('claims at the levels coders code at: leaves, and parents coded directly', () => {
+    expect([...claimingThemes(THEMES, [])].sort()).toEqual(['admin', 'staff', 'support']);
+    expect([...claimingThemes(THEMES, [{ passageId: 'x', themeId: 'work' }, { passageId: 'x', themeId: 'gone' }])].sort()).toEqual(['admin', 'staff', 'support', 'work']);
+  });
+
+  const passages = [
+    passage('t1#1', ['tell', 'day'], 'interviewer'),
+    passage('t1#2'), // coded
+    passage('t1#3'), // a leaf clears: claimed
+    passage('t1#4'), // only the parent clears: unclaimed under the leaf rule
+    passage('t1#5', [...TALK, 'laugh']), // nothing clears
+    passage('t1#6', TALK.slice(0, 3)), // short
+    passage('t1#7'), // not scored
+    passage('t1#8'), // its only leaf above threshold was rejected
+  ];
+  const suggestions = [
+    sugg('t1#2', [cand('staff', 0.9, true)]),
+    sugg('t1#3', [cand('work', 0.95, true, false), cand('staff', 0.8, true), cand('support', 0.1, false)]),
+    sugg('t1#4', [cand('work', 0.9, true), cand('admin', 0.55, false), cand('staff', 0.3, false)]),
+    sugg('t1#5', [cand('work', 0.2, false), cand('support', 0.4, false), cand('admin', 0.1, false)]),
+    sugg('t1#8', [cand('staff', 0.75, true), cand('admin', 0.2, false)]),
+  ];
+  const codings = [{ passageId: 't1#2', themeId: 'staff' }];
+  const rejected = [{ passageId: 't1#8', themeId: 'staff' }];
+  const thresholds = { staff: 0.7, admin: 0.6, support: 0.5, work: 0.8 };
+
+  it('keeps substantive, uncoded, unclaimed participant passages, with the theme that came nearest', () => {
+    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected, thresholds });
+    expect(r.pool.map((p) => p.id)).toEqual(['t1#4', 't1#5', 't1#8']);
+    const [four, five, eight] = r.pool;
+    expect(four!.nearest).toEqual({ themeId: 'admin', confidence: 0.55, threshold: 0.6 });
+    expect(four!.clearedParents).toEqual(['work']);
+    expect(five!.nearest).toEqual({ themeId: 'support', confidence: 0.4, threshold: 0.5 });
+    expect(five!.clearedParents).toEqual([]);
+    expect(five!.terms).toEqual(TALK); // topic lemmas: "laugh" is gone
+    // The rejected theme no longer counts, not even as the nearest.
+    expect(eight!.nearest).toEqual({ themeId: 'admin', confidence: 0.2, threshold: 0.6 });
+    expect(four!.words).toBe(TALK.length * 2);
+    expect(Object.fromEntries(r.excluded.map((e) => [e.id, e.reason]))).toEqual({
+      't1#1': 'interviewer',
+      't1#2': 'coded',
+      't1#3': 'claimed',
+      't1#6': 'short',
+      't1#7': 'not-scored',
+    });
+    expect(r.counts).toEqual({ interviewer: 1, short: 1, 'small-talk': 0, coded: 1, claimed: 1, 'not-scored': 1, unclaimed: 3 });
+  });
+
+  it("with claimAt 'any' a parent above threshold claims (the suggester's own flag)", () => {
+    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected }, { claimAt: 'any' });
+    expect(r.pool.map((p) => p.id)).toEqual(['t1#5', 't1#8']);
+    expect(r.pool[0]!.nearest).toEqual({ themeId: 'support', confidence: 0.4 });
+    // Without rejections the passage is the suggester's: claimed.
+    const plain = unclaimedPool({ passages, suggestions, themes: THEMES, codings }, { claimAt: 'any' });
+    expect(plain.pool.map((p) => p.id)).toEqual(['t1#5']);
+    const flags = new Map(suggestions.map((s) => [s.passageId, s.unclaimed]));
+    for (const p of plain.pool) expect(flags.get(p.id)).toBe(true);
+  });
+
+  it('lets a parent coded directly claim', () => {
+    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings: [...codings, { passageId: 't9#1', themeId: 'work' }], rejected });
+    expect(r.pool.map((p) => p.id)).toEqual(['t1#5', 't1#8']);
+  });
+});

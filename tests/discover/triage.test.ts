@@ -1,0 +1,71 @@
+import { describe, expect, it } from 'vitest';
+import { triage } from '../../src/discover/triage.js';
+import type { PoolCandidate } from '../../src/discover/types.js';
+import type { PassageSuggestions } from '../../src/suggest/types.js';
+
+// Invented: t1 is coded; t2 and t3 are not. Words are given explicitly.
+const TERMS = ['rota', 'short', 'staff', 'shift', 'cover', 'agency', 'nurse', 'ward'];
+const p = (id: string, words: number, role: 'participant' | 'interviewer' = 'participant', terms = TERMS): PoolCandidate => ({
+  id,
+  transcript: id.split('#')[0]!,
+  speaker: role === 'participant' ? 'P' : 'I',
+  role,
+  terms,
+  words,
+});
+const passages = [
+  p('t1#1', 50),
+  p('t2#1', 10, 'interviewer'),
+  p('t2#2', 100),
+  p('t2#3', 300),
+  p('t2#4', 40, 'participant', ['thank', 'fine']), // small talk: in neither share
+  p('t3#1', 200),
+  p('t3#2', 200),
+  p('t3#3', 100),
+];
+const s = (id: string, chosen: string[]): PassageSuggestions => ({
+  passageId: id,
+  transcript: id.split('#')[0]!,
+  unclaimed: chosen.length === 0,
+  candidates: chosen.map((themeId) => ({ themeId, score: 0, confidence: 0.9, aboveThreshold: true, chosen: true, reasons: [] })),
+});
+const suggestions = [s('t2#2', ['staff']), s('t2#3', []), s('t3#1', ['staff', 'pay']), s('t3#2', ['pay']), s('t3#3', []), s('t2#1', ['pay'])];
+
+describe('triage of uncoded transcripts', () => {
+  const out = triage({
+    passages,
+    codedTranscripts: ['t1'],
+    suggestions,
+    unclaimed: ['t2#3', 't3#3'],
+    clusters: [
+      { id: 'C1', passageIds: ['t2#3', 't3#3', 'x#1', 'x#2'] },
+      { id: 'C2', passageIds: ['t9#1'] },
+    ],
+  });
+
+  it('ranks by the unclaimed share of substantive words', () => {
+    // t2: 300 of 400 words; t3: 100 of 500.
+    expect(out.map((t) => [t.transcript, t.unclaimedShare, t.unclaimedWords, t.substantiveWords, t.unclaimedPassages, t.substantivePassages])).toEqual([
+      ['t2', 0.75, 300, 400, 1, 2],
+      ['t3', 0.2, 100, 500, 1, 3],
+    ]);
+  });
+
+  it("gives each transcript's chosen themes and its part of each open cluster", () => {
+    expect(out[0]!.themes).toEqual([
+      { themeId: 'pay', passages: 1 },
+      { themeId: 'staff', passages: 1 },
+    ]);
+    expect(out[1]!.themes).toEqual([
+      { themeId: 'pay', passages: 2 },
+      { themeId: 'staff', passages: 1 },
+    ]);
+    expect(out[0]!.clusters).toEqual([{ clusterId: 'C1', passages: 1, shareOfCluster: 0.25, shareOfTranscript: 0.75 }]);
+    expect(out[1]!.clusters).toEqual([{ clusterId: 'C1', passages: 1, shareOfCluster: 0.25, shareOfTranscript: 0.2 }]);
+  });
+
+  it('breaks ties by unclaimed words, then name', () => {
+    const tie = triage({ passages: [p('b#1', 10), p('a#1', 10), p('c#1', 20)], codedTranscripts: [], suggestions: [], unclaimed: ['a#1', 'b#1', 'c#1'], clusters: [] });
+    expect(tie.map((t) => t.transcript)).toEqual(['c', 'a', 'b']);
+  });
+});
