@@ -23,7 +23,8 @@ export function trellis(args, { out } = {}) {
 
 /** Runs the scikit-learn peer (Debian python3-sklearn) and returns its JSON. */
 export function peer(...args) {
-  const script = join(import.meta.dirname, '../../shared/peers/sklearn_peer.py');
+  // shared/ sits beside the repository; SKLEARN_PEER points elsewhere when it does not.
+  const script = process.env.SKLEARN_PEER ?? join(import.meta.dirname, '../../shared/peers/sklearn_peer.py');
   const r = spawnSync('/usr/bin/python3', [script, ...args], { encoding: 'utf8', maxBuffer: 1 << 28 });
   if (r.status !== 0) throw new Error(`sklearn_peer.py failed (is python3-sklearn installed? apt-get install -y python3-sklearn):\n${r.stderr}`);
   return JSON.parse(r.stdout);
