@@ -87,6 +87,11 @@ if (existsSync(second)) {
   await trellis('agree', '--study', rel(study), '--coders', 'priya,tom', '--transcript', 't01-larch-staff-nurse', '--transcript', 't02-kestrel-fy1');
 }
 
+console.log('\nWhat does the template miss? Clusters of the passages no theme claims, then the uncoded');
+console.log('interviews, most novel first (the later interviews talk about informal paper workarounds).');
+await trellis('discover', '--study', rel(study));
+await trellis('triage', '--study', rel(study));
+
 await trellis('report', '--study', rel(study), '--out', rel(join(study, 'report.html')), '--title', 'Calderbrook General: the e-handover study (invented demo)');
 await trellis('codebook', '--study', rel(study), '--out', rel(join(study, 'codebook.md')));
 console.log(`\nReport:   ${join(study, 'report.html')}`);
