@@ -9,6 +9,7 @@
 //   VARIANTS=all node bench/lab-suggest.mjs     every variant in VARIANTS below (no peers)
 //   SEED=2 SKIP_PEER=1 ...                      another split / skip the Python peers
 //   PROTOCOL=cli ...                            the passages of bench:quality (see below)
+//   PROTOCOL=cli REVIEW=1 [ROUNDS=n] ...        bench:review's simulated reviewer, in-process
 //
 // PROTOCOL=cli reproduces bench:quality in-process: a study made by the CLI (every paragraph a
 // passage, short ones included and left uncoded in coded samples), its modelInputs, the same
@@ -38,6 +39,8 @@ const VARIANTS = {
   'adjacent only': { signals: { transcript: false } },
   'transcript only': { signals: { adjacent: false } },
   'no length': { signals: { length: false } },
+  'adjacent on': { signals: { adjacent: true } },
+  'both context scalings': { contextScales: ['mean', 'sqrt'] },
   'no LOTO correction': { looCorrection: false },
   'mean context only': { contextScales: ['mean'] },
   'sqrt context only': { contextScales: ['sqrt'] },
@@ -51,6 +54,9 @@ const VARIANTS = {
   'prior 2000': { priorStrength: 2000 },
   'with exemplars signal': { signals: { exemplars: true } },
   'ridge 10': { ridge: 10 },
+  'no Rocchio': { rocchio: 0 },
+  'Rocchio 0.5': { rocchio: 0.5 },
+  'Rocchio 1': { rocchio: 1 },
 };
 
 function rng(seed) {
@@ -121,7 +127,9 @@ function measure(preds, truth, leafOf = (id) => (LEAVES.includes(id) ? id : null
   const fn = { ...tp };
   const bins = Array.from({ length: 10 }, () => ({ n: 0, conf: 0, acc: 0 }));
   preds.forEach((p, i) => {
-    const leaves = p.candidates.filter((c) => leafOf(c.themeId));
+    // Ranked as \`trellis suggest\` ranks them: the chosen themes first, then the rest by confidence.
+    const ranked = [...p.candidates.filter((c) => c.chosen), ...p.candidates.filter((c) => !c.chosen)];
+    const leaves = ranked.filter((c) => leafOf(c.themeId));
     const y = truth[i];
     const best = leaves[0];
     const ok = leafOf(best.themeId) === y;
@@ -142,7 +150,8 @@ function measure(preds, truth, leafOf = (id) => (LEAVES.includes(id) ? id : null
 }
 
 function runOurs(name, opts, data) {
-  const { passages, codings, themes, testIds, truth, leafOf, negatives } = data;
+  const { passages, codings, themes, testIds, truth, negatives } = data;
+  const leafOf = data.leafOf ?? ((id) => (LEAVES.includes(id) ? id : null));
   const t0 = performance.now();
   const model = new ThemeSuggester(opts).fit(passages, codings, themes, { negatives });
   const t1 = performance.now();
@@ -218,6 +227,46 @@ function cliData({ inputs, words }, seed, seededBatch, wordCount) {
   };
 }
 
+/**
+ * bench:review in-process: 10 uncoded transcripts a round, in the same seeded order; the best
+ * leaf (ranked as \`suggest\` ranks) is accepted when it is the label, else re-coded to the label,
+ * which also counts as a rejection of the suggested theme; the next round refits on all of it.
+ */
+function review(name, opts, data, seed, rng) {
+  const { passages, themes, leafOf, train } = data;
+  const cats = brownCategories();
+  const leafId = new Map(themes.filter((t) => t.parentId !== null).map((t) => [t.name, t.id]));
+  const isTest = new Set(data.testIds);
+  const next = rng(seed + 1);
+  const queue = [...cats.keys()].filter((f) => !train.has(f)).sort();
+  for (let i = queue.length - 1; i > 0; i--) {
+    const j = Math.floor(next() * (i + 1));
+    [queue[i], queue[j]] = [queue[j], queue[i]];
+  }
+  const codings = data.codings.slice();
+  const negatives = [];
+  const rates = [];
+  const rounds = Math.min(Number(process.env.ROUNDS ?? Infinity), Math.ceil(queue.length / 10));
+  for (let round = 0; round < rounds; round++) {
+    const names = new Set(queue.slice(round * 10, (round + 1) * 10));
+    const model = new ThemeSuggester(opts).fit(passages, codings, themes, { negatives });
+    const ids = passages.filter((p) => names.has(p.transcript) && isTest.has(p.id)).map((p) => p.id);
+    let a = 0;
+    for (const p of model.predict(ids, { reasons: 0 })) {
+      const ranked = [...p.candidates.filter((c) => c.chosen), ...p.candidates.filter((c) => !c.chosen)];
+      const best = ranked.find((c) => leafOf(c.themeId));
+      const label = leafId.get(cats.get(p.transcript));
+      codings.push({ passageId: p.passageId, themeId: label });
+      if (best.themeId === label) a++;
+      else negatives.push({ passageId: p.passageId, themeId: best.themeId });
+    }
+    rates.push({ a, n: ids.length });
+  }
+  const pct = (r) => (100 * r.reduce((s, x) => s + x.a, 0)) / r.reduce((s, x) => s + x.n, 0);
+  console.log(`  ${name.padEnd(28)} review seed ${seed}: rounds ${rates.map((r) => ((100 * r.a) / r.n).toFixed(0)).join(' ')}`);
+  console.log(`  ${''.padEnd(28)} first ${pct(rates.slice(0, 1)).toFixed(1)}%, last ${pct(rates.slice(-1)).toFixed(1)}%, first five ${pct(rates.slice(0, 5)).toFixed(1)}%, last five ${pct(rates.slice(-5)).toFixed(1)}%, first ten ${pct(rates.slice(0, 10)).toFixed(1)}%, last ten ${pct(rates.slice(-10)).toFixed(1)}%, overall ${pct(rates).toFixed(1)}%`);
+}
+
 const PROTOCOL = process.env.PROTOCOL ?? 'paragraphs';
 const SEEDS = (process.env.SEEDS ?? String(SEED)).split(',').map(Number);
 const names = process.env.VARIANTS === 'all' ? Object.keys(VARIANTS) : (process.env.VARIANTS ?? 'default').split(',');
@@ -230,6 +279,10 @@ let data = null;
 for (const seed of SEEDS) {
   data = all ? paragraphData(all, seed) : cliData(cli, seed, brown.seededBatch, brown.wordCount);
   console.log(`lab:suggest  ${PROTOCOL} protocol, seed ${seed}: ${data.train.size} coded samples (${data.codings.length} coded passages), ${data.testIds.length} test passages`);
+  if (process.env.REVIEW && cli) {
+    for (const name of names) review(name, VARIANTS[name], data, seed, rng);
+    continue;
+  }
   for (const name of names) {
     const r = runOurs(name, VARIANTS[name], data);
     (results.get(name) ?? results.set(name, []).get(name)).push(r);

@@ -5,8 +5,8 @@
  *  2. dense bounded rows for ml-kmeans (represent.ts: the most frequent terms by default, at most
  *     `maxCells` cells in all, as measured in docs/discovery.md);
  *  3. k-means with k-means++ starts and seeded restarts, the lowest inertia kept (kmeans.ts);
- *  4. k by the mean cosine silhouette of the TF-IDF vectors over a range of k; a large pool
- *     sweeps k on a seeded sample, then clusters every passage with the chosen k;
+ *  4. k by the mean cosine silhouette of the TF-IDF vectors over a range of k, with fewer restarts
+ *     per k (a large pool sweeps k on a seeded sample); then every passage with the chosen k;
  *  5. per cluster: log-odds terms against the rest of the study, central passages, spread over
  *     transcripts and speakers, cohesion; clusters made mostly of dismissed passages held back.
  *
@@ -34,11 +34,11 @@ export function resolveDiscoverOptions(o: DiscoverOptions = {}): Resolved {
     seed: o.seed ?? 0,
     maxIterations: o.maxIterations ?? 300,
     representation: o.representation ?? 'vocabulary',
-    dims: o.dims ?? 512,
+    dims: o.dims ?? 256,
     maxCells: o.maxCells ?? 8_000_000,
     projectionNonZeros: o.projectionNonZeros ?? 4,
     sweepSample: o.sweepSample ?? 2000,
-    sweepRestarts: o.sweepRestarts ?? 3,
+    sweepRestarts: o.sweepRestarts ?? 2,
     silhouetteSample: o.silhouetteSample ?? 20000,
     terms: o.terms ?? 10,
     central: o.central ?? 3,
@@ -111,7 +111,7 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
     } else {
       let best: { k: number; score: number; fit: KMeansFit } | null = null;
       for (let kk = Math.max(lo, 2); kk <= hi; kk++) {
-        const f = km(sRows, kk, sampled ? o.sweepRestarts : o.restarts);
+        const f = km(sRows, kk, Math.min(o.sweepRestarts, o.restarts));
         const score = silhouetteOf(sVecs, f.labels, o.silhouetteSample, o.seed) ?? -1;
         base.silhouette.push({ k: kk, score });
         // Ties keep the smaller k.
@@ -119,7 +119,8 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
       }
       k = best!.k;
       chosenBy = 'silhouette';
-      if (!sampled) fit = best!.fit;
+      // The sweep's restarts are the first of the final fit's (same seeds), so refit only for more.
+      if (!sampled && o.sweepRestarts >= o.restarts) fit = best!.fit;
     }
   }
   fit ??= km(rows, k);

@@ -108,7 +108,7 @@ export interface DiscoverOptions {
   maxIterations?: number;
   /** How the sparse TF-IDF vectors become the dense rows ml-kmeans needs (default 'vocabulary'). */
   representation?: Representation;
-  /** Widest dense rows (default 512); fewer when `maxCells` / passages is smaller. */
+  /** Widest dense rows (default 256); fewer when `maxCells` / passages is smaller. */
   dims?: number;
   /** Bound on passages x width of the dense rows, i.e. on memory and time (default 8,000,000). */
   maxCells?: number;
@@ -116,7 +116,7 @@ export interface DiscoverOptions {
   projectionNonZeros?: number;
   /** Pools larger than this choose k on a seeded sample of this many passages (default 2000). */
   sweepSample?: number;
-  /** Restarts per k while choosing k (default 3); the chosen k is then fitted with `restarts`. */
+  /** Restarts per k while choosing k (default 2); the chosen k is then fitted with `restarts`. */
   sweepRestarts?: number;
   /** Silhouettes over more passages than this use a seeded sample of this size (default 20000). */
   silhouetteSample?: number;

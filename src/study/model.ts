@@ -4,7 +4,6 @@ import { analyse } from '../text/nlp.js';
 import { contentLemmas } from '../text/terms.js';
 import { currentCodings } from './codings.js';
 import type { DB } from './db.js';
-import { passageTerms } from './passages.js';
 import { currentTemplate } from './template.js';
 
 export interface ModelInputs {
@@ -17,11 +16,30 @@ export interface ModelInputs {
 
 /** Everything the suggestion model learns from, read from the study in one go. */
 export function modelInputs(db: DB): ModelInputs {
-  const meta = db
-    .prepare('SELECT p.id, t.name AS transcript, p.ordinal, p.role FROM passages p JOIN transcripts t ON t.id = p.transcript_id ORDER BY t.id, p.ordinal')
-    .all() as { id: string; transcript: string; ordinal: number; role: ModelPassage['role'] }[];
-  const terms = passageTerms(db);
-  const passages: ModelPassage[] = meta.map((m, i) => ({ ...m, terms: contentLemmas({ lemmas: terms[i]!.lemmas, stop: terms[i]!.stops }) }));
+  // One pass over the stored analysis: the lemma string is split once, and whether a lemma has a
+  // letter is decided once per distinct lemma (the same test as contentLemmas), not per token.
+  // Every occurrence of a lemma becomes one shared string, whose hash the model's maps reuse.
+  const rows = db
+    .prepare(
+      `SELECT p.id, t.name AS transcript, p.ordinal, p.role, p.lemmas, p.stops
+       FROM passages p JOIN transcripts t ON t.id = p.transcript_id ORDER BY t.id, p.ordinal`,
+    )
+    .raw()
+    .all() as [string, string, number, ModelPassage['role'], string, Buffer][];
+  const canonical = new Map<string, string | null>();
+  const letter = /\p{L}/u;
+  const passages: ModelPassage[] = rows.map(([id, transcript, ordinal, role, lemmaText, stops]) => {
+    const lemmas = lemmaText ? lemmaText.split(' ') : [];
+    const terms: string[] = [];
+    for (let i = 0; i < lemmas.length; i++) {
+      if (stops[i]) continue;
+      const l = lemmas[i]!;
+      let c = canonical.get(l);
+      if (c === undefined) canonical.set(l, (c = letter.test(l) ? l : null));
+      if (c !== null) terms.push(c);
+    }
+    return { id, transcript, ordinal, role, terms, words: lemmas.length };
+  });
 
   // Several coders may give one passage the same theme: the model needs it once.
   const seen = new Set<string>();
@@ -43,7 +61,8 @@ export function modelInputs(db: DB): ModelInputs {
     apriori: e.node.apriori,
     definition: e.node.definition,
     seeds: e.node.seeds.map((s) => contentLemmas(analyse(s)).join(' ')).filter(Boolean),
-    definitionTerms: contentLemmas(analyse(`${e.node.definition} ${e.node.include}`)),
+    // (Blank notes need no analysis, and so no loading of the language model.)
+    definitionTerms: `${e.node.definition} ${e.node.include}`.trim() ? contentLemmas(analyse(`${e.node.definition} ${e.node.include}`)) : [],
   }));
   return { passages, codings, themes, uncoded };
 }

@@ -61,8 +61,10 @@ export function suggest(db: DB, opts: SuggestOptions = {}): SuggestRun {
     // Best first: the themes the hierarchy rule chose (the most specific ones above threshold),
     // then the rest by confidence; a parent's confidence always includes its sub-themes'.
     const chosen = open.filter((c) => c.chosen);
-    const ranked = [...chosen, ...open.filter((c) => !c.chosen)];
-    return { ...p, unclaimed: chosen.length === 0, candidates: top ? ranked.slice(0, top) : chosen.length ? chosen : ranked.slice(0, 1) };
+    const ranked = chosen.length ? [...chosen, ...open.filter((c) => !c.chosen)] : open;
+    p.unclaimed = chosen.length === 0;
+    p.candidates = top ? ranked.slice(0, top) : chosen.length ? chosen : ranked.slice(0, 1);
+    return p;
   });
 
   return db.transaction(() => {
@@ -72,17 +74,33 @@ export function suggest(db: DB, opts: SuggestOptions = {}): SuggestRun {
         .run(new Date().toISOString(), rev.rev, model.fingerprint, JSON.stringify(model.options), kept.length, kept.filter((p) => p.unclaimed).length)
         .lastInsertRowid,
     );
-    const ins = db.prepare(
-      'INSERT INTO suggestions (run_id, passage_id, theme_id, rank, confidence, above, chosen, reasons) VALUES (?, ?, ?, ?, ?, ?, ?, ?)',
-    );
-    const passages = kept.map((p) => ({
-      ...p,
-      candidates: p.candidates.map((c, i) => {
-        const reasons = c.reasons.length ? JSON.stringify(c.reasons) : '[]';
-        const id = Number(ins.run(runId, p.passageId, c.themeId, i + 1, c.confidence, c.aboveThreshold ? 1 : 0, c.chosen ? 1 : 0, reasons).lastInsertRowid);
-        return { ...c, suggestionId: id, rank: i + 1 };
-      }),
-    }));
+    // Ids are given explicitly (the next free ones, inside this transaction), so that many rows
+    // can go in one statement: a run writes hundreds of thousands of rows, and one statement
+    // execution per row was most of the cost of storing them.
+    let next = (db.prepare('SELECT COALESCE(MAX(id), 0) AS id FROM suggestions').get() as { id: number }).id + 1;
+    const COLS = 9;
+    const BATCH = 200;
+    const statement = (n: number) =>
+      db.prepare(`INSERT INTO suggestions (id, run_id, passage_id, theme_id, rank, confidence, above, chosen, reasons) VALUES ${Array(n).fill('(?, ?, ?, ?, ?, ?, ?, ?, ?)').join(', ')}`);
+    const full = statement(BATCH);
+    const args: unknown[] = [];
+    const flush = () => {
+      if (!args.length) return;
+      (args.length === BATCH * COLS ? full : statement(args.length / COLS)).run(args);
+      args.length = 0;
+    };
+    const passages = kept.map((p) => {
+      const candidates = p.candidates.map((c, i) => {
+        const stored = c as StoredCandidate;
+        stored.suggestionId = next++;
+        stored.rank = i + 1;
+        args.push(stored.suggestionId, runId, p.passageId, c.themeId, i + 1, c.confidence, c.aboveThreshold ? 1 : 0, c.chosen ? 1 : 0, c.reasons.length ? JSON.stringify(c.reasons) : '[]');
+        if (args.length === BATCH * COLS) flush();
+        return stored;
+      });
+      return { ...p, candidates };
+    });
+    flush();
     const paths = new Map(inputs.themes.map((t) => [t.id, t.path]));
     return { runId, rev: rev.rev, fingerprint: model.fingerprint, passages, reports: model.themeReports(), paths };
   })();

@@ -3,27 +3,33 @@
  * passages, with calibrated confidences and reasons.
  *
  * The model, chosen by measurement (docs/suggest-experiments.md):
- *  1. three signals per (passage, theme) from the profiles (centroid cosine, weighted log-odds,
- *     nearest exemplars), every one computed leave-one-transcript-out (LOTO) for passages of
- *     coded transcripts, so the batch yields honest scores for free;
- *  2. a base score u = shared logistic combination of the standardised signals;
- *  3. context: u of the neighbouring passages, of the rest of the transcript (distance decay
- *     chosen by cross-validated log-loss) and of the interviewer's question, combined with u by
- *     a second shared logistic model with one intercept per theme; a study whose neighbours are
- *     unrelated gets context weights near 0;
- *  4. per-theme Platt scaling (or isotonic regression) of the LOTO scores into confidences, and
- *     per-theme thresholds meeting the target precision on the same LOTO confidences.
+ *  1. signals per (passage, theme) from the profiles (centroid cosine, weighted log-odds,
+ *     optionally nearest exemplars), every one computed leave-one-transcript-out (LOTO) for
+ *     transcripts with codings or rejections, so the batch yields honest scores for free; the
+ *     LOTO signals of a held-out transcript's own themes get back the gain of one more transcript
+ *     (estimated leave-two-out), so that the batch looks like a new transcript does;
+ *  2. a base score u = shared combination of the standardised signals;
+ *  3. context: u of the neighbouring passages, of the rest of the transcript (distance decay and
+ *     scaling chosen by cross-validated log-loss) and of the interviewer's question, with the
+ *     passage's length and the speaker's role, combined by a conditional logit over the themes
+ *     at the same depth of the template plus "none", one intercept per theme; its probabilities
+ *     are the confidences (no separate per-theme calibration: that overfitted a few transcripts);
+ *  4. rejected suggestions count against their theme: a Rocchio share of their vectors is taken
+ *     from the theme's profile, their words join the theme's "rest" in the log-odds, and each is
+ *     an observation "not this theme" for the conditional logit;
+ *  5. per-theme thresholds meeting the target precision on the LOTO confidences.
  */
 import { UserError } from '../errors.js';
 import { isStopWord } from '../text/stopwords.js';
 import { withBigrams } from '../text/terms.js';
 import { TfidfVectorizer, type TfidfState } from '../text/tfidf.js';
 import { cosine, type SparseVector } from '../text/vectors.js';
-import { calibrate, fitIsotonic, fitPlatt, type Calibrator, type Platt } from './calibrate.js';
+import { calibrate, fitPlatt, type Platt } from './calibrate.js';
+import { choiceLoss, fitChoice, type ChoiceData, type ChoiceModel } from './choice.js';
+import { fitGrouped } from './logistic.js';
 import { adjacent, question, transcript as transcriptContext } from './context.js';
 import { fingerprint } from './fingerprint.js';
 import { buildTree, chooseThemes, rolledUpLabels, type Tree } from './hierarchy.js';
-import { fitGrouped, logLoss, type GroupedData } from './logistic.js';
 import { CENTROID, EXEMPLARS, LOGODDS, Profiles, SIGNALS, type Corpus } from './profiles.js';
 import { chooseThreshold, precisionRecallAt } from './thresholds.js';
 import type {
@@ -41,6 +47,14 @@ import type {
 
 const BASE_SIGNALS: SignalName[] = ['centroid', 'logodds', 'exemplars'];
 const BASE_INDEX: Record<string, number> = { centroid: CENTROID, logodds: LOGODDS, exemplars: EXEMPLARS };
+/** Quantiles of the coded passages' log length at which the length effect may bend. */
+const LENGTH_KNOTS = [0.1, 0.25, 0.5];
+/** Partners averaged in the leave-two-out estimate (3 measured no better than 1). */
+const PARTNERS = 1;
+/** Newton steps a context candidate gets before the candidates are compared. */
+const SCREEN_STEPS = 2;
+/** Newton steps of the base layer. */
+const BASE_STEPS = 4;
 
 export type ResolvedOptions = Required<Omit<SuggesterOptions, 'signals'>> & { signals: Record<SignalName, boolean> };
 
@@ -52,48 +66,70 @@ export function resolveOptions(o: SuggesterOptions = {}): ResolvedOptions {
     minTranscripts: o.minTranscripts ?? 2,
     priorStrength: o.priorStrength ?? 500,
     neighbours: o.neighbours ?? 5,
-    decays: o.decays ?? [0.6, 0.9, 1],
-    calibration: o.calibration ?? 'platt',
+    decays: o.decays ?? [0.3, 0.6, 0.9, 1],
+    // The root scaling measured as well as choosing between both by cross-validation, at half the fits.
+    contextScales: o.contextScales ?? ['sqrt'],
     overlapCosine: o.overlapCosine ?? 0.8,
     ridge: o.ridge ?? 1,
     competition: o.competition ?? 'level',
-    calibrationScope: o.calibrationScope ?? 'theme',
-    contextScale: o.contextScale ?? 'mean',
+    rocchio: o.rocchio ?? 0.25,
+    looCorrection: o.looCorrection ?? true,
     signals: {
       centroid: o.signals?.centroid ?? true,
       logodds: o.signals?.logodds ?? true,
       exemplars: o.signals?.exemplars ?? false,
-      adjacent: o.signals?.adjacent ?? true,
+      // Off: a transcript context with decay 0.3 says the same, and the two together split one
+      // effect into opposite-signed weights (docs/suggest-experiments.md).
+      adjacent: o.signals?.adjacent ?? false,
       transcript: o.signals?.transcript ?? true,
       question: o.signals?.question ?? true,
+      length: o.signals?.length ?? true,
     },
   };
 }
 
-/** A standardised shared logistic layer: which inputs, their scaling, and the weights. */
+/** A standardised shared layer: which inputs, their scaling, and the weights. */
 export interface LayerState {
   inputs: string[];
   mean: number[];
   sd: number[];
   weights: number[];
-  /** Per theme (index as in `themes`); 0 for themes the layer was not trained on. */
+  /** Per theme (index as in `themes`); themes the layer was not trained on get their level's mean. */
   intercepts: number[];
 }
 
 export interface SuggesterState {
-  version: 1;
+  version: 2;
   options: ResolvedOptions;
   tfidf: TfidfState;
   themes: { id: string; path: string; profiled: boolean; seedOnly: boolean; tooFew: boolean }[];
   base: LayerState;
-  context: LayerState & { decay: number; logLossByDecay: Record<string, number> };
-  calibrators: (Calibrator | null)[];
+  context: LayerState & { decay: number; scale: 'mean' | 'sqrt'; logLoss: Record<string, number> };
+  /** Whether a passage is coded at all, from its log length (a spline with these knots) and role. */
+  substance: { knots: number[]; interviewer: boolean; mean: number[]; sd: number[]; weights: number[]; intercept: number } | null;
   /** Maps a seed-only theme's cosine to its seed profile into a confidence (pooled over themes). */
   seedCalibrator: Platt | null;
   thresholds: number[];
   reports: ThemeReport[];
-  /** Coded passages and transcripts the fit learned from. */
-  coded: { passages: number; transcripts: number; codings: number; ignoredCodings: number };
+  /** Coded passages and transcripts the fit learned from, and the rejections it used. */
+  coded: { passages: number; transcripts: number; codings: number; ignoredCodings: number; negatives: number };
+}
+
+/** One input of a layer: a value per (passage, theme) cell, or per passage. */
+interface Column {
+  name: string;
+  cell?: Float64Array;
+  passage?: Float64Array;
+}
+
+/** Training observations of the layers: choice sets over cells (passage * nT + theme). */
+interface Sets {
+  cells: Int32Array;
+  /** Theme of each row (cells % nT). */
+  theme: Int32Array;
+  y: Uint8Array;
+  start: Int32Array;
+  partial: Uint8Array;
 }
 
 export class ThemeSuggester {
@@ -124,10 +160,9 @@ export class ThemeSuggester {
   /**
    * @param passages ALL passages of the study, ordered by transcript then ordinal
    * @param codings the coded batch (a passage may carry several themes)
-   * @param extra.negatives rejected suggestions; reserved for Rocchio-style negative evidence
+   * @param extra.negatives (passage, theme) pairs a coder rejected or re-coded away from
    */
   fit(passages: ModelPassage[], codings: Coding[], themes: ThemeInfo[], extra: { negatives?: Coding[] } = {}): this {
-    void extra.negatives; // not used yet: the next issue adds rejections as negative evidence
     const o = this.options;
     if (codings.length === 0) throw new UserError('no coded passages yet: code the initial batch first (trellis sheet import)');
     const tree = (this.tree = buildTree(themes));
@@ -159,21 +194,32 @@ export class ThemeSuggester {
     });
     const labelsInBatch = labels.map((l, i) => (codedTranscript[transcriptOf[i]!] ? l : []));
 
+    // Rejections: a theme a passage is (still) coded with, or inherits from a sub-theme, is not
+    // counted against it (two coders disagreed, or the coder came back to it).
+    const negs: number[][] = passages.map(() => []);
+    let usedNegatives = 0;
+    for (const n of extra.negatives ?? []) {
+      const p = this.pIndex.get(n.passageId);
+      const t = tree.index.get(n.themeId);
+      if (p === undefined || t === undefined || labels[p]!.includes(t) || negs[p]!.includes(t)) continue;
+      negs[p]!.push(t);
+      usedNegatives++;
+    }
+
     // Text model: fitted on every passage of the study (unsupervised, so LOTO stays exact).
-    this.termLists = passages.map((p) => withBigrams(p.terms, o.bigrams));
-    this.vec = new TfidfVectorizer().fit(this.termLists);
-    const both = this.termLists.map((t) => this.vec.vectorAndCounts(t));
-    const x = both.map((b) => b.vector);
-    const c = both.map((b) => b.counts);
+    // Without bigrams the passages' own term lists serve (they are not modified).
+    this.termLists = o.bigrams ? passages.map((p) => withBigrams(p.terms, true)) : passages.map((p) => p.terms);
+    this.vec = new TfidfVectorizer();
+    const { vectors: x, counts: c } = this.vec.fitVectorise(this.termLists);
     const nT = themes.length;
-    const corpus: Corpus = (this.corpus = { x, c, vocabulary: this.vec.size, transcriptOf, members, codedTranscript, labels: labelsInBatch, themes: nT });
-    const prof = (this.profiles = new Profiles(corpus, o.priorStrength, o.signals.exemplars ? o.neighbours : 0));
+    const corpus: Corpus = (this.corpus = { x, c, vocabulary: this.vec.size, transcriptOf, members, codedTranscript, labels: labelsInBatch, negatives: negs, themes: nT });
+    const prof = (this.profiles = new Profiles(corpus, o.priorStrength, o.signals.exemplars ? o.neighbours : 0, o.rocchio));
 
     const profiled = themes.map((_, t) => prof.positives[t]! > 0);
     const seedOnly = themes.map((th, t) => !profiled[t] && this.seedTerms(th).length > 0);
     const tooFew = themes.map((_, t) => profiled[t]! && (prof.positives[t]! < o.minExamples || prof.positiveTranscripts[t]! < o.minTranscripts));
 
-    // 1. LOTO signals of every passage (full profiles for uncoded transcripts).
+    // 1. LOTO signals of every passage (full profiles for transcripts with no labels).
     const nP = passages.length;
     const F = new Float64Array(nP * nT * SIGNALS);
     const valid = new Uint8Array(nP * nT);
@@ -188,128 +234,189 @@ export class ThemeSuggester {
         for (let t = 0; t < nT; t++) valid[p * nT + t] = fs.valid[t]! & (profiled[t] ? 1 : 0);
       });
     });
+    if (o.looCorrection) this.correctLoto(F, prof, tree, members, codedTranscript, labelsInBatch);
 
-    // Training rows: passages of coded transcripts x themes whose fold profile is not empty.
-    const rows: number[] = [];
-    for (let ti = 0; ti < members.length; ti++) {
-      if (!codedTranscript[ti]) continue;
-      for (const p of members[ti]!) for (let t = 0; t < nT; t++) if (valid[p * nT + t]) rows.push(p * nT + t);
-    }
-    const yOf = (r: number) => (labelsInBatch[Math.floor(r / nT)]!.includes(r % nT) ? 1 : 0);
-    const y = Uint8Array.from(rows, yOf);
-    const group = Int32Array.from(rows, (r) => r % nT);
+    // Competition groups: the profiled themes at one depth (or with one parent). Every profiled
+    // theme trains, those with too few codings too: a theme coded in one transcript only has no
+    // cross-validated positive, and the fit says so with a very low intercept (it is not
+    // suggested until a second transcript has it); given a base-rate intercept instead, its
+    // one-passage profile scored far out of the range the layers were fitted on.
+    const levelOf = themes.map((_, t) => (o.competition === 'siblings' ? tree.parent[t]! : o.competition === 'none' ? t : tree.ancestors[t]!.length));
+    const groupOf = new Map<number, number[]>();
+    themes.forEach((_, t) => {
+      if (profiled[t]) (groupOf.get(levelOf[t]!) ?? groupOf.set(levelOf[t]!, []).get(levelOf[t]!)!).push(t);
+    });
+    const groups = [...groupOf.values()];
+    const sets = trainingSets(groups, valid, members, codedTranscript, labelsInBatch, negs, nT);
 
     // 2. Base layer.
     const baseInputs = BASE_SIGNALS.filter((s) => o.signals[s]);
     if (!baseInputs.length) throw new Error('at least one of the signals centroid, logodds, exemplars must be on');
-    const baseCols = baseInputs.map((s) => (cell: number) => F[cell * SIGNALS + BASE_INDEX[s]!]!);
-    const base = fitLayer(baseInputs, baseCols, rows, y, group, nT, o.ridge);
+    const baseCols: Column[] = baseInputs.map((s) => {
+      const col = new Float64Array(nP * nT);
+      for (let cell = 0; cell < nP * nT; cell++) col[cell] = F[cell * SIGNALS + BASE_INDEX[s]!]!;
+      return { name: s, cell: col };
+    });
+    // u only feeds the context features: a few Newton steps place it well enough.
+    const base = fitLayer(baseCols, sets, nT, o.ridge, undefined, BASE_STEPS).layer;
     const u = new Float64Array(nP * nT);
-    for (let cell = 0; cell < nP * nT; cell++) u[cell] = layerLinear(base, baseCols, cell, false);
+    for (let j = 0; j < baseCols.length; j++) {
+      const w = base.weights[j]! / base.sd[j]!;
+      const m = base.mean[j]!;
+      const col = baseCols[j]!.cell!;
+      for (let cell = 0; cell < nP * nT; cell++) u[cell] = u[cell]! + w * (col[cell]! - m);
+    }
 
-    // 3. Context layer, the decay chosen by log-loss on the LOTO rows.
+    // 3. Context layer, the decay and scaling chosen by log-loss on the LOTO sets.
     const role = passages.map((p) => p.role);
     const ctxIn = { u, themes: nT, members, role };
     const hasQuestion = o.signals.question && passages.some((p, i) => p.role === 'participant' && i > 0 && members[transcriptOf[i]!]!.some((q) => q < i && passages[q]!.role === 'interviewer'));
-    const adj = o.signals.adjacent ? adjacent(ctxIn) : null;
-    const q = hasQuestion ? question(ctxIn) : null;
+    const fixed: Column[] = [{ name: 'base', cell: u }];
+    if (o.signals.adjacent) fixed.push({ name: 'adjacent', cell: adjacent(ctxIn) });
+    if (hasQuestion) fixed.push({ name: 'question', cell: question(ctxIn) });
+    const knots: number[] = [];
+    let substance: SuggesterState['substance'] = null;
+    if (o.signals.length) {
+      // Short turns ("yes", "mm") and interviewer turns are seldom coded at all. Whether a passage
+      // is coded, from its log length (a linear spline bending at quantiles) and the speaker's
+      // role, is fitted on its own first (one row a passage: quick), and its logit enters the
+      // layer as one input; the spline inside the layer made Newton crawl along its collinear terms.
+      const len = Float64Array.from(passages, (p) => Math.log(1 + (p.words ?? p.terms.length)));
+      const rowsP = members.flatMap((m, ti) => (codedTranscript[ti] ? m : []));
+      const sorted = rowsP.map((p) => len[p]!).sort((a, b) => a - b);
+      for (const q of LENGTH_KNOTS) {
+        const k = sorted[Math.floor(q * (sorted.length - 1))]!;
+        if (!knots.includes(k)) knots.push(k);
+      }
+      const roles = new Set(rowsP.map((p) => role[p]));
+      const interviewer = roles.size > 1;
+      const feats = (p: number) => [len[p]!, ...knots.map((k) => Math.max(0, len[p]! - k)), ...(interviewer ? [role[p] === 'interviewer' ? 1 : 0] : [])];
+      const k = 1 + knots.length + (interviewer ? 1 : 0);
+      const raw = rowsP.map(feats);
+      const mean = Array.from({ length: k }, (_, j) => raw.reduce((a, r) => a + r[j]!, 0) / Math.max(1, raw.length));
+      const sd = Array.from({ length: k }, (_, j) => Math.sqrt(raw.reduce((a, r) => a + (r[j]! - mean[j]!) ** 2, 0) / Math.max(1, raw.length)) || 1);
+      const xs = new Float64Array(raw.length * k);
+      raw.forEach((r, i) => r.forEach((v, j) => (xs[i * k + j] = (v - mean[j]!) / sd[j]!)));
+      const yCoded = Uint8Array.from(rowsP, (p) => (labelsInBatch[p]!.length ? 1 : 0));
+      const m = fitGrouped({ x: xs, k, y: yCoded, group: new Int32Array(raw.length), groups: 1 }, o.ridge);
+      substance = { knots, interviewer, mean, sd, weights: m.weights, intercept: m.intercepts[0]! };
+      const logit = Float64Array.from(passages, (_, p) => feats(p).reduce((a, v, j) => a + (m.weights[j]! * (v - mean[j]!)) / sd[j]!, m.intercepts[0]!));
+      fixed.push({ name: 'length', passage: logit });
+    }
     const decays = o.signals.transcript ? o.decays : [NaN];
-    let best: { layer: LayerState; loss: number; decay: number; tr: Float64Array | null } | null = null;
-    const lossByDecay: Record<string, number> = {};
-    for (const decay of decays) {
-      const tr = Number.isNaN(decay) ? null : transcriptContext(ctxIn, decay, o.contextScale);
-      const inputs = ['base', ...(adj ? ['adjacent'] : []), ...(tr ? ['transcript'] : []), ...(q ? ['question'] : [])];
-      const cols = inputs.map((name) => {
-        const src = name === 'base' ? u : name === 'adjacent' ? adj! : name === 'transcript' ? tr! : q!;
-        return (cell: number) => src[cell]!;
-      });
-      const layer = fitLayer(inputs, cols, rows, y, group, nT, o.ridge);
-      const loss = layerLoss(layer, cols, rows, y, group, nT);
-      lossByDecay[String(decay)] = loss;
-      if (!best || loss < best.loss - 1e-12) best = { layer, loss, decay, tr };
+    const scales = o.signals.transcript ? o.contextScales : (['mean'] as const);
+    let best: { layer: LayerState; loss: number; decay: number; scale: 'mean' | 'sqrt'; cols: Column[]; index: number } | null = null;
+    const lossBy: Record<string, number> = {};
+    // The first candidate starts where the base layer and the length model leave off: weight
+    // sd(x) on a standardised x is weight 1 on x itself.
+    const sdOf = (col: Column) => {
+      const v = rowValues(col, sets, nT);
+      const m = v.reduce((a, x) => a + x, 0) / Math.max(1, v.length);
+      return Math.sqrt(v.reduce((a, x) => a + (x - m) ** 2, 0) / Math.max(1, v.length)) || 1;
+    };
+    // With the length logit L at weight 1, P(coded) = sigmoid(L) when the intercepts are the
+    // log shares of the themes among the coded (plus the mean of L, which standardising takes off).
+    const lengthCol = fixed.find((c) => c.name === 'length');
+    let warmIntercepts = base.intercepts;
+    if (lengthCol) {
+      const v = rowValues(lengthCol, sets, nT);
+      const mu = v.reduce((a, x) => a + x, 0) / Math.max(1, v.length);
+      const pos = new Float64Array(nT);
+      const codedSets = new Float64Array(nT);
+      for (let st = 0; st + 1 < sets.start.length; st++) {
+        if (sets.partial[st]) continue;
+        let any = 0;
+        for (let r = sets.start[st]!; r < sets.start[st + 1]!; r++) any |= sets.y[r]!;
+        for (let r = sets.start[st]!; r < sets.start[st + 1]!; r++) {
+          if (any) codedSets[sets.theme[r]!]!++;
+          pos[sets.theme[r]!] = pos[sets.theme[r]!]! + sets.y[r]!;
+        }
+      }
+      warmIntercepts = Array.from(pos, (n, t) => (codedSets[t]! ? Math.log((n + 0.5) / (codedSets[t]! + 0.5)) + mu : base.intercepts[t]!));
+    }
+    const warm = {
+      weights: [...fixed.map((c) => (c.name === 'base' || c.name === 'length' ? sdOf(c) : 0)), ...(o.signals.transcript ? [0] : [])],
+      intercepts: warmIntercepts,
+    };
+    // The first candidate is fitted to convergence; the others are compared after a few Newton
+    // steps from it (the loss has settled to a few parts in 10^4 by then), and only the winner
+    // is then fitted to convergence.
+    const candidates = scales.flatMap((scale) => decays.map((decay) => ({ scale, decay })));
+    for (const [index, { scale, decay }] of candidates.entries()) {
+      const cols = Number.isNaN(decay) ? fixed : [...fixed, { name: 'transcript', cell: transcriptContext(ctxIn, decay, scale) }];
+      const { layer, data } = fitLayer(cols, sets, nT, o.ridge, best?.layer ?? warm, best ? SCREEN_STEPS : undefined);
+      const loss = choiceLoss(layer, data);
+      lossBy[Number.isNaN(decay) ? 'none' : `${scale} ${decay}`] = loss;
+      if (!best || loss < best.loss - 1e-12) best = { layer, loss, decay, scale, cols, index };
+    }
+    if (best!.index > 0) {
+      const done = fitLayer(best!.cols, sets, nT, o.ridge, best!.layer);
+      best!.layer = done.layer;
+      best!.loss = choiceLoss(done.layer, done.data);
     }
     const ctx = best!;
-    const ctxCols = ctx.layer.inputs.map((name) => {
-      const src = name === 'base' ? u : name === 'adjacent' ? adj! : name === 'transcript' ? ctx.tr! : q!;
-      return (cell: number) => src[cell]!;
-    });
 
-    // Combined scores and the parts due to context (for reasons).
+    // Scores, the parts due to context (for reasons), and confidences within each group.
     this.score = new Float64Array(nP * nT);
     this.ctxPart = new Float64Array(nP * nT);
     this.qPart = new Float64Array(nP * nT);
-    for (let cell = 0; cell < nP * nT; cell++) {
-      this.score[cell] = layerLinear(ctx.layer, ctxCols, cell, true, cell % nT);
-      ctx.layer.inputs.forEach((name, j) => {
-        const part = (ctx.layer.weights[j]! * (ctxCols[j]!(cell) - ctx.layer.mean[j]!)) / ctx.layer.sd[j]!;
-        if (name === 'adjacent' || name === 'transcript') this.ctxPart[cell] = this.ctxPart[cell]! + part;
-        if (name === 'question') this.qPart[cell] = part;
-      });
-    }
-
-    // Siblings compete: s_t - log(1 + sum over profiled siblings of e^s), the log-probability of
-    // a multinomial logit with a "none of these" alternative. Without it the best of 15 leaves
-    // is under-confident (its rivals' weakness is evidence for it); see the experiments log.
-    if (o.competition !== 'none') {
-      const groups = new Map<number, number[]>();
-      themes.forEach((_, t) => {
-        if (!profiled[t]) return;
-        const g = o.competition === 'siblings' ? tree.parent[t]! : tree.ancestors[t]!.length;
-        (groups.get(g) ?? groups.set(g, []).get(g)!).push(t);
-      });
-      for (let p = 0; p < nP; p++) {
-        for (const g of groups.values()) {
-          let mx = 0;
-          for (const t of g) mx = Math.max(mx, this.score[p * nT + t]!);
-          let sum = Math.exp(-mx);
-          for (const t of g) sum += Math.exp(this.score[p * nT + t]! - mx);
-          const lse = mx + Math.log(sum);
-          for (const t of g) this.score[p * nT + t] = this.score[p * nT + t]! - lse;
-        }
+    ctx.cols.forEach((col, j) => {
+      const w = ctx.layer.weights[j]! / ctx.layer.sd[j]!;
+      const m = ctx.layer.mean[j]!;
+      const part = col.name === 'adjacent' || col.name === 'transcript' ? this.ctxPart : col.name === 'question' ? this.qPart : null;
+      for (let cell = 0; cell < nP * nT; cell++) {
+        const v = w * ((col.cell ? col.cell[cell]! : col.passage![(cell / nT) | 0]!) - m);
+        this.score[cell] = this.score[cell]! + v;
+        if (part) part[cell] = part[cell]! + v;
       }
-    }
-
-    // 4. Calibration and thresholds per theme, on the LOTO rows.
-    const rowsOf: number[][] = themes.map(() => []);
-    rows.forEach((r, i) => rowsOf[r % nT]!.push(i));
-    const pooled = (() => {
-      const s = rows.map((r) => this.score[r]!);
-      return o.calibration === 'platt' ? fitPlatt(s, y) : fitIsotonic(s, y);
-    })();
-    const calibrators: (Calibrator | null)[] = themes.map((_, t) => {
-      if (!profiled[t] || tooFew[t]) return null;
-      if (o.calibrationScope === 'pooled') return pooled;
-      const s = rowsOf[t]!.map((i) => this.score[rows[i]!]!);
-      const l = rowsOf[t]!.map((i) => y[i]!);
-      return o.calibration === 'platt' ? fitPlatt(s, l) : fitIsotonic(s, l);
     });
-    // Seed-only themes: how a centroid cosine maps to a coding, pooled over all themes.
-    const seedCalibrator = seedOnly.some(Boolean) && rows.length ? fitPlatt(rows.map((r) => F[r * SIGNALS + CENTROID]!), y) : null;
-    this.seedVecs = themes.map((th, t) => (seedOnly[t] ? this.vec.vector(withBigrams(this.seedTerms(th), o.bigrams)) : null));
-
+    for (let cell = 0; cell < nP * nT; cell++) this.score[cell] = this.score[cell]! + ctx.layer.intercepts[cell % nT]!;
     this.conf = new Float64Array(nP * nT);
     for (let p = 0; p < nP; p++) {
-      for (let t = 0; t < nT; t++) {
-        const cell = p * nT + t;
-        if (profiled[t]) {
-          const cal = calibrators[t];
-          this.conf[cell] = calibrate(cal ?? pooled, this.score[cell]!);
-        } else if (seedOnly[t] && seedCalibrator) {
-          const cos = cosine(x[p]!, this.seedVecs[t]!);
-          this.score[cell] = cos;
-          this.conf[cell] = calibrate(seedCalibrator, cos);
-        }
+      for (const g of groups) {
+        let mx = 0;
+        for (const t of g) mx = Math.max(mx, this.score[p * nT + t]!);
+        let sum = Math.exp(-mx);
+        for (const t of g) sum += Math.exp(this.score[p * nT + t]! - mx);
+        for (const t of g) this.conf[p * nT + t] = Math.exp(this.score[p * nT + t]! - mx) / sum;
+      }
+    }
+    // Coding a sub-theme codes its parent too, so no parent may be less likely than its child;
+    // the depths are fitted apart, and where they disagree the parent takes the child's value.
+    const byDepth = themes.map((_, t) => t).sort((a, b) => tree.ancestors[b]!.length - tree.ancestors[a]!.length || a - b);
+    for (const t of byDepth) {
+      const up = tree.parent[t]!;
+      if (up < 0 || !profiled[t] || !profiled[up]) continue;
+      for (let p = 0; p < nP; p++) if (this.conf[p * nT + t]! > this.conf[p * nT + up]!) this.conf[p * nT + up] = this.conf[p * nT + t]!;
+    }
+
+    // 4. Seed-only themes: how a centroid cosine maps to a coding, pooled over all themes.
+    const rowsOf: number[][] = themes.map(() => []);
+    for (let s = 0; s + 1 < sets.start.length; s++) {
+      if (sets.partial[s]) continue;
+      for (let r = sets.start[s]!; r < sets.start[s + 1]!; r++) rowsOf[sets.cells[r]! % nT]!.push(r);
+    }
+    const trainRows = rowsOf.flat();
+    const seedCalibrator = seedOnly.some(Boolean) && trainRows.length ? fitPlatt(trainRows.map((r) => F[sets.cells[r]! * SIGNALS + CENTROID]!), trainRows.map((r) => sets.y[r]!)) : null;
+    this.seedVecs = themes.map((th, t) => (seedOnly[t] ? this.vec.vector(withBigrams(this.seedTerms(th), o.bigrams)) : null));
+    for (let t = 0; t < nT; t++) {
+      if (!seedOnly[t] || !seedCalibrator) continue;
+      for (let p = 0; p < nP; p++) {
+        const cos = cosine(x[p]!, this.seedVecs[t]!);
+        this.score[p * nT + t] = cos;
+        this.conf[p * nT + t] = calibrate(seedCalibrator, cos);
       }
     }
 
+    // 5. Thresholds per theme, on the LOTO confidences of the coded batch.
     const thresholds = themes.map(() => o.targetPrecision);
     const reports: ThemeReport[] = themes.map((th, t) => {
       const warnings: string[] = [];
       let expectedPrecision: number | null = null;
       let expectedRecall: number | null = null;
       if (profiled[t] && !tooFew[t]) {
-        const confs = rowsOf[t]!.map((i) => this.conf[rows[i]!]!);
-        const l = rowsOf[t]!.map((i) => y[i]!);
+        const confs = rowsOf[t]!.map((r) => this.conf[sets.cells[r]!]!);
+        const l = rowsOf[t]!.map((r) => sets.y[r]!);
         const choice = chooseThreshold(confs, l, o.targetPrecision);
         thresholds[t] = choice.threshold;
         expectedPrecision = choice.precision;
@@ -329,6 +436,7 @@ export class ThemeSuggester {
       } else {
         warnings.push('no coded passage, definition or seeds: not suggested');
       }
+      if (prof.rejected[t]) warnings.push(`${prof.rejected[t]} rejected suggestion(s) count against this theme`);
       return {
         themeId: th.id,
         path: th.path,
@@ -357,20 +465,89 @@ export class ThemeSuggester {
 
     const codedPassages = labelsInBatch.filter((l) => l.length).length;
     this.st = {
-      version: 1,
+      version: 2,
       options: o,
       tfidf: this.vec.state,
       themes: themes.map((th, t) => ({ id: th.id, path: th.path, profiled: profiled[t]!, seedOnly: seedOnly[t]!, tooFew: tooFew[t]! })),
       base,
-      context: { ...ctx.layer, decay: ctx.decay, logLossByDecay: lossByDecay },
-      calibrators,
+      context: { ...ctx.layer, decay: ctx.decay, scale: ctx.scale, logLoss: lossBy },
+      substance,
       seedCalibrator,
       thresholds,
       reports,
-      coded: { passages: codedPassages, transcripts: codedTranscript.reduce((a, b) => a + b, 0), codings: codings.length - ignored, ignoredCodings: ignored },
+      coded: {
+        passages: codedPassages,
+        transcripts: codedTranscript.reduce((a, b) => a + b, 0),
+        codings: codings.length - ignored,
+        ignoredCodings: ignored,
+        negatives: usedNegatives,
+      },
     };
     this.fp = fingerprint([JSON.stringify(this.st), prof.s, prof.y, this.score, this.conf]);
     return this;
+  }
+
+  /**
+   * LOTO signals understate a held-out transcript's own themes: their profiles lack it, while a
+   * new transcript meets profiles with every coded transcript. For each coded transcript, a
+   * partner sharing most of its themes is also left out; the change from leave-two-out to
+   * leave-one-out estimates the gain of one more transcript, added back with the weight
+   * (k - 2) / k that a 1/k learning curve gives (k = transcripts coded with the theme).
+   */
+  private correctLoto(F: Float64Array, prof: Profiles, tree: Tree, members: number[][], coded: Uint8Array, labels: number[][]): void {
+    const nT = prof.nT;
+    // Passages coded with each theme in each transcript: the share each adds to a profile.
+    const countOf = members.map((m) => {
+      const cnt = new Map<number, number>();
+      for (const p of m) for (const t of labels[p]!) cnt.set(t, (cnt.get(t) ?? 0) + 1);
+      return cnt;
+    });
+    const themesOf = countOf.map((c) => new Set(c.keys()));
+    const codedList = members.map((_, ti) => ti).filter((ti) => coded[ti]);
+    // A fixed hash breaks ties between equally good partners, so the choice is reproducible.
+    const hash = (a: number, b: number) => (Math.imul(a + 1, 2654435761) ^ Math.imul(b + 1, 40503)) >>> 0;
+    for (const ti of codedList) {
+      const mine = themesOf[ti]!;
+      // Partners: the coded transcripts sharing most leaf themes, ties broken by the hash.
+      const ranked = codedList
+        .filter((tj) => tj !== ti)
+        .map((tj) => {
+          let ov = 0;
+          for (const t of themesOf[tj]!) if (mine.has(t) && tree.isLeaf[t]) ov++;
+          return { tj, ov, h: hash(ti, tj) };
+        })
+        .filter((r) => r.ov > 0)
+        .sort((a, b) => b.ov - a.ov || b.h - a.h)
+        .slice(0, PARTNERS);
+      const gain = new Float64Array(members[ti]!.length * nT * SIGNALS);
+      const count = new Int32Array(nT);
+      for (const { tj } of ranked) {
+        const fs2 = prof.foldSignals(ti, tj, [...mine].filter((t) => themesOf[tj]!.has(t)));
+        for (const t of mine) {
+          if (!themesOf[tj]!.has(t) || !fs2.valid[t]) continue;
+          count[t]!++;
+          // The partner's gain, scaled to what this transcript adds to the theme.
+          const scale = Math.min(3, countOf[ti]!.get(t)! / countOf[tj]!.get(t)!);
+          members[ti]!.forEach((p, mi) => {
+            for (let sg = 0; sg < SIGNALS; sg++) {
+              const at = (mi * nT + t) * SIGNALS + sg;
+              gain[at] = gain[at]! + scale * (F[(p * nT + t) * SIGNALS + sg]! - fs2.f[at]!);
+            }
+          });
+        }
+      }
+      members[ti]!.forEach((p, mi) => {
+        for (const t of mine) {
+          if (!count[t]) continue;
+          const k = prof.positiveTranscripts[t]!;
+          const lam = Math.max(k - 2, 0) / k / count[t]!;
+          for (let sg = 0; sg < SIGNALS; sg++) {
+            const at = (p * nT + t) * SIGNALS + sg;
+            F[at] = F[at]! + lam * gain[(mi * nT + t) * SIGNALS + sg]!;
+          }
+        }
+      });
+    }
   }
 
   /** Learned state as plain data (profiles' sums are summarised by the fingerprint). */
@@ -397,33 +574,37 @@ export class ThemeSuggester {
     const st = this.state;
     const nT = st.themes.length;
     const ids = passageIds ?? this.passages.map((p) => p.id);
+    const scoredThemes: number[] = [];
+    for (let t = 0; t < nT; t++) if (st.themes[t]!.profiled || (st.themes[t]!.seedOnly && st.seedCalibrator)) scoredThemes.push(t);
+    const seeds = this.tree.themes.map((th) => this.seedList(th));
+    const conf = this.conf;
+    const score = this.score;
     return ids.map((id) => {
       const p = this.pIndex.get(id);
       if (p === undefined) throw new UserError(`passage ${id} is not in the study the model was fitted on`);
-      const scored: number[] = [];
-      for (let t = 0; t < nT; t++) if (st.themes[t]!.profiled || (st.themes[t]!.seedOnly && st.seedCalibrator)) scored.push(t);
-      scored.sort((a, b) => this.conf[p * nT + b]! - this.conf[p * nT + a]! || this.score[p * nT + b]! - this.score[p * nT + a]! || a - b);
-      const above = scored.filter((t) => this.conf[p * nT + t]! >= st.thresholds[t]!);
+      const o = p * nT;
+      const scored = scoredThemes.slice().sort((a, b) => conf[o + b]! - conf[o + a]! || score[o + b]! - score[o + a]! || a - b);
+      const above = scored.filter((t) => conf[o + t]! >= st.thresholds[t]!);
       const chosen = chooseThemes(this.tree, above);
-      const needReasons = scored.some((t, r) => r < withReasons || chosen.has(t));
-      const near = needReasons && !this.options.signals.exemplars ? this.profiles.nearestExemplars(p) : null;
+      const explain = scored.filter((t, r) => r < withReasons || chosen.has(t));
+      const near = explain.length && !this.options.signals.exemplars ? this.profiles.nearestExemplars(p, explain) : null;
+      const have = explain.some((t) => seeds[t]!.length) ? new Set(this.termLists[p]) : null;
       const candidates: Candidate[] = scored.map((t, r) => ({
         themeId: st.themes[t]!.id,
-        score: this.score[p * nT + t]!,
-        confidence: this.conf[p * nT + t]!,
-        aboveThreshold: this.conf[p * nT + t]! >= st.thresholds[t]!,
+        score: score[o + t]!,
+        confidence: conf[o + t]!,
+        aboveThreshold: conf[o + t]! >= st.thresholds[t]!,
         chosen: chosen.has(t),
-        reasons: r < withReasons || chosen.has(t) ? this.reasons(p, t, near) : [],
+        reasons: r < withReasons || chosen.has(t) ? this.reasons(p, t, near, seeds[t]!, have) : [],
       }));
       return { passageId: id, transcript: this.passages[p]!.transcript, candidates, unclaimed: chosen.size === 0 };
     });
   }
 
-  private reasons(p: number, t: number, near: { nearest: Int32Array; sim: Float64Array } | null): Reason[] {
+  private reasons(p: number, t: number, near: { nearest: Int32Array; sim: Float64Array } | null, seeds: string[], have: Set<string> | null): Reason[] {
     const st = this.state;
     const nT = st.themes.length;
     const out: Reason[] = [];
-    const th = this.tree.themes[t]!;
     if (st.themes[t]!.profiled) {
       const terms = this.matchedTerms(p, t, 5);
       if (terms.length) out.push({ kind: 'terms', terms });
@@ -433,9 +614,8 @@ export class ThemeSuggester {
       if (this.ctxPart[p * nT + t]) out.push({ kind: 'context', weight: round(this.ctxPart[p * nT + t]!) });
       if (this.qPart[p * nT + t]) out.push({ kind: 'question', weight: round(this.qPart[p * nT + t]!) });
     }
-    const have = new Set(this.termLists[p]);
-    const seeds = this.seedList(th).filter((s) => have.has(s));
-    if (seeds.length) out.push({ kind: 'seeds', terms: seeds });
+    const matched = have ? seeds.filter((s) => have.has(s)) : [];
+    if (matched.length) out.push({ kind: 'seeds', terms: matched });
     if (st.themes[t]!.seedOnly) out.push({ kind: 'seed-only' });
     return out;
   }
@@ -443,19 +623,35 @@ export class ThemeSuggester {
   /** The passage's terms that are distinctive of the theme (z > 1.96), by contribution. */
   private matchedTerms(p: number, t: number, n: number): { term: string; weight: number }[] {
     const c = this.corpus.c[p]!;
+    const { loc, nT } = this.profiles;
+    const delta = this.profiles.fullDelta();
+    const z = this.profiles.fullZ();
     const out: { term: string; weight: number }[] = [];
     for (let k = 0; k < c.indices.length; k++) {
-      const lo = this.profiles.termLogOdds(c.indices[k]!, t);
-      if (lo && lo.delta > 0 && lo.z > 1.96) out.push({ term: this.vec.term(c.indices[k]!), weight: round(c.values[k]! * lo.delta) });
+      const l = loc[c.indices[k]!]!;
+      if (l < 0) continue;
+      const d = delta[l * nT + t]!;
+      if (d > 0 && z[l * nT + t]! > 1.96) out.push({ term: this.vec.term(c.indices[k]!), weight: round(c.values[k]! * d) });
     }
     return out.sort((a, b) => b.weight - a.weight || (a.term < b.term ? -1 : 1)).slice(0, n);
   }
 
+  /** The theme's most distinctive terms by z (rounded, as reported), ties by term. */
   private topTerms(t: number, n: number): TermWeight[] {
+    const { nT, vc, termOf } = this.profiles;
+    const delta = this.profiles.fullDelta();
+    const z = this.profiles.fullZ();
+    // Only the terms whose rounded z reaches the n-th largest need an object.
+    const rz: number[] = [];
+    for (let l = 0; l < vc; l++) if (delta[l * nT + t]! > 0) rz.push(round(z[l * nT + t]!));
+    if (!rz.length) return [];
+    const cut = rz.sort((a, b) => b - a)[Math.min(n, rz.length) - 1]!;
     const out: TermWeight[] = [];
-    for (const [i] of this.profiles.codedTerms()) {
-      const lo = this.profiles.termLogOdds(i, t);
-      if (lo && lo.delta > 0) out.push({ term: this.vec.term(i), weight: round(lo.delta), z: round(lo.z) });
+    for (let l = 0; l < vc; l++) {
+      const d = delta[l * nT + t]!;
+      if (d <= 0) continue;
+      const zz = round(z[l * nT + t]!);
+      if (zz >= cut) out.push({ term: this.vec.term(termOf[l]!), weight: round(d), z: zz });
     }
     return out.sort((a, b) => b.z - a.z || (a.term < b.term ? -1 : 1)).slice(0, n);
   }
@@ -486,32 +682,91 @@ function round(v: number): number {
   return Math.round(v * 1e4) / 1e4;
 }
 
-function sigmoidOf(z: number): number {
-  return z >= 0 ? 1 / (1 + Math.exp(-z)) : Math.exp(z) / (1 + Math.exp(z));
+/**
+ * The layers' observations. Every passage of a coded transcript is a full set per group: the
+ * themes it is coded with, or "none". A rejection outside a coded transcript is a partial set:
+ * only "not this theme" is known. Rows are the themes whose fold profile is not empty.
+ */
+function trainingSets(
+  groups: number[][],
+  valid: Uint8Array,
+  members: number[][],
+  coded: Uint8Array,
+  labels: number[][],
+  negs: number[][],
+  nT: number,
+): Sets {
+  const cells: number[] = [];
+  const y: number[] = [];
+  const start = [0];
+  const partial: number[] = [];
+  for (let ti = 0; ti < members.length; ti++) {
+    for (const p of members[ti]!) {
+      const full = coded[ti] === 1;
+      if (!full && !negs[p]!.length) continue;
+      for (const g of groups) {
+        const before = cells.length;
+        let hit = false;
+        for (const t of g) {
+          if (!valid[p * nT + t]) continue;
+          const yes = full ? labels[p]!.includes(t) : negs[p]!.includes(t);
+          hit ||= yes;
+          cells.push(p * nT + t);
+          y.push(yes ? 1 : 0);
+        }
+        if (cells.length === before || (!full && !hit)) {
+          cells.length = before;
+          y.length = before;
+          continue;
+        }
+        start.push(cells.length);
+        partial.push(full ? 0 : 1);
+      }
+    }
+  }
+  return { cells: Int32Array.from(cells), theme: Int32Array.from(cells, (c) => c % nT), y: Uint8Array.from(y), start: Int32Array.from(start), partial: Uint8Array.from(partial) };
 }
 
-type Column = (cell: number) => number;
+/** A column's values on the training rows. */
+function rowValues(col: Column, sets: Sets, nT: number): Float64Array {
+  const n = sets.cells.length;
+  const out = new Float64Array(n);
+  const { cells } = sets;
+  if (col.cell) for (let i = 0; i < n; i++) out[i] = col.cell[cells[i]!]!;
+  else for (let i = 0; i < n; i++) out[i] = col.passage![(cells[i]! / nT) | 0]!;
+  return out;
+}
 
-function layerData(layer: Pick<LayerState, 'mean' | 'sd'>, cols: Column[], rows: number[], y: Uint8Array, group: Int32Array, nT: number): GroupedData {
+function choiceData(layer: Pick<LayerState, 'mean' | 'sd'>, cols: Column[], sets: Sets, nT: number, values?: Float64Array[]): ChoiceData {
   const k = cols.length;
-  const xs = new Float64Array(rows.length * k);
-  rows.forEach((cell, i) => cols.forEach((col, j) => (xs[i * k + j] = (col(cell) - layer.mean[j]!) / layer.sd[j]!)));
-  return { x: xs, k, y, group, groups: nT };
+  const n = sets.cells.length;
+  const xs = new Float64Array(n * k);
+  cols.forEach((col, j) => {
+    const v = values?.[j] ?? rowValues(col, sets, nT);
+    const m = layer.mean[j]!;
+    const inv = 1 / layer.sd[j]!;
+    for (let i = 0; i < n; i++) xs[i * k + j] = (v[i]! - m) * inv;
+  });
+  return { x: xs, k, theme: sets.theme, y: sets.y, setStart: sets.start, partial: sets.partial, themes: nT };
 }
 
-function fitLayer(inputs: string[], cols: Column[], rows: number[], y: Uint8Array, group: Int32Array, nT: number, ridge: number): LayerState {
-  const mean = cols.map((col) => rows.reduce((s, r) => s + col(r), 0) / Math.max(rows.length, 1));
-  const sd = cols.map((col, j) => Math.sqrt(rows.reduce((s, r) => s + (col(r) - mean[j]!) ** 2, 0) / Math.max(rows.length, 1)) || 1);
-  const m = fitGrouped(layerData({ mean, sd }, cols, rows, y, group, nT), ridge);
-  return { inputs, mean, sd, weights: m.weights, intercepts: m.intercepts };
-}
-
-function layerLoss(layer: LayerState, cols: Column[], rows: number[], y: Uint8Array, group: Int32Array, nT: number): number {
-  return logLoss({ weights: layer.weights, intercepts: layer.intercepts }, layerData(layer, cols, rows, y, group, nT));
-}
-
-function layerLinear(layer: LayerState, cols: Column[], cell: number, intercept: boolean, theme = 0): number {
-  let z = intercept ? layer.intercepts[theme]! : 0;
-  for (let j = 0; j < cols.length; j++) z += (layer.weights[j]! * (cols[j]!(cell) - layer.mean[j]!)) / layer.sd[j]!;
-  return z;
+/**
+ * Standardises the inputs over the training rows and fits the conditional logit; returns the
+ * layer and the training data it was fitted on (for its loss).
+ */
+function fitLayer(
+  cols: Column[],
+  sets: Sets,
+  nT: number,
+  ridge: number,
+  start?: ChoiceModel,
+  maxIter?: number,
+): { layer: LayerState; data: ChoiceData } {
+  const n = Math.max(sets.cells.length, 1);
+  const values = cols.map((col) => rowValues(col, sets, nT));
+  const mean = values.map((v) => v.reduce((s, x) => s + x, 0) / n);
+  const sd = values.map((v, j) => Math.sqrt(v.reduce((s, x) => s + (x - mean[j]!) ** 2, 0) / n) || 1);
+  const data = choiceData({ mean, sd }, cols, sets, nT, values);
+  const m = fitChoice(data, ridge, 1e-3, start && start.weights.length === cols.length ? start : undefined, maxIter);
+  return { layer: { inputs: cols.map((c) => c.name), mean, sd, weights: m.weights, intercepts: m.intercepts }, data };
 }

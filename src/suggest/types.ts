@@ -23,6 +23,8 @@ export interface ModelPassage {
   role: Role;
   /** Non-stop lemmas in order (contentLemmas of the stored analysis). */
   terms: string[];
+  /** Tokens of the passage, stop words included, when the edge knows them (else terms.length). */
+  words?: number;
 }
 
 export interface Coding {
@@ -30,17 +32,15 @@ export interface Coding {
   themeId: string;
 }
 
-/** What fit() learns from. `negatives` is the place for rejected suggestions (next issue). */
+/** What fit() learns from. */
 export interface FitInput {
   /** ALL passages of the study, ordered by transcript then ordinal, so context is available. */
   passages: ModelPassage[];
   codings: Coding[];
   themes: ThemeInfo[];
-  /** Passages a coder said do NOT carry a theme (rejections); reserved, not used yet. */
+  /** Passages a coder said do NOT carry a theme (rejections and re-codes away from it). */
   negatives?: Coding[];
 }
-
-export type Calibration = 'platt' | 'isotonic';
 
 export interface SuggesterOptions {
   /** Precision each theme's default threshold must reach on the cross-validated batch (0.7). */
@@ -56,17 +56,18 @@ export interface SuggesterOptions {
   neighbours?: number;
   /** Distance decay of the transcript-context signal; candidates tried by cross-validation. */
   decays?: number[];
-  calibration?: Calibration;
+  /** Transcript context as a weighted mean, or scaled by the root of its weight; candidates tried by cross-validation. */
+  contextScales?: ('mean' | 'sqrt')[];
   /** Cosine above which two themes' centroids are reported as overlapping (0.8). */
   overlapCosine?: number;
   /** Which themes compete for a passage: those at the same depth (default 'level', measured best), siblings, or none. */
   competition?: 'siblings' | 'level' | 'none';
-  /** Transcript context as a weighted mean, or scaled by the root of its weight (default 'mean'). */
-  contextScale?: 'mean' | 'sqrt';
-  /** One calibration per theme, or one for all themes (default 'theme'). */
-  calibrationScope?: 'theme' | 'pooled';
   /** Ridge penalty of the signal-combination weights (default 1). */
   ridge?: number;
+  /** Share of a theme's profile vector its rejected passages may take away (Rocchio's gamma, default 0.25). */
+  rocchio?: number;
+  /** Add back to LOTO signals the gain of one more transcript, estimated leave-two-out (default true). */
+  looCorrection?: boolean;
   /** Candidate signals; all by default. The lab switches them off to measure each. */
   signals?: Partial<Record<SignalName, boolean>>;
 }
@@ -78,7 +79,8 @@ export type SignalName =
   | 'exemplars' // mean cosine to the theme's nearest coded passages
   | 'adjacent' // the combined base score of the passages just before and after
   | 'transcript' // the base score of the rest of the transcript, decaying with distance
-  | 'question'; // the base score of the interviewer's question before the passage
+  | 'question' // the base score of the interviewer's question before the passage
+  | 'length'; // the passage's length (and the speaker's role), which decides whether it is coded at all
 
 export interface TermWeight {
   term: string;
@@ -116,7 +118,7 @@ export type Reason =
 
 export interface Candidate {
   themeId: string;
-  /** Combined score (log-odds scale of the shared combination, before per-theme calibration). */
+  /** Combined score: the theme's utility in the conditional logit (for a seed-only theme, the cosine to its seed profile). */
   score: number;
   /** Calibrated probability that the coder would give this theme. */
   confidence: number;

@@ -12,7 +12,7 @@ export function contentLemmas(a: Pick<TextAnalysis, 'lemmas' | 'stop'>): string[
   return out;
 }
 
-/** Unigrams followed by bigrams ("a b") when asked. */
+/** Unigrams followed by bigrams ("a b") when asked; without them, a copy of the lemmas. */
 export function withBigrams(lemmas: readonly string[], bigrams: boolean): string[] {
   if (!bigrams || lemmas.length < 2) return lemmas.slice();
   const out = lemmas.slice();

@@ -61,12 +61,71 @@ export class TfidfVectorizer {
 
   /** Learns the vocabulary and document frequencies of `docs` (each a list of terms). */
   fit(docs: readonly (readonly string[])[]): this {
-    const counts = new Map<string, number>();
-    for (const d of docs) for (const t of new Set(d)) counts.set(t, (counts.get(t) ?? 0) + 1);
-    const vocab = [...counts.keys()].filter((t) => counts.get(t)! >= this.options.minDf);
-    vocab.sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
-    this.setVocabulary(vocab, vocab.map((t) => counts.get(t)!), docs.length);
+    this.learn(docs);
     return this;
+  }
+
+  /**
+   * fit(docs) and the vectors and raw counts of the same docs, hashing each token once: the
+   * docs are turned into term ids while the vocabulary is learned, and vectorised from the ids.
+   */
+  fitVectorise(docs: readonly (readonly string[])[]): { vectors: SparseVector[]; counts: SparseVector[] } {
+    const { ids, remap } = this.learn(docs);
+    const vectors: SparseVector[] = new Array(docs.length);
+    const counts: SparseVector[] = new Array(docs.length);
+    const counter = new Float64Array(this.vocab.length);
+    const seen: number[] = [];
+    for (let d = 0; d < docs.length; d++) {
+      for (const raw of ids[d]!) {
+        const i = remap[raw]!;
+        if (i < 0) continue;
+        if (counter[i] === 0) seen.push(i);
+        counter[i] = counter[i]! + 1;
+      }
+      const b = this.weigh(seen, counter);
+      seen.length = 0;
+      vectors[d] = b.vector;
+      counts[d] = b.counts;
+    }
+    return { vectors, counts };
+  }
+
+  /** Vocabulary and document frequencies; returns each doc as provisional ids and their map to final indices (-1: dropped). */
+  private learn(docs: readonly (readonly string[])[]): { ids: Int32Array[]; remap: Int32Array } {
+    const id = new Map<string, number>();
+    const names: string[] = [];
+    const df: number[] = [];
+    const last: number[] = [];
+    const ids = docs.map((d, n) => {
+      const out = new Int32Array(d.length);
+      for (let k = 0; k < d.length; k++) {
+        const t = d[k]!;
+        let i = id.get(t);
+        if (i === undefined) {
+          i = names.length;
+          id.set(t, i);
+          names.push(t);
+          df.push(0);
+          last.push(-1);
+        }
+        if (last[i] !== n) {
+          last[i] = n;
+          df[i]!++;
+        }
+        out[k] = i;
+      }
+      return out;
+    });
+    const keep = names.map((_, i) => i).filter((i) => df[i]! >= this.options.minDf);
+    keep.sort((a, b) => (names[a]! < names[b]! ? -1 : names[a]! > names[b]! ? 1 : 0));
+    const remap = new Int32Array(names.length).fill(-1);
+    keep.forEach((i, k) => (remap[i] = k));
+    this.setVocabulary(
+      keep.map((i) => names[i]!),
+      keep.map((i) => df[i]!),
+      docs.length,
+    );
+    return { ids, remap };
   }
 
   fitTransform(docs: readonly (readonly string[])[]): SparseVector[] {
@@ -94,6 +153,14 @@ export class TfidfVectorizer {
       if (counter[i] === 0) seen.push(i);
       counter[i] = counter[i]! + 1;
     }
+    return this.weigh(seen, counter);
+  }
+
+  /**
+   * Weights of the terms `seen` (counted in `counter`, which is cleared). The counts share the
+   * vector's index array: both are read-only once made.
+   */
+  private weigh(seen: number[], counter: Float64Array): { vector: SparseVector; counts: SparseVector } {
     const indices = Int32Array.from(seen).sort();
     const values = new Float64Array(indices.length);
     const counts = new Float64Array(indices.length);
@@ -111,7 +178,7 @@ export class TfidfVectorizer {
       const inv = 1 / Math.sqrt(ss);
       for (let k = 0; k < values.length; k++) values[k] = values[k]! * inv;
     }
-    return { vector: { indices, values }, counts: { indices: indices.slice(), values: counts } };
+    return { vector: { indices, values }, counts: { indices, values: counts } };
   }
 
   private counter = new Float64Array(0);

@@ -103,7 +103,7 @@ describe('k-means on TF-IDF vectors of invented passages against scikit-learn', 
 
   it('discover() picks the k scikit-learn picks by silhouette, with its partition', () => {
     const pool = f.text.passages.map((p) => ({ id: p.id, transcript: 'T', speaker: null, terms: p.terms }));
-    const res = discover(pool, docs, { restarts: 10, kRange: [2, 5] });
+    const res = discover(pool, docs, { restarts: 10, sweepRestarts: 10, kRange: [2, 5] });
     expect(res.chosenBy).toBe('silhouette');
     expect(res.k).toBe(f.text.best_k);
     expect(res.representation).toEqual({ method: 'vocabulary', dims: vec.size, vocabulary: vec.size });

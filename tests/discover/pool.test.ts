@@ -109,8 +109,17 @@ describe('the unclaimed pool', () => {
     for (const p of plain.pool) expect(flags.get(p.id)).toBe(true);
   });
 
-  it('lets a parent coded directly claim', () => {
+  it('lets a parent coded directly claim, also when the coder rejected the sub-theme chosen over it', () => {
     const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings: [...codings, { passageId: 't9#1', themeId: 'work' }], rejected });
     expect(r.pool.map((p) => p.id)).toEqual(['t1#5', 't1#8']);
+    // t1#9: "staff" was chosen (it hid its parent) but rejected; "work", above threshold, claims.
+    const more = unclaimedPool({
+      passages: [...passages, passage('t1#9')],
+      suggestions: [...suggestions, sugg('t1#9', [cand('work', 0.9, true, false), cand('staff', 0.8, true)])],
+      themes: THEMES,
+      codings: [...codings, { passageId: 't9#1', themeId: 'work' }],
+      rejected: [...rejected, { passageId: 't1#9', themeId: 'staff' }],
+    });
+    expect(more.excluded.find((e) => e.id === 't1#9')?.reason).toBe('claimed');
   });
 });

@@ -95,3 +95,41 @@ export function syntheticStudy(runs: boolean, seed = 1): { passages: ModelPassag
   }
   return { passages, codings };
 }
+
+/**
+ * The tiny study plus two uncoded transcripts t7, t8 like the others, each with two answers of
+ * messaging talk (email, phone, message) that shares "email", "system" and "computer" with admin
+ * talk. A coder rejected Admin for t7's messaging answers; t8's are new.
+ */
+export function messagingStudy(): { passages: ModelPassage[]; codings: Coding[]; negatives: Coding[]; fresh: string[]; t7: string[] } {
+  const { passages, codings } = tinyStudy();
+  const messaging = [
+    ['email', 'message', 'phone', 'system', 'inbox', 'computer'],
+    ['phone', 'message', 'text', 'computer', 'reply', 'email'],
+    ['message', 'email', 'inbox', 'system', 'phone', 'text'],
+  ];
+  const negatives: Coding[] = [];
+  const fresh: string[] = [];
+  const t7: string[] = [];
+  for (const t of [7, 8]) {
+    let ord = 0;
+    const add = (role: 'interviewer' | 'participant', terms: string[]) => {
+      const id = `t${t}#${++ord}`;
+      passages.push({ id, transcript: `t${t}`, ordinal: ord, role, terms });
+      return id;
+    };
+    for (const theme of ['staff', 'admin', 'support', 'messaging']) {
+      add('interviewer', QUESTION);
+      for (let k = 0; k < 2; k++) {
+        const terms = theme === 'messaging' ? messaging[(t + k) % 3]! : TALK[theme]![(t + k) % 3]!;
+        const id = add('participant', terms);
+        if (theme !== 'messaging') continue;
+        if (t === 7) {
+          negatives.push({ passageId: id, themeId: 'admin' });
+          t7.push(id);
+        } else fresh.push(id);
+      }
+    }
+  }
+  return { passages, codings, negatives, fresh, t7 };
+}

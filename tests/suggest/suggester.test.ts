@@ -4,7 +4,7 @@ import { ThemeSuggester } from '../../src/suggest/index.js';
 import { buildTree, chooseThemes } from '../../src/suggest/hierarchy.js';
 import { Profiles, SIGNALS, type Corpus } from '../../src/suggest/profiles.js';
 import { TfidfVectorizer } from '../../src/text/tfidf.js';
-import { FLAT, THEMES, syntheticStudy, tinyStudy } from './study.js';
+import { FLAT, THEMES, messagingStudy, syntheticStudy, tinyStudy } from './study.js';
 
 const LEAVES = new Set(['staff', 'admin', 'support']);
 
@@ -145,21 +145,111 @@ describe('leave-one-transcript-out signals are exact', () => {
       expect([...a.nearest]).toEqual([...b.nearest]);
     }
   });
+
+  it('also when two transcripts are left out, and when the held-out one has rejections', () => {
+    const { passages, codings } = syntheticStudy(true);
+    const vec = new TfidfVectorizer();
+    const { vectors, counts } = vec.fitVectorise(passages.map((p) => p.terms));
+    const members: number[][] = [];
+    const transcriptOf = new Int32Array(passages.length);
+    passages.forEach((p, i) => {
+      const ti = Number(p.transcript.slice(1));
+      (members[ti] ??= []).push(i);
+      transcriptOf[i] = ti;
+    });
+    const index = new Map(FLAT.map((t, i) => [t.id, i]));
+    const byId = new Map(passages.map((p, i) => [p.id, i]));
+    // Rejections: theme a for the first five passages of uncoded transcript 15.
+    const negOf = (t: number) => passages.map((p, i) => (transcriptOf[i] === t && p.ordinal <= 5 ? [0] : []));
+    const corpusWithout = (held: number[], negTranscripts: number[]): Corpus => {
+      const coded = new Uint8Array(members.length);
+      const labels = passages.map(() => [] as number[]);
+      for (const c of codings) {
+        const p = byId.get(c.passageId)!;
+        if (held.includes(transcriptOf[p]!)) continue;
+        coded[transcriptOf[p]!] = 1;
+        labels[p] = [index.get(c.themeId)!];
+      }
+      const negatives = passages.map((_, i) => (negTranscripts.includes(transcriptOf[i]!) ? negOf(transcriptOf[i]!)[i]! : []));
+      return { x: vectors, c: counts, vocabulary: vec.size, transcriptOf, members, codedTranscript: coded, labels, negatives, themes: FLAT.length };
+    };
+    const full = new Profiles(corpusWithout([], [15]), 50, 0);
+    // Leave two out: transcripts 3 and 7.
+    const a = full.foldSignals(3, 7);
+    const b = new Profiles(corpusWithout([3, 7], [15]), 50, 0).foldSignals(3);
+    a.f.forEach((v, i) => expect(v).toBeCloseTo(b.f[i]!, 9));
+    // The uncoded transcript with rejections is held out of its own profile.
+    const c = full.foldSignals(15);
+    const d = new Profiles(corpusWithout([], []), 50, 0).foldSignals(15);
+    c.f.forEach((v, i) => expect(v).toBeCloseTo(d.f[i]!, 9));
+    // and the rejections do change the other transcripts' signals of theme a
+    const e = full.foldSignals(16);
+    const g = new Profiles(corpusWithout([], []), 50, 0).foldSignals(16);
+    expect(e.f.some((v, i) => Math.abs(v - g.f[i]!) > 1e-6)).toBe(true);
+  });
 });
 
 describe('context weight is learned from the coded batch', () => {
   const weight = (runs: boolean) => {
     const { passages, codings } = syntheticStudy(runs);
     const st = new ThemeSuggester().fit(passages, codings, FLAT).state.context;
-    const w = (name: string) => st.weights[st.inputs.indexOf(name)]!;
-    return { base: w('base'), context: Math.abs(w('adjacent')) + Math.abs(w('transcript')) };
+    // An input the model does not use (the adjacent signal is off by default) weighs 0.
+    const w = (name: string) => (st.inputs.includes(name) ? st.weights[st.inputs.indexOf(name)]! : 0);
+    return { base: w('base'), context: Math.abs(w('adjacent')) + Math.abs(w('transcript')), decay: st.decay };
   };
   it('is large when talk on a theme runs over several passages', () => {
     const r = weight(true);
     expect(r.context).toBeGreaterThan(0.5 * r.base);
+    // Runs of five passages: the context that wins by cross-validation is local, not the whole transcript.
+    expect(r.decay).toBeLessThan(1);
   });
   it('is near zero when neighbouring passages are unrelated', () => {
     const r = weight(false);
     expect(r.context).toBeLessThan(0.15 * r.base);
+  });
+});
+
+describe('rejected suggestions are negative evidence', () => {
+  const { passages, codings, negatives, fresh, t7 } = messagingStudy();
+  const opts = { minExamples: 3 };
+  const without = new ThemeSuggester(opts).fit(passages, codings, THEMES);
+  const withNeg = new ThemeSuggester(opts).fit(passages, codings, THEMES, { negatives });
+  const conf = (m: ThemeSuggester, id: string, theme: string) => m.predict([id])[0]!.candidates.find((c) => c.themeId === theme)!.confidence;
+
+  it("lowers the rejected theme's confidence on new passages like the rejected ones", () => {
+    for (const id of fresh) {
+      const before = conf(without, id, 'admin');
+      const after = conf(withNeg, id, 'admin');
+      expect(after, id).toBeLessThan(0.7 * before);
+    }
+    // Messaging talk looks like admin talk before any decision.
+    expect(Math.min(...fresh.map((id) => conf(without, id, 'admin')))).toBeGreaterThan(0.2);
+  });
+
+  it('leave genuine passages of the theme to it', () => {
+    const { passages: p0, codings: c0, truth } = tinyStudy();
+    void p0;
+    void c0;
+    const admin = [...truth].filter(([id, th]) => th === 'admin' && /^t[56]#/.test(id)).map(([id]) => id);
+    expect(admin.length).toBeGreaterThan(0);
+    for (const id of admin) {
+      const top = withNeg.predict([id])[0]!.candidates.find((c) => LEAVES.has(c.themeId))!;
+      expect(top.themeId, id).toBe('admin');
+      expect(conf(withNeg, id, 'admin')).toBeGreaterThan(0.8 * conf(without, id, 'admin'));
+    }
+  });
+
+  it('count against the theme in its profile and report', () => {
+    expect(withNeg.state.coded.negatives).toBe(t7.length);
+    const report = withNeg.themeReports().find((r) => r.themeId === 'admin')!;
+    expect(report.warnings.join(' ')).toMatch(/2 rejected suggestion\(s\) count against this theme/);
+    expect(withNeg.fingerprint).not.toBe(without.fingerprint);
+  });
+
+  it('are ignored where the passage is coded with the theme (the coding stands)', () => {
+    const coded = codings.find((c) => c.themeId === 'admin')!;
+    const m = new ThemeSuggester(opts).fit(passages, codings, THEMES, { negatives: [coded, { passageId: coded.passageId, themeId: 'work' }] });
+    expect(m.state.coded.negatives).toBe(0);
+    expect(m.fingerprint).toBe(without.fingerprint);
   });
 });

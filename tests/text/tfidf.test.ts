@@ -92,6 +92,28 @@ describe('TF-IDF against scikit-learn TfidfVectorizer(sublinear_tf=True) (tests/
     const m = new TfidfVectorizer({ minDf: 2 }).fit(fixture.train);
     expect(m.vocabulary).toEqual(['manager', 'night shift', 'overtime', 'pay', 'rota', 'shift', 'support']);
   });
+
+  it('fits and vectorises in one pass exactly as fit() then vectorAndCounts()', () => {
+    for (const opts of [{}, { minDf: 2 }]) {
+      const one = new TfidfVectorizer(opts);
+      const both = one.fitVectorise(fixture.train);
+      const two = new TfidfVectorizer(opts).fit(fixture.train);
+      expect(one.state).toEqual(two.state);
+      fixture.train.forEach((d, i) => {
+        const ref = two.vectorAndCounts(d);
+        expect(toRecord(both.vectors[i]!)).toEqual(toRecord(ref.vector));
+        expect(toRecord(both.counts[i]!)).toEqual(toRecord(ref.counts));
+      });
+    }
+    // and the scikit-learn rows of the fixture
+    const v = new TfidfVectorizer();
+    v.fitVectorise(fixture.train).vectors.forEach((row, i) => {
+      const want = fixture.train_rows[i]!;
+      const got = toRecord(row, v.vocabulary);
+      expect(Object.keys(got).sort()).toEqual(Object.keys(want).sort());
+      for (const [t, w] of Object.entries(want)) expect(got[t]).toBeCloseTo(w, 12);
+    });
+  });
 });
 
 describe('sparse vectors', () => {
