@@ -22,7 +22,7 @@ import { join } from 'node:path';
 import { analyseMany } from '../dist/text/pool.js';
 import { contentLemmas } from '../dist/text/terms.js';
 import { ThemeSuggester } from '../dist/suggest/index.js';
-import { brownCategories, brownText } from './brown.mjs';
+import { brownCategories, brownText, rng } from './brown.mjs';
 
 const OUT = join(import.meta.dirname, 'out');
 const CACHE = join(OUT, 'brown-passages.json');
@@ -59,17 +59,6 @@ const VARIANTS = {
   'Rocchio 1': { rocchio: 1 },
 };
 
-function rng(seed) {
-  // mulberry32: small, seeded, good enough for a split
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 async function loadPassages() {
   if (existsSync(CACHE)) return JSON.parse(readFileSync(CACHE, 'utf8'));

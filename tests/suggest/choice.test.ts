@@ -1,18 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { choiceLoss, fitChoice, type ChoiceData } from '../../src/suggest/choice.js';
 import { fitGrouped } from '../../src/suggest/logistic.js';
+import { seededRandom as rng } from '../../src/measure/random.js';
 
-/** A seeded generator (mulberry32). */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** Sets of three themes (0, 1, 2) plus "none", one row per theme, with given chosen theme (-1 = none). */
 function threeWay(choices: number[], feature?: (s: number, t: number) => number, partial?: number[]): ChoiceData {

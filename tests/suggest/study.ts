@@ -1,5 +1,6 @@
 /** Invented studies for the suggestion tests: a tiny hand-made one and a seeded synthetic one. */
 import type { Coding, ModelPassage, ThemeInfo } from '../../src/suggest/types.js';
+import { seededRandom as rng } from '../../src/measure/random.js';
 
 export const THEMES: ThemeInfo[] = [
   { id: 'work', parentId: null, name: 'Workload', path: 'Workload', apriori: true, definition: 'How much work there is.', seeds: [] },
@@ -57,16 +58,6 @@ export function tinyStudy(): { passages: ModelPassage[]; codings: Coding[]; trut
   return { passages, codings, truth };
 }
 
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 export const FLAT: ThemeInfo[] = ['a', 'b', 'c', 'd'].map((id) => ({ id, parentId: null, name: id, path: id, apriori: false, definition: '', seeds: [] }));
 
