@@ -27,3 +27,22 @@ export function table(header: string[], rows: (string | number)[][]): string {
 export function plural(n: number, word: string, many = word + 's'): string {
   return `${n} ${n === 1 ? word : many}`;
 }
+
+/**
+ * Compact JSON of `head` with one more array member `key`, written item by item in chunks:
+ * bulk output (tens of megabytes) never exists as one string. `encode` returns an item's JSON text.
+ */
+export function printJsonStream<T>(head: Record<string, unknown>, key: string, items: Iterable<T>, encode: (item: T) => string): void {
+  const open = JSON.stringify(head);
+  let chunk = `${open.length > 2 ? open.slice(0, -1) + ',' : '{'}${JSON.stringify(key)}:[`;
+  let first = true;
+  for (const item of items) {
+    chunk += (first ? '' : ',') + encode(item);
+    first = false;
+    if (chunk.length > 1 << 20) {
+      process.stdout.write(chunk);
+      chunk = '';
+    }
+  }
+  process.stdout.write(chunk + ']}\n');
+}

@@ -6,8 +6,9 @@ import type { DB } from '../study/db.js';
 import { clock } from '../sheet/sheet.js';
 import { collect, positiveInt, probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { markTerms, wrap } from './marks.js';
-import { plural, printJson, say, table } from './output.js';
-import { markedTerms, reasonJson, reasonText, type Snippets } from './reasons.js';
+import { plural, printJson, printJsonStream, say, table } from './output.js';
+import { markedTerms, reasonText, type Snippets } from './reasons.js';
+import { passageJson, passageJsonText } from './suggest-json.js';
 
 interface SuggestOpts extends StudyOpts {
   transcript?: string[];
@@ -58,24 +59,11 @@ Examples:
         const snippets = snippetCache(db);
         const path = (id: string) => run.paths.get(id) ?? id;
         if (opts.json) {
-          return printJson({
-            run_id: run.runId,
-            revision: run.rev,
-            fingerprint: run.fingerprint,
-            passages: run.passages.map((p) => ({
-              passage_id: p.passageId,
-              transcript: p.transcript,
-              unclaimed: p.unclaimed,
-              candidates: p.candidates.map((c) => ({
-                suggestion_id: c.suggestionId,
-                theme: path(c.themeId),
-                confidence: round(c.confidence),
-                above_threshold: c.aboveThreshold,
-                chosen: c.chosen,
-                reasons: c.reasons.map((r) => reasonJson(r, snippets)),
-              })),
-            })),
-          }, { compact: run.passages.length > 200 });
+          const head = { run_id: run.runId, revision: run.rev, fingerprint: run.fingerprint };
+          const json = passageJson(path, snippets);
+          // Bulk runs stream compact JSON; a few passages are indented for reading.
+          if (run.passages.length > 200) return printJsonStream(head, 'passages', run.passages, passageJsonText(path, snippets));
+          return printJson({ ...head, passages: run.passages.map(json) });
         }
         const tokens = passageTokens(db, run.passages.map((p) => p.passageId));
         for (const p of run.passages) {
@@ -113,5 +101,4 @@ Examples:
     });
 }
 
-const round = (x: number) => Math.round(x * 1e4) / 1e4;
 const clip = (s: string, n: number) => (s.length > n ? s.slice(0, n - 1) + '…' : s);

@@ -54,8 +54,8 @@ export function suggest(db: DB, opts: SuggestOptions = {}): SuggestRun {
     targets = targets.filter((id) => want.has(byId.get(id)!.transcript));
   }
   const top = opts.top;
-  // Reasons for the best three to five candidates (and every chosen one): enough to judge at a glance.
-  const predicted = model.predict(targets, { reasons: Math.max(3, Math.min(top ?? 0, 5)) });
+  // Reasons for the best three candidates (and every chosen one): enough to judge at a glance.
+  const predicted = model.predict(targets, { reasons: 3 });
   const kept = predicted.map((p) => {
     const open = rejected.size ? p.candidates.filter((c) => !rejected.has(`${p.passageId}\u0000${c.themeId}`)) : p.candidates;
     // Best first: the themes the hierarchy rule chose (the most specific ones above threshold),
