@@ -2,9 +2,9 @@
  * discover(): clusters the unclaimed pool into possible new themes.
  *
  *  1. TF-IDF vectors of the pool (fitted on the pool, sublinear tf, unit length);
- *  2. dense bounded rows for ml-kmeans (represent.ts: the most frequent terms by default, at most
- *     `maxCells` cells in all, as measured in docs/discovery.md);
- *  3. k-means with k-means++ starts and seeded restarts, the lowest inertia kept (kmeans.ts);
+ *  2. k-means on those sparse vectors, with k-means++ starts and seeded restarts, the lowest
+ *     inertia kept (kmeans.ts); the dense bounded rows of represent.ts remain as options, for
+ *     the measurements of docs/discovery.md;
  *  4. k by the mean cosine silhouette of the TF-IDF vectors over a range of k, with fewer restarts
  *     per k (a large pool sweeps k on a seeded sample); then every passage with the chosen k;
  *  5. per cluster: log-odds terms against the rest of the study, central passages, spread over
@@ -33,7 +33,7 @@ export function resolveDiscoverOptions(o: DiscoverOptions = {}): Resolved {
     restarts: o.restarts ?? 5,
     seed: o.seed ?? 0,
     maxIterations: o.maxIterations ?? 300,
-    representation: o.representation ?? 'vocabulary',
+    representation: o.representation ?? 'sparse',
     dims: o.dims ?? 256,
     maxCells: o.maxCells ?? 8_000_000,
     projectionNonZeros: o.projectionNonZeros ?? 4,
@@ -76,9 +76,12 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
   const members = live.map((i) => items[i]!);
   const vectors = live.map((i) => all[i]!);
   const n = members.length;
-  // The cell bound keeps memory (rows plus ml-kmeans' own copy) and the cost of a Lloyd step flat.
+  // Dense rows only on request (the lab's measurements); their cell bound keeps memory flat.
   const width = Math.max(1, Math.min(o.dims, Math.floor(o.maxCells / Math.max(1, n))));
-  const { rows, dims } = denseRows(vectors, vec.vocabulary, vec.state.df, { method: o.representation, dims: width, nonZeros: o.projectionNonZeros, seed: o.seed });
+  const { rows, dims } =
+    o.representation === 'sparse'
+      ? { rows: vectors, dims: vec.size }
+      : ((d) => ({ rows: d.rows.map(sparseOf), dims: d.dims }))(denseRows(vectors, vec.vocabulary, vec.state.df, { method: o.representation, dims: width, nonZeros: o.projectionNonZeros, seed: o.seed }));
   const base: Omit<DiscoverResult, 'k' | 'chosenBy' | 'clusters' | 'suppressed' | 'unclustered' | 'dropped'> = {
     silhouette: [],
     sweep: { passages: 0, sampled: false },
@@ -88,8 +91,8 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
   };
   if (n === 0) return { ...base, k: 0, chosenBy: 'none', clusters: [], suppressed: [], unclustered: empty, dropped: [] };
 
-  const distinct = distinctRows(rows, o.seed);
-  const km = (r: typeof rows, k: number, restarts = o.restarts) => kmeansRestarts(r, k, { restarts, seed: o.seed * 1000 + k, maxIterations: o.maxIterations });
+  const distinct = distinctRows(rows);
+  const km = (r: readonly SparseVector[], k: number, restarts = o.restarts) => kmeansRestarts(r, k, { restarts, seed: o.seed * 1000 + k, maxIterations: o.maxIterations });
 
   let k: number;
   let chosenBy: DiscoverResult['chosenBy'];
@@ -103,7 +106,7 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
     const idx = sampled ? sampleIndices(n, o.sweepSample, o.seed).sort((a, b) => a - b) : live.map((_, i) => i);
     const sRows = sampled ? idx.map((i) => rows[i]!) : rows;
     const sVecs = sampled ? idx.map((i) => vectors[i]!) : vectors;
-    const hi = Math.min(hiWanted, sampled ? distinctRows(sRows, o.seed) : distinct, idx.length - 1);
+    const hi = Math.min(hiWanted, sampled ? distinctRows(sRows) : distinct, idx.length - 1);
     base.sweep = { passages: idx.length, sampled };
     if (Math.max(lo, 2) > hi) {
       k = 1;
@@ -165,6 +168,13 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
   unclustered.sort(naturalCompare);
   dropped.sort(naturalCompare);
   return { ...base, k, chosenBy, clusters, suppressed, unclustered, dropped };
+}
+
+/** A dense row as a sparse vector (its non-zero columns). */
+function sparseOf(row: Float64Array): SparseVector {
+  const keep: number[] = [];
+  for (let j = 0; j < row.length; j++) if (row[j] !== 0) keep.push(j);
+  return { indices: Int32Array.from(keep), values: Float64Array.from(keep, (j) => row[j]!) };
 }
 
 function termCounts(lists: readonly (readonly string[])[]): Map<string, number> {

@@ -1,19 +1,27 @@
 /**
  * k-means with k-means++ initialisation and seeded restarts, the lowest inertia kept (as
- * scikit-learn's KMeans with n_init). The Lloyd steps and the greedy k-means++ start are
- * ml-kmeans'; around them:
+ * scikit-learn's KMeans with n_init), on sparse points: dense centres, sparse passages, so a Lloyd
+ * step costs n x k x (terms per passage) instead of n x k x vocabulary.
+ *
+ * Written by hand rather than with ml-kmeans (which the tests keep as the reference for the Lloyd
+ * steps): its dense steps needed full rows, so discovery had to cut the vocabulary to 256 terms,
+ * and still took about ten times as long (docs/discovery.md, section 2).
+ *
+ *  - the start is scikit-learn's greedy k-means++ (2 + floor(ln k) candidates per centre, the one
+ *    that lowers the potential most kept);
  *  - every restart has its own seed, drawn from `seed`, so a run repeats exactly;
- *  - a restart stops when no point changes cluster (a fixed point: the next step would repeat
- *    it), besides ml-kmeans' own test on how far the centres moved;
+ *  - a restart stops at a fixed point (no point changes cluster), when the centres' summed squared
+ *    shift is at most `tolerance` x the mean per-column variance of the points (scikit-learn's
+ *    rule), or after `maxIterations` steps; an empty cluster keeps its previous centre;
  *  - the final labels are each point's nearest final centre and the inertia is their summed
  *    squared distance, as scikit-learn reports them.
- * Measured (docs/discovery.md): ml-kmeans' dense Lloyd steps are most of discovery's time, about
- * ten times a Lloyd step on the sparse TF-IDF vectors; replacing them is proposed, not done.
  */
-import { kmeansGenerator } from 'ml-kmeans';
 import { seededRandom } from '../measure/random.js';
+import type { SparseVector } from '../text/vectors.js';
 
 export type DenseInput = readonly (readonly number[] | Float64Array)[];
+/** Dense rows, or sparse vectors (term indices and weights). */
+export type KMeansInput = DenseInput | readonly SparseVector[];
 
 export interface KMeansOptions {
   /** Restarts from different k-means++ starts (default 5). */
@@ -21,7 +29,7 @@ export interface KMeansOptions {
   seed?: number;
   /** Lloyd steps per restart at most (default 300, scikit-learn's). */
   maxIterations?: number;
-  /** Squared distance every centre must move less than for convergence (default 1e-6). */
+  /** Relative tolerance on the centres' shift, as scikit-learn's `tol` (default 1e-4). */
   tolerance?: number;
 }
 
@@ -38,93 +46,259 @@ export interface KMeansFit {
   inertias: number[];
 }
 
-function squared(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let s = 0;
-  for (let j = 0; j < a.length; j++) {
-    const d = a[j]! - b[j]!;
-    s += d * d;
-  }
-  return s;
+/** Points as parallel sparse arrays, with their squared norms and the number of columns. */
+interface Points {
+  idx: Int32Array[];
+  val: Float64Array[];
+  sq: Float64Array;
+  dims: number;
 }
 
-/** Nearest centre of every point and the summed squared distance (the E-step). */
-export function assign(rows: DenseInput, centroids: readonly ArrayLike<number>[]): { labels: Int32Array; inertia: number } {
-  const labels = new Int32Array(rows.length);
-  let inertia = 0;
-  rows.forEach((r, i) => {
-    let best = Infinity;
-    let arg = 0;
-    centroids.forEach((c, j) => {
-      const d = squared(r, c);
-      if (d < best) (best = d), (arg = j);
-    });
-    labels[i] = arg;
-    inertia += best;
-  });
-  return { labels, inertia };
+function isSparse(x: KMeansInput): x is readonly SparseVector[] {
+  return x.length > 0 && 'indices' in (x[0] as object);
+}
+
+function toPoints(x: KMeansInput): Points {
+  const idx: Int32Array[] = [];
+  const val: Float64Array[] = [];
+  let dims = 0;
+  if (isSparse(x)) {
+    for (const v of x) {
+      idx.push(v.indices);
+      val.push(v.values);
+      if (v.indices.length) dims = Math.max(dims, v.indices[v.indices.length - 1]! + 1);
+    }
+  } else {
+    for (const r of x as DenseInput) {
+      dims = Math.max(dims, r.length);
+      const keep: number[] = [];
+      for (let j = 0; j < r.length; j++) if (r[j] !== 0) keep.push(j);
+      idx.push(Int32Array.from(keep));
+      val.push(Float64Array.from(keep, (j) => r[j]!));
+    }
+  }
+  const sq = Float64Array.from(val, (v) => v.reduce((s, a) => s + a * a, 0));
+  return { idx, val, sq, dims };
 }
 
 /**
- * Distinct points, counted by two seeded random weightings of each row (rows that collide are
- * counted once, so this never over-counts). k-means++ cannot place more centres than there are
- * distinct points: its sampling weights would all be zero.
+ * Nearest centre of every point and the summed squared distance (the E-step). Centres are held
+ * transposed (column-major: `ct[t * k + j]`), so one point's scores against all centres read
+ * one contiguous run per term.
  */
-export function distinctRows(rows: DenseInput, seed = 0): number {
-  if (!rows.length) return 0;
-  const rand = seededRandom(seed);
-  const d = rows[0]!.length;
-  const w1 = Float64Array.from({ length: d }, () => rand() - 0.5);
-  const w2 = Float64Array.from({ length: d }, () => rand() - 0.5);
-  const keys = new Set<string>();
-  for (const r of rows) {
-    let a = 0;
-    let b = 0;
-    for (let j = 0; j < d; j++) (a += w1[j]! * r[j]!), (b += w2[j]! * r[j]!);
-    keys.add(`${a.toPrecision(12)} ${b.toPrecision(12)}`);
+function eStep(p: Points, ct: Float64Array, cn: Float64Array, k: number, labels: Int32Array, dist: Float64Array): { inertia: number; changed: number } {
+  const scores = new Float64Array(k);
+  let inertia = 0;
+  let changed = 0;
+  for (let i = 0; i < p.idx.length; i++) {
+    scores.fill(0);
+    const ix = p.idx[i]!;
+    const vx = p.val[i]!;
+    for (let t = 0; t < ix.length; t++) {
+      const v = vx[t]!;
+      const o = ix[t]! * k;
+      for (let j = 0; j < k; j++) scores[j] += v * ct[o + j]!;
+    }
+    let best = Infinity;
+    let arg = 0;
+    for (let j = 0; j < k; j++) {
+      const d = p.sq[i]! + cn[j]! - 2 * scores[j]!;
+      if (d < best) (best = d), (arg = j);
+    }
+    best = Math.max(0, best);
+    if (labels[i] !== arg) (changed++, (labels[i] = arg));
+    dist[i] = best;
+    inertia += best;
   }
-  return keys.size;
+  return { inertia, changed };
 }
 
-/** One k-means++ start and its Lloyd steps, with ml-kmeans. */
-function oneRun(rows: DenseInput, k: number, seed: number, maxIterations: number, tolerance: number) {
-  // ml-kmeans reads rows by index only, so Float64Array rows serve as number[] ones.
-  const data = rows as unknown as number[][];
-  let previous: Int32Array | null = null;
-  let centroids: number[][] = [];
+function centreNorms(ct: Float64Array, k: number): Float64Array {
+  const cn = new Float64Array(k);
+  for (let o = 0; o < ct.length; o += k) for (let j = 0; j < k; j++) cn[j] += ct[o + j]! * ct[o + j]!;
+  return cn;
+}
+
+/** Squared distance of every point to point q (for k-means++). */
+function distancesTo(p: Points, q: number, buf: Float64Array): Float64Array {
+  const iq = p.idx[q]!;
+  const vq = p.val[q]!;
+  for (let t = 0; t < iq.length; t++) buf[iq[t]!] = vq[t]!;
+  const out = new Float64Array(p.idx.length);
+  for (let i = 0; i < p.idx.length; i++) {
+    const ix = p.idx[i]!;
+    const vx = p.val[i]!;
+    let s = 0;
+    for (let t = 0; t < ix.length; t++) s += vx[t]! * buf[ix[t]!]!;
+    out[i] = Math.max(0, p.sq[i]! + p.sq[q]! - 2 * s);
+  }
+  for (let t = 0; t < iq.length; t++) buf[iq[t]!] = 0;
+  return out;
+}
+
+/** scikit-learn's greedy k-means++: the indices of the k starting points. */
+function kmeansPlusPlus(p: Points, k: number, rand: () => number): number[] {
+  const n = p.idx.length;
+  const buf = new Float64Array(p.dims);
+  const chosen = [Math.floor(rand() * n)];
+  let closest = distancesTo(p, chosen[0]!, buf);
+  const trials = 2 + Math.floor(Math.log(k));
+  for (let c = 1; c < k; c++) {
+    let pot = 0;
+    for (let i = 0; i < n; i++) pot += closest[i]!;
+    let best: { q: number; pot: number; d: Float64Array } | null = null;
+    for (let t = 0; t < trials; t++) {
+      let u = rand() * pot;
+      let q = 0;
+      // The first point whose cumulative weight passes u (numpy's searchsorted on the cumsum).
+      while (q < n - 1 && (u -= closest[q]!) >= 0) q++;
+      const d = distancesTo(p, q, buf);
+      let np = 0;
+      for (let i = 0; i < n; i++) np += Math.min(closest[i]!, d[i]!);
+      if (!best || np < best.pot) best = { q, pot: np, d };
+    }
+    chosen.push(best!.q);
+    const d = best!.d;
+    for (let i = 0; i < n; i++) if (d[i]! < closest[i]!) closest[i] = d[i]!;
+  }
+  return chosen;
+}
+
+/** Mean over columns of the points' variance: the scale of scikit-learn's relative tolerance. */
+function meanVariance(p: Points): number {
+  const n = p.idx.length;
+  const sum = new Float64Array(p.dims);
+  let sq = 0;
+  for (let i = 0; i < n; i++) {
+    const ix = p.idx[i]!;
+    const vx = p.val[i]!;
+    for (let t = 0; t < ix.length; t++) sum[ix[t]!] += vx[t]!;
+    sq += p.sq[i]!;
+  }
+  let means = 0;
+  for (let j = 0; j < p.dims; j++) means += (sum[j]! / n) ** 2;
+  return p.dims ? (sq / n - means) / p.dims : 0;
+}
+
+/** Lloyd steps from the given transposed centres, until a fixed point, the tolerance or the cap. */
+function lloydSteps(p: Points, start: Float64Array, k: number, maxIterations: number, tol: number) {
+  let ct: Float64Array = start;
+  const n = p.idx.length;
+  const labels = new Int32Array(n).fill(-1);
+  const dist = new Float64Array(n);
+  const counts = new Float64Array(k);
+  let next: Float64Array = new Float64Array(ct.length);
   let iterations = 0;
   let converged = false;
-  for (const step of kmeansGenerator(data, k, { seed, initialization: 'kmeans++', maxIterations, tolerance })) {
-    iterations = step.iterations;
-    centroids = step.centroids;
-    const labels = Int32Array.from(step.clusters);
-    const same = previous !== null && labels.every((l, i) => l === previous![i]);
-    previous = labels;
-    if (step.converged || same) {
+  while (iterations < maxIterations) {
+    const { changed } = eStep(p, ct, centreNorms(ct, k), k, labels, dist);
+    if (changed === 0) {
+      converged = true;
+      break;
+    }
+    iterations++;
+    counts.fill(0);
+    next.fill(0);
+    for (let i = 0; i < n; i++) {
+      const l = labels[i]!;
+      counts[l]++;
+      const ix = p.idx[i]!;
+      const vx = p.val[i]!;
+      for (let t = 0; t < ix.length; t++) next[ix[t]! * k + l] += vx[t]!;
+    }
+    let shift = 0;
+    for (let o = 0; o < next.length; o += k) {
+      for (let j = 0; j < k; j++) {
+        const v = counts[j] ? next[o + j]! / counts[j]! : ct[o + j]!;
+        next[o + j] = v;
+        shift += (v - ct[o + j]!) ** 2;
+      }
+    }
+    [ct, next] = [next, ct];
+    if (shift <= tol) {
       converged = true;
       break;
     }
   }
-  const fit = assign(rows, centroids);
-  return { ...fit, centroids: centroids.map((c) => Float64Array.from(c)), iterations, converged };
+  const { inertia } = eStep(p, ct, centreNorms(ct, k), k, labels, dist);
+  return { labels, inertia, ct, iterations, converged };
 }
 
-export function kmeansRestarts(rows: DenseInput, k: number, opts: KMeansOptions = {}): KMeansFit {
+function untranspose(ct: Float64Array, k: number, dims: number): Float64Array[] {
+  return Array.from({ length: k }, (_, j) => {
+    const c = new Float64Array(dims);
+    for (let t = 0; t < dims; t++) c[t] = ct[t * k + j]!;
+    return c;
+  });
+}
+
+function transpose(centres: readonly ArrayLike<number>[], dims: number): Float64Array {
+  const k = centres.length;
+  const ct = new Float64Array(dims * k);
+  centres.forEach((c, j) => {
+    for (let t = 0; t < Math.min(dims, c.length); t++) ct[t * k + j] = c[t]!;
+  });
+  return ct;
+}
+
+/** Nearest centre of every point and the summed squared distance (the E-step alone). */
+export function assign(rows: KMeansInput, centroids: readonly ArrayLike<number>[]): { labels: Int32Array; inertia: number } {
+  const p = toPoints(rows);
+  const dims = Math.max(p.dims, ...centroids.map((c) => c.length));
+  const k = centroids.length;
+  const ct = transpose(centroids, dims);
+  const labels = new Int32Array(p.idx.length).fill(-1);
+  const { inertia } = eStep({ ...p, dims }, ct, centreNorms(ct, k), k, labels, new Float64Array(p.idx.length));
+  return { labels, inertia };
+}
+
+/**
+ * Lloyd's algorithm from given centres, without restarts: the steps the tests compare with
+ * ml-kmeans started from the same centres.
+ */
+export function lloyd(rows: KMeansInput, centres: readonly ArrayLike<number>[], opts: Pick<KMeansOptions, 'maxIterations' | 'tolerance'> = {}): Omit<KMeansFit, 'restart' | 'inertias'> {
+  const p = toPoints(rows);
+  const dims = Math.max(p.dims, ...centres.map((c) => c.length));
+  const q = { ...p, dims };
+  const r = lloydSteps(q, transpose(centres, dims), centres.length, opts.maxIterations ?? 300, (opts.tolerance ?? 1e-4) * meanVariance(q));
+  return { labels: r.labels, centroids: untranspose(r.ct, centres.length, dims), inertia: r.inertia, iterations: r.iterations, converged: r.converged };
+}
+
+/**
+ * Distinct points, counted exactly by their non-zero entries. k-means++ cannot place more centres
+ * than there are distinct points: its sampling weights would all be zero.
+ */
+export function distinctRows(rows: KMeansInput): number {
+  const p = toPoints(rows);
+  const keys = new Set<string>();
+  for (let i = 0; i < p.idx.length; i++) keys.add(`${p.idx[i]!.join(',')}|${p.val[i]!.join(',')}`);
+  return keys.size;
+}
+
+export function kmeansRestarts(rows: KMeansInput, k: number, opts: KMeansOptions = {}): KMeansFit {
   const restarts = opts.restarts ?? 5;
   const maxIterations = opts.maxIterations ?? 300;
-  const tolerance = opts.tolerance ?? 1e-6;
   if (!Number.isInteger(k) || k < 1) throw new RangeError(`k must be a positive integer; got ${k}`);
   if (k > rows.length) throw new RangeError(`k = ${k} is more than the ${rows.length} points`);
   if (restarts < 1) throw new RangeError(`restarts must be at least 1; got ${restarts}`);
+  const p = toPoints(rows);
+  const tol = (opts.tolerance ?? 1e-4) * meanVariance(p);
   const rand = seededRandom(opts.seed ?? 0);
   const seeds = Array.from({ length: restarts }, () => Math.floor(rand() * 2 ** 31));
-  let best: (ReturnType<typeof oneRun> & { restart: number }) | null = null;
+  let best: (ReturnType<typeof lloydSteps> & { restart: number }) | null = null;
   const inertias: number[] = [];
   seeds.forEach((seed, restart) => {
-    const run = oneRun(rows, k, seed, maxIterations, tolerance);
+    const start = kmeansPlusPlus(p, k, seededRandom(seed));
+    const ct = new Float64Array(p.dims * k);
+    start.forEach((q, j) => {
+      const iq = p.idx[q]!;
+      for (let t = 0; t < iq.length; t++) ct[iq[t]! * k + j] = p.val[q]![t]!;
+    });
+    const run = lloydSteps(p, ct, k, maxIterations, tol);
     inertias.push(run.inertia);
     // Strictly lower only, so a tie keeps the earlier restart.
     if (!best || run.inertia < best.inertia - 1e-12 * Math.max(1, Math.abs(best.inertia))) best = { ...run, restart };
   });
   const b = best!;
-  return { labels: b.labels, centroids: b.centroids, inertia: b.inertia, iterations: b.iterations, converged: b.converged, restart: b.restart, inertias };
+  return { labels: b.labels, centroids: untranspose(b.ct, k, p.dims), inertia: b.inertia, iterations: b.iterations, converged: b.converged, restart: b.restart, inertias };
 }

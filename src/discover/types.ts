@@ -54,7 +54,8 @@ export interface DiscoverItem {
   terms: string[];
 }
 
-export type Representation = 'vocabulary' | 'projection';
+/** The vectors k-means works on: the sparse TF-IDF vectors (default) or dense bounded rows. */
+export type Representation = 'sparse' | 'vocabulary' | 'projection';
 
 export interface TermScore {
   term: string;
@@ -106,9 +107,9 @@ export interface DiscoverOptions {
   restarts?: number;
   seed?: number;
   maxIterations?: number;
-  /** How the sparse TF-IDF vectors become the dense rows ml-kmeans needs (default 'vocabulary'). */
+  /** k-means on the sparse TF-IDF vectors (default), or on dense bounded rows (represent.ts). */
   representation?: Representation;
-  /** Widest dense rows (default 256); fewer when `maxCells` / passages is smaller. */
+  /** Widest dense rows (default 256); fewer when `maxCells` / passages is smaller. Dense only. */
   dims?: number;
   /** Bound on passages x width of the dense rows, i.e. on memory and time (default 8,000,000). */
   maxCells?: number;

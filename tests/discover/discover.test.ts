@@ -122,7 +122,9 @@ describe('discover', () => {
     const projected = discover(pool, background(pool), { representation: 'projection', dims: 64 });
     expect(projected.representation).toEqual({ method: 'projection', dims: 64, vocabulary: 36 });
     expect(agreesWithTopics(projected, pool)).toBe(1);
-    const narrow = discover(pool, background(pool), { maxCells: 36 * 10 });
+    // The sparse vectors by default: the whole vocabulary, whatever the cell bound of dense rows.
+    expect(discover(pool, background(pool), { maxCells: 36 * 10 }).representation).toEqual({ method: 'sparse', dims: 36, vocabulary: 36 });
+    const narrow = discover(pool, background(pool), { representation: 'vocabulary', maxCells: 36 * 10 });
     expect(narrow.representation.dims).toBe(10);
   });
 

