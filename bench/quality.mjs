@@ -14,13 +14,14 @@ import { brownCategories, brownTemplate, leafPath, LEAVES, seededBatch, wordCoun
 import { peer, trellis } from './cli.mjs';
 
 const SEED = Number(process.env.SEED ?? 1);
+// BATCH: the coded share of each category (the protocol's 0.25 unless set, to see how quality grows with it).
 const out = join(import.meta.dirname, 'out', 'quality');
 rmSync(out, { recursive: true, force: true });
 mkdirSync(out, { recursive: true });
 const study = join(out, 'study');
 const files = writeBrownTexts(join(import.meta.dirname, 'out', 'brown-txt'));
 const cats = brownCategories();
-const batch = seededBatch(0.25, SEED);
+const batch = seededBatch(Number(process.env.BATCH ?? 0.25), SEED);
 
 // A window larger than any paragraph: the protocol's passage is the whole paragraph.
 trellis(['init', study, '--window', '100000']);
