@@ -60,6 +60,7 @@ for (const left of LEFT_OUT) {
   console.log(`\nleft out: ${left} (${target.length} test passages; ${others.length} others)`);
   console.log(`  in the unclaimed pool: ${(100 * share(target)).toFixed(1)}% of ${left} (target >= 60%), ${(100 * share(others)).toFixed(1)}% of the rest (target <= 30%); pool ${pool.size} passages`);
   console.log(`  best-matching cluster: F1 ${best.f1.toFixed(3)} (target >= 0.5), precision ${best.precision.toFixed(3)}, recall ${best.recall.toFixed(3)}, size ${best.size}; terms: ${best.terms.join(', ')}`);
+  console.log(`  mean silhouette by k: ${found.silhouette.map((x) => `${x.k}:${x.score.toFixed(4)}`).join(' ')}`);
   console.log(`  k = ${found.k}; ARI against the corpus labels: trellis ${ours.toFixed(3)}, scikit-learn KMeans ${p.ari.toFixed(3)} (NMI ${p.nmi.toFixed(3)})`);
   console.log(`  time: trellis discover ${run.seconds.toFixed(2)} s (fit, score, pool, k sweep, clusters); scikit-learn vectorise + KMeans at the same k ${p.seconds.toFixed(2)} s; peak memory ${run.maxRssMiB.toFixed(0)} MiB`);
 }

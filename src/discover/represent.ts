@@ -1,7 +1,8 @@
 /**
- * Dense rows for ml-kmeans, which needs a full array per passage: a pool of 20,000 passages over
- * a 30,000-term vocabulary would be 4.8 GB. Two bounded forms, measured in bench/lab-discover.mjs
- * (docs/discovery.md):
+ * Dense bounded rows of the pool, from when k-means (ml-kmeans) needed a full array per passage:
+ * a pool of 20,000 passages over a 30,000-term vocabulary would be 4.8 GB. Discovery now runs
+ * k-means on the sparse vectors (kmeans.ts); these remain as options for the measurements of
+ * bench/lab-discover.mjs (docs/discovery.md). Two bounded forms:
  *  - 'vocabulary': the `dims` terms found in most passages (scikit-learn's max_features), each
  *    row re-scaled to unit length; passages with none of those terms become zero rows;
  *  - 'projection': a seeded sparse random projection of the full TF-IDF vector (every term sent
