@@ -258,7 +258,9 @@ function review(name, opts, data, seed, rng) {
 
 const PROTOCOL = process.env.PROTOCOL ?? 'paragraphs';
 const SEEDS = (process.env.SEEDS ?? String(SEED)).split(',').map(Number);
-const names = process.env.VARIANTS === 'all' ? Object.keys(VARIANTS) : (process.env.VARIANTS ?? 'default').split(',');
+// OPTIONS='{"decays":[0.6]}' adds a variant with those options (named "options").
+if (process.env.OPTIONS) VARIANTS.options = JSON.parse(process.env.OPTIONS);
+const names = process.env.VARIANTS === 'all' ? Object.keys(VARIANTS) : (process.env.VARIANTS ?? (process.env.OPTIONS ? 'options' : 'default')).split(',');
 const fmt = (v) => (typeof v === 'number' ? v.toFixed(3) : String(v));
 const all = PROTOCOL === 'paragraphs' ? await loadPassages() : null;
 const cli = PROTOCOL === 'cli' ? await cliStudy() : null;

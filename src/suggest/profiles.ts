@@ -252,6 +252,29 @@ export class Profiles {
     }
   }
 
+  private sc: { px: Float64Array; pc: Float64Array; pneg: Float64Array; delta: Float64Array; tc: Float64Array; done: Uint8Array; seen: Uint8Array } | null = null;
+
+  /** Fold scratch for nl local rows, zeroed over that part (grown when a fold needs more). */
+  private scratch(nl: number) {
+    const nT = this.nT;
+    if (!this.sc || this.sc.tc.length < nl) {
+      const cap = Math.max(nl, 2 * (this.sc?.tc.length ?? 0));
+      const f = () => new Float64Array(cap * nT);
+      this.sc = { px: f(), pc: f(), pneg: f(), delta: f(), tc: new Float64Array(cap), done: new Uint8Array(cap), seen: new Uint8Array(cap) };
+      return this.sc;
+    }
+    const sc = this.sc;
+    const end = nl * nT;
+    sc.px.fill(0, 0, end);
+    sc.pc.fill(0, 0, end);
+    sc.pneg.fill(0, 0, end);
+    sc.delta.fill(0, 0, end);
+    sc.tc.fill(0, 0, nl);
+    sc.done.fill(0, 0, nl);
+    sc.seen.fill(0, 0, nl);
+    return sc;
+  }
+
   /** Scratch: vocabulary position -> row of the held transcripts' local arrays (-1 = none). */
   private readonly local: Int32Array;
   private get allThemes(): Int32Array {
@@ -290,12 +313,15 @@ export class Profiles {
       }
     }
     const nl = terms.length;
-    const px = new Float64Array(nl * nT);
-    const pc = new Float64Array(nl * nT);
-    const pneg = new Float64Array(nl * nT);
+    // Scratch reused across folds (zeroed over the part used): one fold's arrays are a few
+    // hundred KB, and allocating them afresh for every fold was most of the fit's GC.
+    const sc = this.scratch(nl);
+    const px = sc.px;
+    const pc = sc.pc;
+    const pneg = sc.pneg;
     const pn = new Float64Array(nT);
     const pnn = new Float64Array(nT);
-    const tc = new Float64Array(nl);
+    const tc = sc.tc;
     const ppos = new Int32Array(nT);
     let tn = 0;
     const at = (l: number) => local[l]!;
@@ -335,9 +361,9 @@ export class Profiles {
     }
     const nAll = this.ntot - tn;
     const table = held ? null : this.fullDelta();
-    const foldDelta = new Float64Array(held ? nl * nT : 0);
-    const foldDone = new Uint8Array(nl);
-    const foldSeen = new Uint8Array(nl);
+    const foldDelta = sc.delta;
+    const foldDone = sc.done;
+    const foldSeen = sc.seen;
     const anyNeg = this.nneg.some((v) => v > 0);
 
     const f = new Float64Array(m * nT * SIGNALS);
@@ -547,6 +573,7 @@ export class Profiles {
     gArg.fill(-1);
     const own = corpus.transcriptOf[p]!;
     const { codedTranscript, groupOf, coded } = this;
+    // (A branch-free walk with a scan of every coded passage instead of this list was slower.)
     for (let k = 0; k < nTouched; k++) {
       const d = touched[k]!;
       const v = acc[d]!;

@@ -626,14 +626,30 @@ export class ThemeSuggester {
     const { loc, nT } = this.profiles;
     const delta = this.profiles.fullDelta();
     const z = this.profiles.fullZ();
-    const out: { term: string; weight: number }[] = [];
+    // The n best by a running selection (this runs for every reason of every passage): weights
+    // and term indices only, the term strings looked up for ties and for the n kept.
+    const bw: number[] = [];
+    const bi: number[] = [];
+    const before = (w: number, i: number, j: number) => w > bw[j]! || (w === bw[j]! && this.vec.term(i) < this.vec.term(bi[j]!));
     for (let k = 0; k < c.indices.length; k++) {
       const l = loc[c.indices[k]!]!;
       if (l < 0) continue;
       const d = delta[l * nT + t]!;
-      if (d > 0 && z[l * nT + t]! > 1.96) out.push({ term: this.vec.term(c.indices[k]!), weight: round(c.values[k]! * d) });
+      if (!(d > 0 && z[l * nT + t]! > 1.96)) continue;
+      const w = round(c.values[k]! * d);
+      const i = c.indices[k]!;
+      if (bw.length === n && !before(w, i, n - 1)) continue;
+      let j = bw.length < n ? bw.length : n - 1;
+      if (bw.length < n) bw.push(w), bi.push(i);
+      while (j > 0 && before(w, i, j - 1)) {
+        bw[j] = bw[j - 1]!;
+        bi[j] = bi[j - 1]!;
+        j--;
+      }
+      bw[j] = w;
+      bi[j] = i;
     }
-    return out.sort((a, b) => b.weight - a.weight || (a.term < b.term ? -1 : 1)).slice(0, n);
+    return bw.map((weight, j) => ({ term: this.vec.term(bi[j]!), weight }));
   }
 
   /** The theme's most distinctive terms by z (rounded, as reported), ties by term. */
