@@ -309,18 +309,13 @@ export class ThemeSuggester {
     const lossBy: Record<string, number> = {};
     // The first candidate starts where the base layer and the length model leave off: weight
     // sd(x) on a standardised x is weight 1 on x itself.
-    const sdOf = (col: Column) => {
-      const v = rowValues(col, sets, nT);
-      const m = v.reduce((a, x) => a + x, 0) / Math.max(1, v.length);
-      return Math.sqrt(v.reduce((a, x) => a + (x - m) ** 2, 0) / Math.max(1, v.length)) || 1;
-    };
+    const sdOf = (col: Column) => rowStats(col, sets, nT).sd;
     // With the length logit L at weight 1, P(coded) = sigmoid(L) when the intercepts are the
     // log shares of the themes among the coded (plus the mean of L, which standardising takes off).
     const lengthCol = fixed.find((c) => c.name === 'length');
     let warmIntercepts = base.intercepts;
     if (lengthCol) {
-      const v = rowValues(lengthCol, sets, nT);
-      const mu = v.reduce((a, x) => a + x, 0) / Math.max(1, v.length);
+      const mu = rowStats(lengthCol, sets, nT).mean;
       const pos = new Float64Array(nT);
       const codedSets = new Float64Array(nT);
       for (let st = 0; st + 1 < sets.start.length; st++) {
@@ -743,6 +738,26 @@ function trainingSets(
   return { cells: Int32Array.from(cells), theme: Int32Array.from(cells, (c) => c % nT), y: Uint8Array.from(y), start: Int32Array.from(start), partial: Uint8Array.from(partial) };
 }
 
+/** Columns' values on the training rows, kept: the context candidates share all but one column. */
+const rowCache = new WeakMap<Column, { sets: Sets; values: Float64Array; mean: number; sd: number }>();
+
+/** A column's values on the training rows, with their mean and standard deviation (cached per column). */
+function rowStats(col: Column, sets: Sets, nT: number): { values: Float64Array; mean: number; sd: number } {
+  const hit = rowCache.get(col);
+  if (hit && hit.sets === sets) return hit;
+  const values = rowValues(col, sets, nT);
+  const n = Math.max(values.length, 1);
+  // Plain loops summing in the order reduce() did (same results, no closure per row).
+  let sum = 0;
+  for (let i = 0; i < values.length; i++) sum += values[i]!;
+  const mean = sum / n;
+  let ss = 0;
+  for (let i = 0; i < values.length; i++) ss += (values[i]! - mean) ** 2;
+  const entry = { sets, values, mean, sd: Math.sqrt(ss / n) || 1 };
+  rowCache.set(col, entry);
+  return entry;
+}
+
 /** A column's values on the training rows. */
 function rowValues(col: Column, sets: Sets, nT: number): Float64Array {
   const n = sets.cells.length;
@@ -778,10 +793,10 @@ function fitLayer(
   start?: ChoiceModel,
   maxIter?: number,
 ): { layer: LayerState; data: ChoiceData } {
-  const n = Math.max(sets.cells.length, 1);
-  const values = cols.map((col) => rowValues(col, sets, nT));
-  const mean = values.map((v) => v.reduce((s, x) => s + x, 0) / n);
-  const sd = values.map((v, j) => Math.sqrt(v.reduce((s, x) => s + (x - mean[j]!) ** 2, 0) / n) || 1);
+  const stats = cols.map((col) => rowStats(col, sets, nT));
+  const values = stats.map((c) => c.values);
+  const mean = stats.map((c) => c.mean);
+  const sd = stats.map((c) => c.sd);
   const data = choiceData({ mean, sd }, cols, sets, nT, values);
   const m = fitChoice(data, ridge, 1e-3, start && start.weights.length === cols.length ? start : undefined, maxIter);
   return { layer: { inputs: cols.map((c) => c.name), mean, sd, weights: m.weights, intercepts: m.intercepts }, data };
