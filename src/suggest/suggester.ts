@@ -606,8 +606,10 @@ export class ThemeSuggester {
       const ex = near ? near.nearest[t]! : this.nearest[p * nT + t]!;
       const sim = near ? near.sim[t]! : this.nearestSim[p * nT + t]!;
       if (ex >= 0) out.push({ kind: 'exemplar', passageId: this.passages[ex]!.id, similarity: round(sim) });
-      if (this.ctxPart[p * nT + t]) out.push({ kind: 'context', weight: round(this.ctxPart[p * nT + t]!) });
-      if (this.qPart[p * nT + t]) out.push({ kind: 'question', weight: round(this.qPart[p * nT + t]!) });
+      // Reasons say why a theme is suggested: context that points elsewhere (a negative part) is
+      // not one, and would read as "the surrounding passages point here too (-0.15)".
+      if (this.ctxPart[p * nT + t]! > 0) out.push({ kind: 'context', weight: round(this.ctxPart[p * nT + t]!) });
+      if (this.qPart[p * nT + t]! > 0) out.push({ kind: 'question', weight: round(this.qPart[p * nT + t]!) });
     }
     const matched = have ? seeds.filter((s) => have.has(s)) : [];
     if (matched.length) out.push({ kind: 'seeds', terms: matched });

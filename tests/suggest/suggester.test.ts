@@ -203,6 +203,15 @@ describe('context weight is learned from the coded batch', () => {
     // Runs of five passages: the context that wins by cross-validation is local, not the whole transcript.
     expect(r.decay).toBeLessThan(1);
   });
+  it('is given as a reason only where the surrounding passages support the theme', () => {
+    const { passages, codings } = syntheticStudy(true);
+    const model = new ThemeSuggester().fit(passages, codings, FLAT);
+    const reasons = model.predict(passages.filter((p) => Number(p.transcript.slice(1)) >= 12).map((p) => p.id), { reasons: 4 })
+      .flatMap((p) => p.candidates.flatMap((c) => c.reasons))
+      .filter((r) => r.kind === 'context' || r.kind === 'question');
+    expect(reasons.length).toBeGreaterThan(50);
+    for (const r of reasons) expect(r.kind !== 'terms' && 'weight' in r && r.weight).toBeGreaterThan(0);
+  });
   it('is near zero when neighbouring passages are unrelated', () => {
     const r = weight(false);
     expect(r.context).toBeLessThan(0.15 * r.base);
