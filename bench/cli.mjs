@@ -4,6 +4,8 @@ import { closeSync, openSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 
 const RUN = join(import.meta.dirname, 'run-cli.mjs');
+// The launcher's own node flags (its #! line), so a benchmark runs the command as bin/trellis does.
+const FLAGS = readFileSync(join(import.meta.dirname, '../bin/trellis'), 'utf8').split('\n')[0].split(/\s+/).filter((f) => f.startsWith('--'));
 
 /**
  * Runs `trellis ARGS` in a child process. With `out`, stdout goes to that file. Returns the
@@ -12,7 +14,7 @@ const RUN = join(import.meta.dirname, 'run-cli.mjs');
 export function trellis(args, { out } = {}) {
   const fd = out ? openSync(out, 'w') : 'pipe';
   const t0 = performance.now();
-  const r = spawnSync(process.execPath, [RUN, ...args], { stdio: ['ignore', fd, 'pipe'], encoding: 'utf8', maxBuffer: 1 << 30 });
+  const r = spawnSync(process.execPath, [...FLAGS, RUN, ...args], { stdio: ['ignore', fd, 'pipe'], encoding: 'utf8', maxBuffer: 1 << 30 });
   const wall = (performance.now() - t0) / 1000;
   if (out) closeSync(fd);
   const lines = r.stderr.trim().split('\n');

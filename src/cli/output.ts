@@ -34,15 +34,21 @@ export function plural(n: number, word: string, many = word + 's'): string {
  */
 export function printJsonStream<T>(head: Record<string, unknown>, key: string, items: Iterable<T>, encode: (item: T) => string): void {
   const open = JSON.stringify(head);
-  let chunk = `${open.length > 2 ? open.slice(0, -1) + ',' : '{'}${JSON.stringify(key)}:[`;
+  // Each chunk is encoded straight into a buffer of its own (the stream may still hold the last).
+  const CHUNK = 1 << 20;
+  let buf = Buffer.allocUnsafe(2 * CHUNK);
+  let at = buf.write(`${open.length > 2 ? open.slice(0, -1) + ',' : '{'}${JSON.stringify(key)}:[`);
   let first = true;
   for (const item of items) {
-    chunk += (first ? '' : ',') + encode(item);
+    const text = (first ? '' : ',') + encode(item);
     first = false;
-    if (chunk.length > 1 << 20) {
-      process.stdout.write(chunk);
-      chunk = '';
+    if (at + 3 * text.length > buf.length) {
+      if (at) process.stdout.write(buf.subarray(0, at));
+      buf = Buffer.allocUnsafe(Math.max(2 * CHUNK, 3 * text.length));
+      at = 0;
     }
+    at += buf.write(text, at);
   }
-  process.stdout.write(chunk + ']}\n');
+  at += buf.write(']}\n', at);
+  process.stdout.write(buf.subarray(0, at));
 }

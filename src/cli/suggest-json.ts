@@ -1,6 +1,6 @@
 /** The JSON of one passage's suggestions (the scripting contract of `trellis suggest --json`). */
 import type { SuggestRun } from '../study/suggestions.js';
-import { reasonJson, type Snippets } from './reasons.js';
+import { reasonJson, type Reason, type Snippets } from './reasons.js';
 
 type Passage = SuggestRun['passages'][number];
 
@@ -34,13 +34,42 @@ export function passageJsonText(path: (themeId: string) => string, snippets: Sni
     if (t === undefined) themes.set(id, (t = JSON.stringify(path(id))));
     return t;
   };
+  const reasons = reasonsJsonText(snippets);
   return (p: Passage): string => {
     let s = `{"passage_id":${JSON.stringify(p.passageId)},"transcript":${JSON.stringify(p.transcript)},"unclaimed":${p.unclaimed},"candidates":[`;
     p.candidates.forEach((c, i) => {
-      const reasons = c.reasons.length ? JSON.stringify(c.reasons.map((r) => reasonJson(r, snippets))) : '[]';
       s += `${i ? ',' : ''}{"suggestion_id":${c.suggestionId},"theme":${theme(c.themeId)},"confidence":${round(c.confidence)},` +
-        `"above_threshold":${c.aboveThreshold},"chosen":${c.chosen},"reasons":${reasons}}`;
+        `"above_threshold":${c.aboveThreshold},"chosen":${c.chosen},"reasons":${c.reasons.length ? reasons(c.reasons) : '[]'}}`;
     });
     return s + ']}';
   };
+}
+
+/**
+ * A candidate's reasons as JSON text. An exemplar reason cites one of a few thousand coded
+ * passages, so its escaped id, transcript and snippets are kept; JSON escaping works character
+ * by character, so escaped pieces joined are the escaped whole.
+ */
+function reasonsJsonText(snippets: Snippets) {
+  const esc = (x: string) => JSON.stringify(x).slice(1, -1);
+  const cited = new Map<string, { id: string; tail: string; short: string }>();
+  const exemplar = (id: string, similarity: number) => {
+    let e = cited.get(id);
+    if (!e) {
+      const json = reasonJson({ kind: 'exemplar', passageId: id, similarity: 0 }, snippets);
+      const text = json.text as string;
+      const mark = '(similarity 0.00)';
+      const after = text.lastIndexOf(mark) + mark.length;
+      e = {
+        id: esc(id),
+        tail: json.snippet === undefined ? '' : `,"transcript":${JSON.stringify(json.transcript)},"snippet":${JSON.stringify(json.snippet)}`,
+        short: esc(text.slice(after)),
+      };
+      cited.set(id, e);
+    }
+    return `{"kind":"exemplar","passage_id":"${e.id}","similarity":${similarity}${e.tail},` +
+      `"text":"most like coded passage ${e.id} (similarity ${similarity.toFixed(2)})${e.short}"}`;
+  };
+  return (reasons: readonly Reason[]) =>
+    '[' + reasons.map((r) => (r.kind === 'exemplar' ? exemplar(r.passageId, r.similarity) : JSON.stringify(reasonJson(r, snippets)))).join(',') + ']';
 }
