@@ -4,6 +4,7 @@
  * i.e. sum of log-losses + ||w||^2 / (2 C). Small and dense: the novelty model has a handful of
  * features and a few thousand rows.
  */
+import { sigmoid, solveSpd as solve } from '../suggest/logistic.js';
 
 export interface LogitState {
   /** Intercept first, then one weight per feature. */
@@ -13,34 +14,8 @@ export interface LogitState {
   converged: boolean;
 }
 
-export function sigmoid(z: number): number {
-  return z >= 0 ? 1 / (1 + Math.exp(-z)) : Math.exp(z) / (1 + Math.exp(z));
-}
-
-/** Solves A x = b for a small symmetric positive definite A (Cholesky), A row-major n x n. */
-function solve(a: Float64Array, b: Float64Array, n: number): Float64Array {
-  const l = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j <= i; j++) {
-      let s = a[i * n + j]!;
-      for (let k = 0; k < j; k++) s -= l[i * n + k]! * l[j * n + k]!;
-      l[i * n + j] = i === j ? Math.sqrt(Math.max(s, 1e-300)) : s / l[j * n + j]!;
-    }
-  }
-  const y = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let s = b[i]!;
-    for (let k = 0; k < i; k++) s -= l[i * n + k]! * y[k]!;
-    y[i] = s / l[i * n + i]!;
-  }
-  const x = new Float64Array(n);
-  for (let i = n - 1; i >= 0; i--) {
-    let s = y[i]!;
-    for (let k = i + 1; k < n; k++) s -= l[k * n + i]! * x[k]!;
-    x[i] = s / l[i * n + i]!;
-  }
-  return x;
-}
+// The same sigmoid and Cholesky solve as the suggester's grouped logistic regression.
+export { sigmoid };
 
 /**
  * @param x rows of features (all the same length)
