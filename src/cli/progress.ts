@@ -1,10 +1,18 @@
 import cliProgress from 'cli-progress';
 
-/** A progress bar on stderr for long work; silent when stderr is not a terminal or for small jobs. */
-export function progressBar(total: number, label: string, minTotal = 20): { tick: (done: number) => void; stop: () => void } {
-  if (!process.stderr.isTTY || total < minTotal) return { tick: () => {}, stop: () => {} };
+/**
+ * A progress bar on stderr for long work; silent when stderr is not a terminal or for small jobs
+ * (fewer than `minTotal` units, or `show` false). `share`: the units are not items to count.
+ */
+export function progressBar(
+  total: number,
+  label: string,
+  opts: { minTotal?: number; show?: boolean; share?: boolean } = {},
+): { tick: (done: number) => void; stop: () => void } {
+  if (!process.stderr.isTTY || total < (opts.minTotal ?? 20) || opts.show === false) return { tick: () => {}, stop: () => {} };
+  const count = opts.share ? '' : ' {value}/{total}';
   const bar = new cliProgress.SingleBar(
-    { format: `${label} [{bar}] {value}/{total} {percentage}% | {eta_formatted} left`, stream: process.stderr, hideCursor: true },
+    { format: `${label} [{bar}]${count} {percentage}% | {eta_formatted} left`, stream: process.stderr, hideCursor: true },
     cliProgress.Presets.legacy,
   );
   bar.start(total, 0);

@@ -27,15 +27,17 @@ export interface SuggestOptions extends SuggesterOptions {
   top?: number;
   /** Also suggest for passages that are already coded. */
   includeCoded?: boolean;
+  /** Told how far the run is: the step, and the share of it done (0 to 1). */
+  progress?: (step: 'fit' | 'score' | 'store', done: number) => void;
 }
 
 /** Fits the theme profiles on the study's current codings (for `suggest` and `profile`). */
-export function fitModel(db: DB, opts: SuggesterOptions = {}) {
+export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: number) => void) {
   const rev = currentRevision(db);
   if (!rev) throw new UserError('the study has no template yet: run "trellis template set FILE" first');
   const inputs = modelInputs(db);
   const negatives = rejections(db);
-  const model = new ThemeSuggester(opts).fit(inputs.passages, inputs.codings, inputs.themes, { negatives });
+  const model = new ThemeSuggester(opts).fit(inputs.passages, inputs.codings, inputs.themes, { negatives, progress });
   return { model, inputs, rev, negatives };
 }
 
@@ -43,8 +45,10 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}) {
  * `suggest`: fits the profiles, ranks candidate themes for the uncoded participant passages,
  * and stores the run (template revision, model fingerprint) and every candidate it returns.
  */
-export function suggest(db: DB, opts: SuggestOptions = {}): SuggestRun {
-  const { model, inputs, rev, negatives } = fitModel(db, opts);
+export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
+  // (The progress callback is not a model option: options are stored with the run.)
+  const { progress, ...opts } = options;
+  const { model, inputs, rev, negatives } = fitModel(db, opts, progress && ((d) => progress('fit', d)));
   // A theme a coder rejected for a passage is not suggested for it again.
   const rejected = new Set(negatives.map((n) => `${n.passageId}\u0000${n.themeId}`));
   const byId = new Map(inputs.passages.map((p) => [p.id, p]));
@@ -55,7 +59,7 @@ export function suggest(db: DB, opts: SuggestOptions = {}): SuggestRun {
   }
   const top = opts.top;
   // Reasons for the best three candidates (and every chosen one): enough to judge at a glance.
-  const predicted = model.predict(targets, { reasons: 3 });
+  const predicted = model.predict(targets, { reasons: 3, progress: progress && ((d) => progress('score', d)) });
   const kept = predicted.map((p) => {
     const open = rejected.size ? p.candidates.filter((c) => !rejected.has(`${p.passageId}\u0000${c.themeId}`)) : p.candidates;
     // Best first: the themes the hierarchy rule chose (the most specific ones above threshold),
@@ -89,7 +93,8 @@ export function suggest(db: DB, opts: SuggestOptions = {}): SuggestRun {
       (args.length === BATCH * COLS ? full : statement(args.length / COLS)).run(args);
       args.length = 0;
     };
-    const passages = kept.map((p) => {
+    const passages = kept.map((p, i) => {
+      if (progress && i % 500 === 0) progress('store', i / kept.length);
       const candidates = p.candidates.map((c, i) => {
         const stored = c as StoredCandidate;
         stored.suggestionId = next++;

@@ -189,6 +189,25 @@ describe('leave-one-transcript-out signals are exact', () => {
   });
 });
 
+describe('progress of a fit and a prediction', () => {
+  it('is reported in order, from 0 to 1, and does not change the model', () => {
+    const { passages, codings } = syntheticStudy(true);
+    const fitSteps: number[] = [];
+    const withBar = new ThemeSuggester().fit(passages, codings, FLAT, { progress: (d) => fitSteps.push(d) });
+    const plain = new ThemeSuggester().fit(passages, codings, FLAT);
+    expect(withBar.fingerprint).toBe(plain.fingerprint);
+    expect(fitSteps.length).toBeGreaterThan(3);
+    expect(fitSteps).toEqual([...fitSteps].sort((a, b) => a - b));
+    expect(fitSteps[0]).toBe(0);
+    expect(fitSteps.at(-1)).toBe(1);
+    const scoreSteps: number[] = [];
+    const ids = passages.map((p) => p.id);
+    withBar.predict(ids, { progress: (d) => scoreSteps.push(d) });
+    // Every 500 passages: 480 passages give one report, at the start.
+    expect(scoreSteps).toEqual([0]);
+  });
+});
+
 describe('context weight is learned from the coded batch', () => {
   const weight = (runs: boolean) => {
     const { passages, codings } = syntheticStudy(runs);
