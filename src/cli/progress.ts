@@ -12,7 +12,13 @@ export function progressBar(
   if (!process.stderr.isTTY || total < (opts.minTotal ?? 20) || opts.show === false) return { tick: () => {}, stop: () => {} };
   const count = opts.share ? '' : ' {value}/{total}';
   const bar = new cliProgress.SingleBar(
-    { format: `${label} [{bar}]${count} {percentage}% | {eta_formatted} left`, stream: process.stderr, hideCursor: true },
+    {
+      format: `${label} [{bar}]${count} {percentage}% | {eta_formatted} left`,
+      stream: process.stderr,
+      hideCursor: true,
+      // Before the first step the estimate is 'NULL' or 'INF' (printed as "NFs"): say "?" instead.
+      formatTime: (t: unknown, o: cliProgress.Options, r: number) => (typeof t === 'number' && Number.isFinite(t) ? cliProgress.Format.TimeFormat(t, o, r) : '?'),
+    },
     cliProgress.Presets.legacy,
   );
   bar.start(total, 0);
