@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
-import { getPassage, passageTokens } from '../study/passages.js';
-import { suggest } from '../study/suggestions.js';
+import { getPassage, passageCount, passageTokens } from '../study/passages.js';
+import { suggest, type SuggestRun } from '../study/suggestions.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import type { DB } from '../study/db.js';
 import { clock } from '../sheet/sheet.js';
@@ -37,8 +37,7 @@ function snippetCache(db: DB): Snippets {
  */
 function suggestBar(db: DB) {
   const SHARES = { fit: [0, 0.65], score: [0.65, 0.8], store: [0.8, 1] } as const;
-  const passages = (db.prepare('SELECT COUNT(*) AS n FROM passages').get() as { n: number }).n;
-  const bar = progressBar(1000, 'suggesting', { show: passages >= 2000, share: true });
+  const bar = progressBar(1000, 'suggesting', { show: passageCount(db) >= 2000, share: true });
   return {
     step: (step: keyof typeof SHARES, done: number) => {
       const [from, to] = SHARES[step];
@@ -74,7 +73,7 @@ Examples:
         requireTranscripts(db, opts.transcript);
         if (!opts.json) process.stderr.write('Fitting theme profiles and scoring passages...\n');
         const bar = suggestBar(db);
-        let run;
+        let run: SuggestRun;
         try {
           run = suggest(db, { transcripts: opts.transcript, top: opts.top, targetPrecision: opts.targetPrecision, includeCoded: opts.all, progress: bar.step });
         } finally {

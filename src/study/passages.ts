@@ -82,3 +82,8 @@ export function passageTokens(db: DB, ids: string[]): Map<string, { text: string
   }
   return out;
 }
+
+/** How many passages the study holds (to decide whether a run is long enough for a progress bar). */
+export function passageCount(db: DB): number {
+  return (db.prepare('SELECT COUNT(*) AS n FROM passages').get() as { n: number }).n;
+}

@@ -93,8 +93,8 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
       (args.length === BATCH * COLS ? full : statement(args.length / COLS)).run(args);
       args.length = 0;
     };
-    const passages = kept.map((p, i) => {
-      if (progress && i % 500 === 0) progress('store', i / kept.length);
+    const passages = kept.map((p, n) => {
+      if (progress && n % 500 === 0) progress('store', n / kept.length);
       const candidates = p.candidates.map((c, i) => {
         const stored = c as StoredCandidate;
         stored.suggestionId = next++;
