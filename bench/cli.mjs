@@ -23,11 +23,12 @@ export function trellis(args, { out } = {}) {
   return { wall, seconds: stats.seconds, maxRssMiB: stats.maxRssMiB, stdout: out ? readFileSync(out, 'utf8') : r.stdout, stderr: lines.join('\n') };
 }
 
+/** The scikit-learn peer script: shared/ sits beside the repository; SKLEARN_PEER points elsewhere. */
+export const PEER_SCRIPT = process.env.SKLEARN_PEER ?? join(import.meta.dirname, '../../shared/peers/sklearn_peer.py');
+
 /** Runs the scikit-learn peer (Debian python3-sklearn) and returns its JSON. */
 export function peer(...args) {
-  // shared/ sits beside the repository; SKLEARN_PEER points elsewhere when it does not.
-  const script = process.env.SKLEARN_PEER ?? join(import.meta.dirname, '../../shared/peers/sklearn_peer.py');
-  const r = spawnSync('/usr/bin/python3', [script, ...args], { encoding: 'utf8', maxBuffer: 1 << 28 });
+  const r = spawnSync('/usr/bin/python3', [PEER_SCRIPT, ...args], { encoding: 'utf8', maxBuffer: 1 << 28 });
   if (r.status !== 0) throw new Error(`sklearn_peer.py failed (is python3-sklearn installed? apt-get install -y python3-sklearn):\n${r.stderr}`);
   return JSON.parse(r.stdout);
 }

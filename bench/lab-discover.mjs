@@ -15,72 +15,22 @@
 //
 // Needs the build (npx tsc -p tsconfig.json). Analysed passages are cached in bench/out/.
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { analyseMany } from '../dist/text/pool.js';
-import { contentLemmas } from '../dist/text/terms.js';
 import { ThemeSuggester } from '../dist/suggest/index.js';
 import { aucOf, discover, NoveltyModel, unclaimedPool } from '../dist/discover/index.js';
 import { adjustedRandIndex, normalizedMutualInfo } from '../dist/measure/partitions.js';
 import { silhouetteScore } from '../dist/measure/silhouette.js';
 import { TfidfVectorizer } from '../dist/text/tfidf.js';
-import { brownCategories, brownText, rng, INFORMATIVE, IMAGINATIVE, LEAVES } from './brown.mjs';
+import { brownCategories, rng, LEAVES } from './brown.mjs';
+import { PEER_SCRIPT } from './cli.mjs';
+import { labPassages, labSplit, labThemes } from './lab-brown.mjs';
 
 const OUT = join(import.meta.dirname, 'out');
-const CACHE = join(OUT, 'brown-passages.json');
 const SEED = Number(process.env.SEED ?? 1);
 const PY = '/usr/bin/python3';
-const PEER = '/work/shared/peers/sklearn_peer.py';
 const fmt = (v) => (typeof v === 'number' ? v.toFixed(3) : String(v));
 const mib = (kb) => (kb / 1024).toFixed(0);
-
-async function loadPassages() {
-  if (existsSync(CACHE)) return JSON.parse(readFileSync(CACHE, 'utf8'));
-  mkdirSync(OUT, { recursive: true });
-  const passages = [];
-  for (const [file, cat] of brownCategories()) {
-    let ord = 0;
-    for (const para of brownText(file).split(/\n\n/)) {
-      const text = para.trim();
-      if (text.split(/\s+/).filter((w) => /[A-Za-z0-9]/.test(w)).length < 20) continue;
-      passages.push({ id: `${file}#${++ord}`, transcript: file, ordinal: ord, label: cat, text });
-    }
-  }
-  // As lab-suggest: "cannot" before a comma leaves a token without a lemma in wink-nlp.
-  await analyseMany(
-    passages.map((p) => p.text.replace(/\bcannot\b/gi, 'can not')),
-    (i, a) => (passages[i].terms = contentLemmas(a)),
-  );
-  writeFileSync(CACHE, JSON.stringify(passages));
-  return passages;
-}
-
-/** The coded batch: the same seeded 25% per category as lab-suggest. */
-function split() {
-  const byCat = new Map();
-  for (const [file, cat] of brownCategories()) (byCat.get(cat) ?? byCat.set(cat, []).get(cat)).push(file);
-  const rand = rng(SEED);
-  const train = new Set();
-  for (const cat of LEAVES) {
-    const files = byCat.get(cat).slice().sort();
-    for (let i = files.length - 1; i > 0; i--) {
-      const j = Math.floor(rand() * (i + 1));
-      [files[i], files[j]] = [files[j], files[i]];
-    }
-    files.slice(0, Math.max(1, Math.round(files.length * 0.25))).forEach((f) => train.add(f));
-  }
-  return train;
-}
-
-function themes(leaves) {
-  const out = [
-    { id: 'informative', parentId: null, name: 'Informative', path: 'Informative', apriori: false, definition: '', seeds: [] },
-    { id: 'imaginative', parentId: null, name: 'Imaginative', path: 'Imaginative', apriori: false, definition: '', seeds: [] },
-  ];
-  for (const l of INFORMATIVE.filter((c) => leaves.includes(c))) out.push({ id: l, parentId: 'informative', name: l, path: `Informative > ${l}`, apriori: false, definition: '', seeds: [] });
-  for (const l of IMAGINATIVE.filter((c) => leaves.includes(c))) out.push({ id: l, parentId: 'imaginative', name: l, path: `Imaginative > ${l}`, apriori: false, definition: '', seeds: [] });
-  return out;
-}
 
 /** scikit-learn's k-means exactly as the peer runs it, but returning the labels (for ARI ours vs theirs). */
 const PEER_LABELS = `
@@ -136,7 +86,7 @@ function peerLabels(file, k, mode = 'text', withSilhouette = false, seed = 0) {
 
 function protocol(all, train, leftOut, claimAt) {
   const leaves = LEAVES.filter((l) => l !== leftOut);
-  const th = themes(leaves);
+  const th = labThemes(leaves);
   const coded = new Set([...train].filter((f) => brownCategories().get(f) !== leftOut));
   const passages = all.map((p) => ({ id: p.id, transcript: p.transcript, ordinal: p.ordinal, role: 'participant', terms: p.terms }));
   const codings = all.filter((p) => coded.has(p.transcript)).map((p) => ({ passageId: p.id, themeId: p.label }));
@@ -314,7 +264,7 @@ function peer(r) {
   const ours = new Map(r.res.clusters.flatMap((c) => c.passageIds.map((id) => [id, c.id])));
   const file = join(OUT, `discover-pool-${r.leftOut}-${r.claimAt}.jsonl`);
   writeFileSync(file, ids.map((id) => JSON.stringify({ id, text: r.text.get(id), split: 'test', label: r.labelOf.get(id) })).join('\n') + '\n');
-  const p = JSON.parse(execFileSync(PY, [PEER, 'cluster', file, String(r.k)], { encoding: 'utf8', maxBuffer: 1 << 26 }));
+  const p = JSON.parse(execFileSync(PY, [PEER_SCRIPT, 'cluster', file, String(r.k)], { encoding: 'utf8', maxBuffer: 1 << 26 }));
   const truth = ids.map((id) => r.labelOf.get(id));
   const mine = ids.map((id) => ours.get(id));
   const theirs = peerLabels(file, r.k);
@@ -453,7 +403,7 @@ function largePool(all) {
 }
 
 async function reprOne(method, dims, k) {
-  const all = await loadPassages();
+  const all = await labPassages();
   const pool = largePool(all);
   global.gc?.();
   const before = process.memoryUsage();
@@ -492,7 +442,7 @@ async function reprOne(method, dims, k) {
 }
 
 async function repr() {
-  const all = await loadPassages();
+  const all = await labPassages();
   const pool = largePool(all);
   const truthOf = new Map(pool.map((p) => [p.id, p.label]));
   const K = Number(process.env.K ?? 15);
@@ -530,9 +480,9 @@ if (process.env.MODE === 'repr-one') {
 } else if (process.env.MODE === 'repr') {
   await repr();
 } else {
-  const all = await loadPassages();
+  const all = await labPassages();
   termsOf = new Map(all.map((p) => [p.id, p.terms]));
-  const train = split();
+  const train = labSplit(SEED);
   const leftOuts = (process.env.LEAVE_OUT ?? 'religion,science_fiction,humor').split(',');
   const claims = (process.env.CLAIM ?? 'leaf').split(',');
   console.log(`lab:discover  seed ${SEED}: ${all.length} passages, ${train.size} coded samples before leaving a category out`);

@@ -17,20 +17,16 @@
 //
 // Needs the build (npx tsc -p tsconfig.json). Analysed passages are cached in bench/out/.
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { analyseMany } from '../dist/text/pool.js';
-import { contentLemmas } from '../dist/text/terms.js';
 import { ThemeSuggester } from '../dist/suggest/index.js';
-import { brownCategories, brownText, rng } from './brown.mjs';
+import { brownCategories, LEAVES, rng } from './brown.mjs';
+import { PEER_SCRIPT } from './cli.mjs';
+import { labPassages, labSplit, labThemes } from './lab-brown.mjs';
 
 const OUT = join(import.meta.dirname, 'out');
-const CACHE = join(OUT, 'brown-passages.json');
 const SEED = Number(process.env.SEED ?? 1);
 
-const INFORMATIVE = ['news', 'editorial', 'reviews', 'religion', 'hobbies', 'lore', 'belles_lettres', 'government', 'learned'];
-const IMAGINATIVE = ['fiction', 'mystery', 'science_fiction', 'adventure', 'romance', 'humor'];
-const LEAVES = [...INFORMATIVE, ...IMAGINATIVE];
 
 /** Every variant tried; the first is the default model. */
 const VARIANTS = {
@@ -59,54 +55,6 @@ const VARIANTS = {
   'Rocchio 1': { rocchio: 1 },
 };
 
-
-async function loadPassages() {
-  if (existsSync(CACHE)) return JSON.parse(readFileSync(CACHE, 'utf8'));
-  mkdirSync(OUT, { recursive: true });
-  const passages = [];
-  for (const [file, cat] of brownCategories()) {
-    let ord = 0;
-    for (const para of brownText(file).split(/\n\n/)) {
-      const text = para.trim();
-      if (text.split(/\s+/).filter((w) => /[A-Za-z0-9]/.test(w)).length < 20) continue;
-      passages.push({ id: `${file}#${++ord}`, transcript: file, ordinal: ord, label: cat, text });
-    }
-  }
-  // wink-nlp leaves no lemma on the expansion of "cannot" before a comma, which makes analyse()
-  // throw; "can not" is the same two stop words.
-  await analyseMany(
-    passages.map((p) => p.text.replace(/\bcannot\b/gi, 'can not')),
-    (i, a) => (passages[i].terms = contentLemmas(a)),
-  );
-  writeFileSync(CACHE, JSON.stringify(passages));
-  return passages;
-}
-
-function split(passages, seed = SEED) {
-  const byCat = new Map();
-  for (const [file, cat] of brownCategories()) (byCat.get(cat) ?? byCat.set(cat, []).get(cat)).push(file);
-  const rand = rng(seed);
-  const train = new Set();
-  for (const cat of LEAVES) {
-    const files = byCat.get(cat).slice().sort();
-    for (let i = files.length - 1; i > 0; i--) {
-      const j = Math.floor(rand() * (i + 1));
-      [files[i], files[j]] = [files[j], files[i]];
-    }
-    files.slice(0, Math.max(1, Math.round(files.length * 0.25))).forEach((f) => train.add(f));
-  }
-  return train;
-}
-
-function themes() {
-  const out = [
-    { id: 'informative', parentId: null, name: 'Informative', path: 'Informative', apriori: false, definition: '', seeds: [] },
-    { id: 'imaginative', parentId: null, name: 'Imaginative', path: 'Imaginative', apriori: false, definition: '', seeds: [] },
-  ];
-  for (const l of INFORMATIVE) out.push({ id: l, parentId: 'informative', name: l, path: `Informative > ${l}`, apriori: false, definition: '', seeds: [] });
-  for (const l of IMAGINATIVE) out.push({ id: l, parentId: 'imaginative', name: l, path: `Imaginative > ${l}`, apriori: false, definition: '', seeds: [] });
-  return out;
-}
 
 function measure(preds, truth, leafOf = (id) => (LEAVES.includes(id) ? id : null)) {
   let top1 = 0;
@@ -160,11 +108,11 @@ function runOurs(name, opts, data) {
 
 /** The paragraph protocol: only paragraphs of at least 20 words, every one coded in the batch. */
 function paragraphData(all, seed) {
-  const train = split(all, seed);
+  const train = labSplit(seed);
   const passages = all.map((p) => ({ id: p.id, transcript: p.transcript, ordinal: p.ordinal, role: 'participant', terms: p.terms }));
   const codings = all.filter((p) => train.has(p.transcript)).map((p) => ({ passageId: p.id, themeId: p.label }));
   const test = all.filter((p) => !train.has(p.transcript));
-  return { passages, codings, themes: themes(), testIds: test.map((p) => p.id), truth: test.map((p) => p.label), train, all };
+  return { passages, codings, themes: labThemes(), testIds: test.map((p) => p.id), truth: test.map((p) => p.label), train, all };
 }
 
 /** The study bench:quality builds, made once by the CLI in bench/out/lab-study. */
@@ -262,7 +210,7 @@ const SEEDS = (process.env.SEEDS ?? String(SEED)).split(',').map(Number);
 if (process.env.OPTIONS) VARIANTS.options = JSON.parse(process.env.OPTIONS);
 const names = process.env.VARIANTS === 'all' ? Object.keys(VARIANTS) : (process.env.VARIANTS ?? (process.env.OPTIONS ? 'options' : 'default')).split(',');
 const fmt = (v) => (typeof v === 'number' ? v.toFixed(3) : String(v));
-const all = PROTOCOL === 'paragraphs' ? await loadPassages() : null;
+const all = PROTOCOL === 'paragraphs' ? await labPassages() : null;
 const cli = PROTOCOL === 'cli' ? await cliStudy() : null;
 const brown = await import('./brown.mjs');
 const results = new Map();
@@ -299,7 +247,7 @@ const { train } = data;
 if (!process.env.SKIP_PEER && process.env.VARIANTS !== 'all' && PROTOCOL === 'paragraphs' && SEEDS.length === 1) {
   const file = join(OUT, `brown-split-${SEED}.jsonl`);
   writeFileSync(file, all.map((p) => JSON.stringify({ id: p.id, text: p.text, split: train.has(p.transcript) ? 'train' : 'test', label: p.label })).join('\n') + '\n');
-  const peer = JSON.parse(execFileSync('/usr/bin/python3', ['/work/shared/peers/sklearn_peer.py', 'classify', file], { encoding: 'utf8', maxBuffer: 1 << 26 }));
+  const peer = JSON.parse(execFileSync('/usr/bin/python3', [PEER_SCRIPT, 'classify', file], { encoding: 'utf8', maxBuffer: 1 << 26 }));
   console.log(`  peers (train ${peer.train}, test ${peer.test}; vectorize ${peer.vectorize_seconds.toFixed(2)} s):`);
   for (const [name, m] of Object.entries(peer.models)) {
     console.log(`    ${name.padEnd(22)} top1 ${fmt(m.top1)}  top3 ${m.top3 === null ? '-' : fmt(m.top3)}  macroF1 ${fmt(m.macro_f1)}  fit+predict ${m.seconds.toFixed(2)} s (with vectorize ${(m.seconds + peer.vectorize_seconds).toFixed(2)} s)`);
