@@ -108,19 +108,25 @@ describe('hierarchy rule', () => {
   });
 });
 
+/** The passages of each synthetic transcript (s0, s1, ...) and the transcript of each passage. */
+function transcriptIndex(passages: readonly { transcript: string }[]) {
+  const members: number[][] = [];
+  const transcriptOf = new Int32Array(passages.length);
+  passages.forEach((p, i) => {
+    const ti = Number(p.transcript.slice(1));
+    (members[ti] ??= []).push(i);
+    transcriptOf[i] = ti;
+  });
+  return { members, transcriptOf };
+}
+
 describe('leave-one-transcript-out signals are exact', () => {
   it('equal the signals of profiles built without that transcript', () => {
     const { passages, codings } = syntheticStudy(true);
     const tree = buildTree(FLAT);
     const vec = new TfidfVectorizer().fit(passages.map((p) => p.terms));
     const both = passages.map((p) => vec.vectorAndCounts(p.terms));
-    const members: number[][] = [];
-    const transcriptOf = new Int32Array(passages.length);
-    passages.forEach((p, i) => {
-      const ti = Number(p.transcript.slice(1));
-      (members[ti] ??= []).push(i);
-      transcriptOf[i] = ti;
-    });
+    const { members, transcriptOf } = transcriptIndex(passages);
     const corpusWith = (held: number): Corpus => {
       const coded = new Uint8Array(members.length);
       const labels = passages.map(() => [] as number[]);
@@ -150,13 +156,7 @@ describe('leave-one-transcript-out signals are exact', () => {
     const { passages, codings } = syntheticStudy(true);
     const vec = new TfidfVectorizer();
     const { vectors, counts } = vec.fitVectorise(passages.map((p) => p.terms));
-    const members: number[][] = [];
-    const transcriptOf = new Int32Array(passages.length);
-    passages.forEach((p, i) => {
-      const ti = Number(p.transcript.slice(1));
-      (members[ti] ??= []).push(i);
-      transcriptOf[i] = ti;
-    });
+    const { members, transcriptOf } = transcriptIndex(passages);
     const index = new Map(FLAT.map((t, i) => [t.id, i]));
     const byId = new Map(passages.map((p, i) => [p.id, i]));
     // Rejections: theme a for the first five passages of uncoded transcript 15.
