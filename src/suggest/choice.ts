@@ -11,7 +11,7 @@
  * Fitting the themes jointly, rather than each as an independent yes/no, makes the best
  * candidate's probability honest: a rival's weakness is evidence for it.
  */
-import { solveSpd } from './logistic.js';
+import { addRidge, backtrack, solveSpd, symmetrise } from './logistic.js';
 
 export interface ChoiceData {
   /** Row-major features, `k` per row; rows of one set are contiguous. */
@@ -177,36 +177,17 @@ export function fitChoice(d: ChoiceData, ridge = 1, interceptRidge = 1e-3, start
         }
       }
     }
-    for (let j = 0; j < k; j++) {
-      grad[j] = grad[j]! + ridge * beta[j]!;
-      hess[j * dim + j] = hess[j * dim + j]! + ridge;
-    }
-    for (let t = 0; t < themes; t++) {
-      grad[k + t] = grad[k + t]! + interceptRidge * beta[k + t]!;
-      hess[(k + t) * dim + k + t] = hess[(k + t) * dim + k + t]! + interceptRidge;
-    }
-    for (let a = 0; a < dim; a++) for (let b = 0; b < a; b++) hess[b * dim + a] = hess[a * dim + b]!;
-    const step = solveSpd(hess, grad, dim);
+    addRidge(grad, hess, beta, k, themes, ridge, interceptRidge);
+    const step = solveSpd(symmetrise(hess, dim), grad, dim);
     let gd = 0;
     for (let j = 0; j < dim; j++) gd -= step[j]! * grad[j]!;
     if (-gd < 1e-12 * Math.max(1, Math.abs(f))) break;
-    let t = 1;
-    let moved = false;
-    while (t > 1e-8) {
-      const next = beta.map((v, j) => v - t * step[j]!);
-      const nf = objective(next);
-      if (nf <= f + 1e-4 * t * gd) {
-        const change = f - nf;
-        beta.set(next);
-        f = nf;
-        moved = true;
-        // Newton converges quadratically: a change this small means the next step is negligible.
-        if (change < 1e-7 * Math.max(1, Math.abs(f))) return model();
-        break;
-      }
-      t /= 2;
-    }
-    if (!moved) break;
+    const nf = backtrack(beta, f, step, gd, objective);
+    if (nf === null) break;
+    const change = f - nf;
+    f = nf;
+    // Newton converges quadratically: a change this small means the next step is negligible.
+    if (change < 1e-7 * Math.max(1, Math.abs(f))) return model();
   }
   return model();
 }

@@ -98,36 +98,55 @@ export function fitGrouped(d: GroupedData, ridge = 1, interceptRidge = 1e-3): Gr
       grad[gi] = grad[gi]! + r;
       hess[gi * dim + gi] = hess[gi * dim + gi]! + w;
     }
-    for (let j = 0; j < k; j++) {
-      grad[j] = grad[j]! + ridge * beta[j]!;
-      hess[j * dim + j] = hess[j * dim + j]! + ridge;
-    }
-    for (let g = 0; g < groups; g++) {
-      grad[k + g] = grad[k + g]! + interceptRidge * beta[k + g]!;
-      hess[(k + g) * dim + k + g] = hess[(k + g) * dim + k + g]! + interceptRidge;
-    }
-    // Symmetrise the lower triangle we filled.
-    for (let a = 0; a < dim; a++) for (let b = 0; b < a; b++) hess[b * dim + a] = hess[a * dim + b]!;
-    const step = solveSpd(hess, grad, dim);
-    let t = 1;
-    let moved = false;
+    addRidge(grad, hess, beta, k, groups, ridge, interceptRidge);
+    const step = solveSpd(symmetrise(hess, dim), grad, dim);
     const gd = step.reduce((s, v, j) => s - v * grad[j]!, 0);
-    while (t > 1e-8) {
-      const next = beta.map((v, j) => v - t * step[j]!);
-      const nf = objective(next);
-      if (nf <= f + 1e-4 * t * gd) {
-        const change = Math.abs(f - nf);
-        beta.set(next);
-        f = nf;
-        moved = true;
-        if (change < 1e-8 * Math.max(1, Math.abs(f))) return model();
-        break;
-      }
-      t /= 2;
-    }
-    if (!moved) break;
+    const nf = backtrack(beta, f, step, gd, objective);
+    if (nf === null) break;
+    const change = Math.abs(f - nf);
+    f = nf;
+    if (change < 1e-8 * Math.max(1, Math.abs(f))) return model();
   }
   return model();
+}
+
+/**
+ * The penalty's part of a Newton step for weights 0..k-1 (ridge) and k intercepts after them
+ * (interceptRidge): added to the gradient and the Hessian's diagonal.
+ */
+export function addRidge(grad: Float64Array, hess: Float64Array, beta: Float64Array, k: number, intercepts: number, ridge: number, interceptRidge: number): void {
+  const dim = k + intercepts;
+  for (let j = 0; j < k; j++) {
+    grad[j] = grad[j]! + ridge * beta[j]!;
+    hess[j * dim + j] = hess[j * dim + j]! + ridge;
+  }
+  for (let t = 0; t < intercepts; t++) {
+    grad[k + t] = grad[k + t]! + interceptRidge * beta[k + t]!;
+    hess[(k + t) * dim + k + t] = hess[(k + t) * dim + k + t]! + interceptRidge;
+  }
+}
+
+/** Copies the filled lower triangle of a square matrix to its upper one; returns the matrix. */
+export function symmetrise(m: Float64Array, dim: number): Float64Array {
+  for (let a = 0; a < dim; a++) for (let b = 0; b < a; b++) m[b * dim + a] = m[a * dim + b]!;
+  return m;
+}
+
+/**
+ * Backtracking (Armijo) line search from `beta` (objective `f`) along -`step`, whose directional
+ * derivative is `gd`: halves the step until the objective falls enough. Moves `beta` and returns
+ * the new objective, or null when no step of at least 1e-8 does.
+ */
+export function backtrack(beta: Float64Array, f: number, step: Float64Array, gd: number, objective: (b: Float64Array) => number): number | null {
+  for (let t = 1; t > 1e-8; t /= 2) {
+    const next = beta.map((v, j) => v - t * step[j]!);
+    const nf = objective(next);
+    if (nf <= f + 1e-4 * t * gd) {
+      beta.set(next);
+      return nf;
+    }
+  }
+  return null;
 }
 
 /** Solves A x = b for a symmetric positive definite A (Cholesky). */
