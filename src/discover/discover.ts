@@ -76,12 +76,7 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
   const members = live.map((i) => items[i]!);
   const vectors = live.map((i) => all[i]!);
   const n = members.length;
-  // Dense rows only on request (the lab's measurements); their cell bound keeps memory flat.
-  const width = Math.max(1, Math.min(o.dims, Math.floor(o.maxCells / Math.max(1, n))));
-  const { rows, dims } =
-    o.representation === 'sparse'
-      ? { rows: vectors, dims: vec.size }
-      : ((d) => ({ rows: d.rows.map(sparseOf), dims: d.dims }))(denseRows(vectors, vec.vocabulary, vec.state.df, { method: o.representation, dims: width, nonZeros: o.projectionNonZeros, seed: o.seed }));
+  const { rows, dims } = clusteringRows(vectors, vec, o);
   const base: Omit<DiscoverResult, 'k' | 'chosenBy' | 'clusters' | 'suppressed' | 'unclustered' | 'dropped'> = {
     silhouette: [],
     sweep: { passages: 0, sampled: false },
@@ -168,6 +163,17 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
   unclustered.sort(naturalCompare);
   dropped.sort(naturalCompare);
   return { ...base, k, chosenBy, clusters, suppressed, unclustered, dropped };
+}
+
+/**
+ * What k-means runs on: the sparse TF-IDF vectors, or on request (the lab's measurements) the
+ * dense bounded rows of represent.ts, whose cell bound keeps memory flat.
+ */
+function clusteringRows(vectors: SparseVector[], vec: TfidfVectorizer, o: Resolved): { rows: readonly SparseVector[]; dims: number } {
+  if (o.representation === 'sparse') return { rows: vectors, dims: vec.size };
+  const width = Math.max(1, Math.min(o.dims, Math.floor(o.maxCells / Math.max(1, vectors.length))));
+  const dense = denseRows(vectors, vec.vocabulary, vec.state.df, { method: o.representation, dims: width, nonZeros: o.projectionNonZeros, seed: o.seed });
+  return { rows: dense.rows.map(sparseOf), dims: dense.dims };
 }
 
 /** A dense row as a sparse vector (its non-zero columns). */
