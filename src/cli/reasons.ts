@@ -16,20 +16,9 @@ export interface Snippets {
 
 const num = (n: number) => n.toFixed(2);
 
-// Many candidates cite the same few exemplars: their flattened snippets are kept, per length.
-const snippetMemo = new Map<number, Map<string, string>>();
-
 function snippet(text: string, n = 70): string {
-  let memo = snippetMemo.get(n);
-  if (!memo) snippetMemo.set(n, (memo = new Map()));
-  let out = memo.get(text);
-  if (out === undefined) {
-    const flat = text.replace(/\s+/g, ' ').trim();
-    out = flat.length > n ? flat.slice(0, n - 1).trimEnd() + '…' : flat;
-    if (memo.size > 20_000) memo.clear();
-    memo.set(text, out);
-  }
-  return out;
+  const flat = text.replace(/\s+/g, ' ').trim();
+  return flat.length > n ? flat.slice(0, n - 1).trimEnd() + '…' : flat;
 }
 
 /** A reason as a sentence a researcher can read. */
