@@ -50,9 +50,11 @@ interface Scored {
 /** Fits the suggestion model, scores every uncoded passage and sorts out the unclaimed pool. */
 function scoreStudy(db: DB, poolOpts: PoolOptions = {}): Scored {
   const { model, inputs, negatives } = fitModel(db);
-  const words = new Map((db.prepare('SELECT id, words FROM passages').all() as { id: string; words: number }[]).map((r) => [r.id, r.words]));
-  const speakers = new Map((db.prepare('SELECT id, speaker FROM passages').all() as { id: string; speaker: string | null }[]).map((r) => [r.id, r.speaker]));
-  const passages: PoolCandidate[] = inputs.passages.map((p) => ({ id: p.id, transcript: p.transcript, speaker: speakers.get(p.id) ?? null, role: p.role, terms: p.terms, words: words.get(p.id) }));
+  const stored = new Map((db.prepare('SELECT id, words, speaker FROM passages').all() as { id: string; words: number; speaker: string | null }[]).map((r) => [r.id, r]));
+  const passages: PoolCandidate[] = inputs.passages.map((p) => {
+    const row = stored.get(p.id);
+    return { id: p.id, transcript: p.transcript, speaker: row?.speaker ?? null, role: p.role, terms: p.terms, words: row?.words };
+  });
   const suggestions = model.predict(inputs.uncoded, { reasons: 0 });
   const thresholds = Object.fromEntries(model.themeReports().map((r) => [r.themeId, r.threshold]));
   const pool = unclaimedPool(
