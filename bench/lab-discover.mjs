@@ -20,9 +20,7 @@ import { join } from 'node:path';
 import { ThemeSuggester } from '../dist/suggest/index.js';
 import { aucOf, discover, NoveltyModel, unclaimedPool } from '../dist/discover/index.js';
 import { adjustedRandIndex, normalizedMutualInfo } from '../dist/measure/partitions.js';
-import { silhouetteScore } from '../dist/measure/silhouette.js';
-import { TfidfVectorizer } from '../dist/text/tfidf.js';
-import { brownCategories, rng, LEAVES } from './brown.mjs';
+import { brownCategories, LEAVES } from './brown.mjs';
 import { PEER_SCRIPT } from './cli.mjs';
 import { labPassages, labSplit, labThemes } from './lab-brown.mjs';
 
@@ -283,114 +281,17 @@ function peer(r) {
   const other = peerLabels(file, r.k, 'text', false, 1);
   const oIndex = new Map(other.ids.map((id, i) => [id, other.labels[i]]));
   console.log(`    baseline: peer vs the peer with random_state 1: ARI ${fmt(adjustedRandIndex(theirsAligned, ids.map((id) => oIndex.get(id))))}`);
-  // Ours at the same fixed k (no sweep), and the sparse k-means prototype on the full TF-IDF.
+  // Ours at the same fixed k (no sweep).
   const pool = ids.map((id) => ({ id, transcript: id.split('#')[0], speaker: null, terms: termsOf.get(id) }));
-  let t = performance.now();
+  const t = performance.now();
   const fixed = discover(pool, [...termsOf.values()], { k: r.k, seed: 0 });
   const fixedS = (performance.now() - t) / 1000;
   const fOf = new Map(fixed.clusters.flatMap((c) => c.passageIds.map((id) => [id, c.id])));
-  t = performance.now();
-  const vec = new TfidfVectorizer().fit(pool.map((p) => p.terms));
-  const X = vec.transform(pool.map((p) => p.terms));
-  const sp = sparseKmeans(X, vec.size, r.k, 0);
-  const spS = (performance.now() - t) / 1000;
   const fixedLabels = ids.map((id) => fOf.get(id));
   console.log(`    ours at fixed k ${r.k}: ${fixedS.toFixed(2)} s, ARI vs category ${fmt(adjustedRandIndex(truth, fixedLabels))}, silhouette ${fmt(fixed.finalSilhouette)}`);
-  console.log(`    sparse k-means prototype (full vocabulary ${vec.size}) at k ${r.k}: ${spS.toFixed(2)} s, ARI vs category ${fmt(adjustedRandIndex(truth, sp.labels))}, silhouette ${fmt(silhouetteScore(X, sp.labels, 'cosine'))}, ARI vs scikit-learn on our terms ${fmt(adjustedRandIndex(sp.labels, sameAligned))}`);
 }
 
 let termsOf = new Map();
-
-// ---------------------------------------------------------------- a sparse k-means, for comparison
-/**
- * Lloyd's k-means on the sparse unit TF-IDF vectors themselves (dense centres, sparse points),
- * with scikit-learn's greedy k-means++ start (2 + ln k trials). Not used by trellis: it measures
- * what ml-kmeans' dense rows cost in time and quality (docs/discovery.md).
- */
-function sparseKmeans(X, V, k, seed, restarts = 5, maxIter = 300) {
-  const n = X.length;
-  const dotDense = (x, c, off) => {
-    let s = 0;
-    for (let t = 0; t < x.indices.length; t++) s += x.values[t] * c[off + x.indices[t]];
-    return s;
-  };
-  const seedRand = rng(seed);
-  let best = null;
-  for (let r = 0; r < restarts; r++) {
-    const rand = rng(Math.floor(seedRand() * 2 ** 31));
-    const C = new Float64Array(k * V);
-    const buf = new Float64Array(V);
-    const distTo = (p) => {
-      const x = X[p];
-      for (let t = 0; t < x.indices.length; t++) buf[x.indices[t]] = x.values[t];
-      const d = new Float64Array(n);
-      for (let i = 0; i < n; i++) d[i] = Math.max(0, 2 - 2 * dotDense(X[i], buf, 0));
-      for (let t = 0; t < x.indices.length; t++) buf[x.indices[t]] = 0;
-      return d;
-    };
-    const place = (j, p) => {
-      const x = X[p];
-      for (let t = 0; t < x.indices.length; t++) C[j * V + x.indices[t]] = x.values[t];
-    };
-    let first = Math.floor(rand() * n);
-    place(0, first);
-    let closest = distTo(first);
-    const trials = 2 + Math.floor(Math.log(k));
-    for (let j = 1; j < k; j++) {
-      let pot = closest.reduce((a, b) => a + b, 0);
-      let bestC = null;
-      for (let t = 0; t < trials; t++) {
-        let u = rand() * pot;
-        let p = 0;
-        while (p < n - 1 && (u -= closest[p]) > 0) p++;
-        const d = distTo(p);
-        let np = 0;
-        for (let i = 0; i < n; i++) np += Math.min(closest[i], d[i]);
-        if (!bestC || np < bestC.pot) bestC = { p, pot: np, d };
-      }
-      place(j, bestC.p);
-      for (let i = 0; i < n; i++) closest[i] = Math.min(closest[i], bestC.d[i]);
-    }
-    const labels = new Int32Array(n).fill(-1);
-    let inertia = 0;
-    let it = 0;
-    for (; it < maxIter; it++) {
-      const cn = new Float64Array(k);
-      for (let j = 0; j < k; j++) {
-        let s2 = 0;
-        for (let v = 0; v < V; v++) s2 += C[j * V + v] ** 2;
-        cn[j] = s2;
-      }
-      let changed = 0;
-      inertia = 0;
-      for (let i = 0; i < n; i++) {
-        let bd = Infinity;
-        let bj = 0;
-        for (let j = 0; j < k; j++) {
-          const d = 1 + cn[j] - 2 * dotDense(X[i], C, j * V);
-          if (d < bd) (bd = d), (bj = j);
-        }
-        if (labels[i] !== bj) changed++, (labels[i] = bj);
-        inertia += Math.max(0, bd);
-      }
-      if (changed === 0) break;
-      const counts = new Float64Array(k);
-      const next = new Float64Array(k * V);
-      for (let i = 0; i < n; i++) {
-        const x = X[i];
-        counts[labels[i]]++;
-        for (let t = 0; t < x.indices.length; t++) next[labels[i] * V + x.indices[t]] += x.values[t];
-      }
-      for (let j = 0; j < k; j++) {
-        if (!counts[j]) next.set(C.subarray(j * V, (j + 1) * V), j * V);
-        else for (let v = 0; v < V; v++) next[j * V + v] /= counts[j];
-      }
-      C.set(next);
-    }
-    if (!best || inertia < best.inertia) best = { labels: Array.from(labels), inertia, iterations: it };
-  }
-  return best;
-}
 
 // ---------------------------------------------------------------- dense-row representations
 /** A large pool: every sample's content lemmas cut into windows of 20 (about 22,000 passages). */
@@ -408,15 +309,6 @@ async function reprOne(method, dims, k) {
   global.gc?.();
   const before = process.memoryUsage();
   const t0 = performance.now();
-  if (method === 'sparse') {
-    const vec = new TfidfVectorizer().fit(pool.map((p) => p.terms));
-    const X = vec.transform(pool.map((p) => p.terms));
-    const fit = sparseKmeans(X, vec.size, k, 0);
-    const seconds = (performance.now() - t0) / 1000;
-    const silhouette = silhouetteScore(X, fit.labels, 'cosine', { sampleSize: 20000, seed: 0 });
-    process.stdout.write(JSON.stringify({ method, dims: vec.size, k, n: pool.length, seconds, maxRssMiB: process.resourceUsage().maxRSS / 1024, baseRssMiB: before.rss / 2 ** 20, silhouette, sweep: [], ids: pool.map((p) => p.id), labels: fit.labels }));
-    return;
-  }
   const opts = method === 'default' ? { seed: 0 } : { seed: 0, k, representation: method, dims, maxCells: Number.MAX_SAFE_INTEGER };
   const res = discover(pool, pool.map((p) => p.terms), opts);
   const seconds = (performance.now() - t0) / 1000;

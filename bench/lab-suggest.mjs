@@ -20,7 +20,7 @@ import { execFileSync } from 'node:child_process';
 import { existsSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { ThemeSuggester } from '../dist/suggest/index.js';
-import { brownCategories, LEAVES, rng } from './brown.mjs';
+import { brownCategories, brownTemplate, LEAVES, rng, seededBatch, wordCount, writeBrownTexts } from './brown.mjs';
 import { PEER_SCRIPT } from './cli.mjs';
 import { labPassages, labSplit, labThemes } from './lab-brown.mjs';
 
@@ -120,7 +120,6 @@ async function cliStudy() {
   const { main } = await import('../dist/cli/main.js');
   const { openStudy } = await import('../dist/study/db.js');
   const { modelInputs } = await import('../dist/study/model.js');
-  const { brownTemplate, writeBrownTexts } = await import('./brown.mjs');
   const dir = join(OUT, 'lab-study');
   if (!existsSync(join(dir, 'study.db'))) {
     const run = async (...args) => {
@@ -145,7 +144,7 @@ async function cliStudy() {
   return { inputs, words };
 }
 
-function cliData({ inputs, words }, seed, seededBatch, wordCount) {
+function cliData({ inputs, words }, seed) {
   const cats = brownCategories();
   const batch = seededBatch(0.25, seed);
   const leafId = new Map(inputs.themes.filter((t) => t.parentId !== null).map((t) => [t.name, t.id]));
@@ -169,7 +168,7 @@ function cliData({ inputs, words }, seed, seededBatch, wordCount) {
  * leaf (ranked as \`suggest\` ranks) is accepted when it is the label, else re-coded to the label,
  * which also counts as a rejection of the suggested theme; the next round refits on all of it.
  */
-function review(name, opts, data, seed, rng) {
+function review(name, opts, data, seed) {
   const { passages, themes, leafOf, train } = data;
   const cats = brownCategories();
   const leafId = new Map(themes.filter((t) => t.parentId !== null).map((t) => [t.name, t.id]));
@@ -212,14 +211,13 @@ const names = process.env.VARIANTS === 'all' ? Object.keys(VARIANTS) : (process.
 const fmt = (v) => (typeof v === 'number' ? v.toFixed(3) : String(v));
 const all = PROTOCOL === 'paragraphs' ? await labPassages() : null;
 const cli = PROTOCOL === 'cli' ? await cliStudy() : null;
-const brown = await import('./brown.mjs');
 const results = new Map();
 let data = null;
 for (const seed of SEEDS) {
-  data = all ? paragraphData(all, seed) : cliData(cli, seed, brown.seededBatch, brown.wordCount);
+  data = all ? paragraphData(all, seed) : cliData(cli, seed);
   console.log(`lab:suggest  ${PROTOCOL} protocol, seed ${seed}: ${data.train.size} coded samples (${data.codings.length} coded passages), ${data.testIds.length} test passages`);
   if (process.env.REVIEW && cli) {
-    for (const name of names) review(name, VARIANTS[name], data, seed, rng);
+    for (const name of names) review(name, VARIANTS[name], data, seed);
     continue;
   }
   for (const name of names) {
