@@ -1,8 +1,8 @@
 /** Printing helpers shared by the commands: human text by default, JSON for scripts. */
 
-/** JSON on stdout: indented for reading, or compact for bulk output (`compact`). */
-export function printJson(value: unknown, opts: { compact?: boolean } = {}): void {
-  process.stdout.write(JSON.stringify(value, null, opts.compact ? undefined : 2) + '\n');
+/** JSON on stdout, indented for reading (bulk output streams compact JSON: printJsonStream). */
+export function printJson(value: unknown): void {
+  process.stdout.write(JSON.stringify(value, null, 2) + '\n');
 }
 
 export function say(line = ''): void {

@@ -2,14 +2,14 @@ import cliProgress from 'cli-progress';
 
 /**
  * A progress bar on stderr for long work; silent when stderr is not a terminal or for small jobs
- * (fewer than `minTotal` units, or `show` false). `share`: the units are not items to count.
+ * (fewer than 20 units, or `show` false). `share`: the units are not items to count.
  */
 export function progressBar(
   total: number,
   label: string,
-  opts: { minTotal?: number; show?: boolean; share?: boolean } = {},
+  opts: { show?: boolean; share?: boolean } = {},
 ): { tick: (done: number) => void; stop: () => void } {
-  if (!process.stderr.isTTY || total < (opts.minTotal ?? 20) || opts.show === false) return { tick: () => {}, stop: () => {} };
+  if (!process.stderr.isTTY || total < 20 || opts.show === false) return { tick: () => {}, stop: () => {} };
   const count = opts.share ? '' : ' {value}/{total}';
   const bar = new cliProgress.SingleBar(
     {

@@ -21,15 +21,21 @@ function snippet(text: string, n = 70): string {
   return flat.length > n ? flat.slice(0, n - 1).trimEnd() + '…' : flat;
 }
 
+type Cited = ReturnType<Snippets['get']>;
+
+/** What an exemplar reason's sentence ends with: a short snippet of the cited passage. */
+export const exemplarTail = (s: Cited): string => (s ? `: "${snippet(s.text)}"` : '');
+
+/** The cited passage's transcript and a longer snippet, for --json. */
+export const exemplarCited = (s: Cited): { transcript?: string; snippet?: string } => (s ? { transcript: s.transcript, snippet: snippet(s.text, 120) } : {});
+
 /** A reason as a sentence a researcher can read. */
 export function reasonText(r: Reason, snippets: Snippets): string {
   switch (r.kind) {
     case 'terms':
       return `distinctive terms: ${r.terms.map((t) => `${t.term} ${num(t.weight)}`).join(', ')}`;
-    case 'exemplar': {
-      const s = snippets.get(r.passageId);
-      return `most like coded passage ${r.passageId} (similarity ${num(r.similarity)})${s ? `: "${snippet(s.text)}"` : ''}`;
-    }
+    case 'exemplar':
+      return `most like coded passage ${r.passageId} (similarity ${num(r.similarity)})${exemplarTail(snippets.get(r.passageId))}`;
     case 'seeds':
       return `seed terms: ${r.terms.join(', ')}`;
     case 'seed-only':
@@ -46,12 +52,11 @@ export function reasonText(r: Reason, snippets: Snippets): string {
 /** The reason with its readable text, and the exemplar's transcript and snippet, for --json. */
 export function reasonJson(r: Reason, snippets: Snippets): Record<string, unknown> {
   if (r.kind !== 'exemplar') return { ...r, text: reasonText(r, snippets) };
-  const s = snippets.get(r.passageId);
   return {
     kind: r.kind,
     passage_id: r.passageId,
     similarity: r.similarity,
-    ...(s ? { transcript: s.transcript, snippet: snippet(s.text, 120) } : {}),
+    ...exemplarCited(snippets.get(r.passageId)),
     text: reasonText(r, snippets),
   };
 }

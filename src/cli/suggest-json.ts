@@ -1,6 +1,6 @@
 /** The JSON of one passage's suggestions (the scripting contract of `trellis suggest --json`). */
 import type { SuggestRun } from '../study/suggestions.js';
-import { reasonJson, type Reason, type Snippets } from './reasons.js';
+import { exemplarCited, exemplarTail, reasonJson, type Reason, type Snippets } from './reasons.js';
 
 type Passage = SuggestRun['passages'][number];
 
@@ -56,15 +56,9 @@ function reasonsJsonText(snippets: Snippets) {
   const exemplar = (id: string, similarity: number) => {
     let e = cited.get(id);
     if (!e) {
-      const json = reasonJson({ kind: 'exemplar', passageId: id, similarity: 0 }, snippets);
-      const text = json.text as string;
-      const mark = '(similarity 0.00)';
-      const after = text.lastIndexOf(mark) + mark.length;
-      e = {
-        id: esc(id),
-        tail: json.snippet === undefined ? '' : `,"transcript":${JSON.stringify(json.transcript)},"snippet":${JSON.stringify(json.snippet)}`,
-        short: esc(text.slice(after)),
-      };
+      const s = snippets.get(id);
+      const c = exemplarCited(s);
+      e = { id: esc(id), tail: s ? `,"transcript":${JSON.stringify(c.transcript)},"snippet":${JSON.stringify(c.snippet)}` : '', short: esc(exemplarTail(s)) };
       cited.set(id, e);
     }
     return `{"kind":"exemplar","passage_id":"${e.id}","similarity":${similarity}${e.tail},` +

@@ -83,10 +83,9 @@ Examples:
         const path = (id: string) => run.paths.get(id) ?? id;
         if (opts.json) {
           const head = { run_id: run.runId, revision: run.rev, fingerprint: run.fingerprint };
-          const json = passageJson(path, snippets);
           // Bulk runs stream compact JSON; a few passages are indented for reading.
           if (run.passages.length > 200) return printJsonStream(head, 'passages', run.passages, passageJsonText(path, snippets));
-          return printJson({ ...head, passages: run.passages.map(json) });
+          return printJson({ ...head, passages: run.passages.map(passageJson(path, snippets)) });
         }
         const tokens = passageTokens(db, run.passages.map((p) => p.passageId));
         for (const p of run.passages) {

@@ -17,7 +17,7 @@ import { sampleIndices } from '../measure/random.js';
 import { silhouetteScore } from '../measure/silhouette.js';
 import { logOdds } from '../suggest/logodds.js';
 import { TfidfVectorizer } from '../text/tfidf.js';
-import { dot, norm, type SparseVector } from '../text/vectors.js';
+import { dot, fromDense, norm, type SparseVector } from '../text/vectors.js';
 import { dismissedIndex, judgeCluster } from './dismissals.js';
 import { distinctRows, kmeansRestarts, type KMeansFit } from './kmeans.js';
 import { naturalCompare } from './order.js';
@@ -173,14 +173,7 @@ function clusteringRows(vectors: SparseVector[], vec: TfidfVectorizer, o: Resolv
   if (o.representation === 'sparse') return { rows: vectors, dims: vec.size };
   const width = Math.max(1, Math.min(o.dims, Math.floor(o.maxCells / Math.max(1, vectors.length))));
   const dense = denseRows(vectors, vec.vocabulary, vec.state.df, { method: o.representation, dims: width, nonZeros: o.projectionNonZeros, seed: o.seed });
-  return { rows: dense.rows.map(sparseOf), dims: dense.dims };
-}
-
-/** A dense row as a sparse vector (its non-zero columns). */
-function sparseOf(row: Float64Array): SparseVector {
-  const keep: number[] = [];
-  for (let j = 0; j < row.length; j++) if (row[j] !== 0) keep.push(j);
-  return { indices: Int32Array.from(keep), values: Float64Array.from(keep, (j) => row[j]!) };
+  return { rows: dense.rows.map((r) => fromDense(r)), dims: dense.dims };
 }
 
 function termCounts(lists: readonly (readonly string[])[]): Map<string, number> {

@@ -7,6 +7,6 @@ export { dismissedIndex, judgeCluster, type ClusterVerdict, type DismissalRule }
 export { triage, type TranscriptTriage, type TriageInput } from './triage.js';
 export { naturalCompare } from './order.js';
 export { NoveltyModel, NOVELTY_FEATURES, aucOf, resolveNoveltyOptions, upperQuantile, type NoveltyFeature, type NoveltyInput, type NoveltyOptions, type NoveltyPassage, type NoveltyState } from './novelty.js';
-export { fitLogit, predictLogit, sigmoid, type LogitState } from './logit.js';
+export { fitLogit, predictLogit, type LogitState } from './logit.js';
 export { smoothInGroups } from './smooth.js';
 export type * from './types.js';

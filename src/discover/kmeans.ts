@@ -17,7 +17,7 @@
  *    squared distance, as scikit-learn reports them.
  */
 import { seededRandom } from '../measure/random.js';
-import type { SparseVector } from '../text/vectors.js';
+import { fromDense, type SparseVector } from '../text/vectors.js';
 
 export type DenseInput = readonly (readonly number[] | Float64Array)[];
 /** Dense rows, or sparse vectors (term indices and weights). */
@@ -71,10 +71,9 @@ function toPoints(x: KMeansInput): Points {
   } else {
     for (const r of x as DenseInput) {
       dims = Math.max(dims, r.length);
-      const keep: number[] = [];
-      for (let j = 0; j < r.length; j++) if (r[j] !== 0) keep.push(j);
-      idx.push(Int32Array.from(keep));
-      val.push(Float64Array.from(keep, (j) => r[j]!));
+      const v = fromDense(r);
+      idx.push(v.indices);
+      val.push(v.values);
     }
   }
   const sq = Float64Array.from(val, (v) => v.reduce((s, a) => s + a * a, 0));

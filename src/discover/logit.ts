@@ -4,7 +4,8 @@
  * i.e. sum of log-losses + ||w||^2 / (2 C). Small and dense: the novelty model has a handful of
  * features and a few thousand rows.
  */
-import { sigmoid, solveSpd as solve } from '../suggest/logistic.js';
+// The same sigmoid, symmetrising and Cholesky solve as the suggester's logistic regressions.
+import { sigmoid, solveSpd as solve, symmetrise } from '../suggest/logistic.js';
 
 export interface LogitState {
   /** Intercept first, then one weight per feature. */
@@ -13,9 +14,6 @@ export interface LogitState {
   iterations: number;
   converged: boolean;
 }
-
-// The same sigmoid and Cholesky solve as the suggester's grouped logistic regression.
-export { sigmoid };
 
 /**
  * @param x rows of features (all the same length)
@@ -44,7 +42,7 @@ export function fitLogit(x: readonly (readonly number[])[], y: readonly number[]
         for (let b = 0; b <= a; b++) h[a * d + b] += s * xa * (b ? row[b - 1]! : 1);
       }
     });
-    for (let a = 0; a < d; a++) for (let b = a + 1; b < d; b++) h[a * d + b] = h[b * d + a]!;
+    symmetrise(h, d);
     // A tiny ridge on the intercept's diagonal keeps a separable or one-class batch solvable.
     h[0] += 1e-9;
     const step = solve(h, g, d);

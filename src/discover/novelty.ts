@@ -24,7 +24,7 @@
 import type { Coding, PassageSuggestions, Role } from '../suggest/types.js';
 import { logOdds } from '../suggest/logodds.js';
 import { TfidfVectorizer } from '../text/tfidf.js';
-import type { SparseVector } from '../text/vectors.js';
+import { addTo, dotDense, type SparseVector } from '../text/vectors.js';
 import { fitLogit, predictLogit, type LogitState } from './logit.js';
 import { claimingThemes } from './pool.js';
 import { smoothInGroups } from './smooth.js';
@@ -56,7 +56,7 @@ export type NoveltyFeature = NoveltyBase | `${NoveltyBase}-near` | `${NoveltyBas
 export const NOVELTY_FEATURES: readonly NoveltyFeature[] = ['conf', 'lift', 'unseen', 'conf-near', 'lift-near', 'unseen-near', 'conf-transcript', 'lift-transcript', 'unseen-transcript'];
 
 export interface NoveltyOptions {
-  /** Features used (default all six). */
+  /** Features used (default all of NOVELTY_FEATURES). */
   features?: readonly NoveltyFeature[];
   /** Weight of a neighbour d passages away in the near smoothing: decay^d (default 0.5). */
   decay?: number;
@@ -125,6 +125,7 @@ export class NoveltyModel {
   /** Cosine of every passage to the centroid of the whole study (the scale of `lift`). */
   private general: Float64Array = new Float64Array(0);
   private vectors: SparseVector[] = [];
+  private studyRowsMemo: { rows: Map<number, number[]>; pIndex: Map<string, number> } | null = null;
   private counts: TermCounts | null = null;
   private codes: number[][] = [];
   private groupOf = new Int32Array(0);
@@ -148,6 +149,7 @@ export class NoveltyModel {
   fit(input: NoveltyInput): this {
     const o = this.options;
     this.passages = input.passages;
+    this.studyRowsMemo = null;
     const claimingSet = claimingThemes(input.themes, input.codings);
     // Claiming themes in template order; each one's competition group is its depth.
     this.claiming = input.themes.map((t) => t.id).filter((id) => claimingSet.has(id));
@@ -230,22 +232,25 @@ export class NoveltyModel {
 
   /** Feature rows of the given passages with every theme present (null for interviewer turns). */
   features(passageIds: readonly string[]): (number[] | null)[] {
-    const transcripts = this.passages.map((p) => p.transcript);
-    const ordinals = Float64Array.from(this.passages, (p) => p.ordinal);
-    const participants = this.passages.map((p, i) => (p.role === 'participant' ? i : -1)).filter((i) => i >= 0);
-    const rows = this.featureRows(participants, -1, transcripts, ordinals);
-    const pIndex = new Map(this.passages.map((p, i) => [p.id, i]));
+    const { rows, pIndex } = this.studyRows();
     return passageIds.map((id) => rows.get(pIndex.get(id) ?? -1) ?? null);
+  }
+
+  /** Feature rows of every participant passage with every theme present, computed once after fit. */
+  private studyRows(): { rows: Map<number, number[]>; pIndex: Map<string, number> } {
+    if (!this.studyRowsMemo) {
+      const transcripts = this.passages.map((p) => p.transcript);
+      const ordinals = Float64Array.from(this.passages, (p) => p.ordinal);
+      const participants = this.passages.map((p, i) => (p.role === 'participant' ? i : -1)).filter((i) => i >= 0);
+      this.studyRowsMemo = { rows: this.featureRows(participants, -1, transcripts, ordinals), pIndex: new Map(this.passages.map((p, i) => [p.id, i])) };
+    }
+    return this.studyRowsMemo;
   }
 
   /** Novelty of the given passages (default all), in that order: probability the template lacks their theme. */
   predict(passageIds?: readonly string[]): { passageId: string; novelty: number }[] {
     const st = this.state;
-    const transcripts = this.passages.map((p) => p.transcript);
-    const ordinals = Float64Array.from(this.passages, (p) => p.ordinal);
-    const participants = this.passages.map((p, i) => (p.role === 'participant' ? i : -1)).filter((i) => i >= 0);
-    const rows = this.featureRows(participants, -1, transcripts, ordinals);
-    const pIndex = new Map(this.passages.map((p, i) => [p.id, i]));
+    const { rows, pIndex } = this.studyRows();
     const z = (r: readonly number[]) => r.map((v, f) => (v - st.means[f]!) / st.scales[f]!);
     return (passageIds ?? this.passages.map((p) => p.id)).map((id) => {
       const i = pIndex.get(id);
@@ -381,7 +386,7 @@ function unseenScore(c: TermCounts, x: SparseVector, transcript: string, h: numb
 /** Cosine of every passage to the sum of all passages' unit vectors. */
 function generalCosines(vectors: readonly SparseVector[], V: number): Float64Array {
   const sum = new Float64Array(V);
-  for (const x of vectors) addInto(sum, x);
+  for (const x of vectors) addTo(sum, x);
   const n = Math.sqrt(sum.reduce((a, v) => a + v * v, 0));
   return Float64Array.from(vectors, (x) => (n > 0 ? dotDense(x, sum) / n : 0));
 }
@@ -408,7 +413,7 @@ function centroidCosines(passages: readonly NoveltyPassage[], vectors: readonly 
   passages.forEach((p, i) => {
     const x = vectors[i]!;
     for (const t of codes[i]!) {
-      addInto(sums[t]!, x);
+      addTo(sums[t]!, x);
       const per = byTranscript.get(p.transcript) ?? byTranscript.set(p.transcript, new Map()).get(p.transcript)!;
       const m = per.get(t) ?? per.set(t, new Map()).get(t)!;
       for (let k = 0; k < x.indices.length; k++) m.set(x.indices[k]!, (m.get(x.indices[k]!) ?? 0) + x.values[k]!);
@@ -444,14 +449,4 @@ function centroidCosines(passages: readonly NoveltyPassage[], vectors: readonly 
     }
   });
   return out;
-}
-
-function addInto(acc: Float64Array, x: SparseVector): void {
-  for (let k = 0; k < x.indices.length; k++) acc[x.indices[k]!] += x.values[k]!;
-}
-
-function dotDense(x: SparseVector, d: Float64Array): number {
-  let s = 0;
-  for (let k = 0; k < x.indices.length; k++) s += x.values[k]! * d[x.indices[k]!]!;
-  return s;
 }

@@ -1,7 +1,7 @@
 import type { Coding, ModelPassage, ThemeInfo } from '../suggest/types.js';
 import { walk } from '../template/paths.js';
 import { analyse } from '../text/nlp.js';
-import { contentLemmas } from '../text/terms.js';
+import { contentLemmas, isTermLemma } from '../text/terms.js';
 import { currentCodings } from './codings.js';
 import type { DB } from './db.js';
 import { currentTemplate } from './template.js';
@@ -17,7 +17,7 @@ export interface ModelInputs {
 /** Everything the suggestion model learns from, read from the study in one go. */
 export function modelInputs(db: DB): ModelInputs {
   // One pass over the stored analysis: the lemma string is split once, and whether a lemma has a
-  // letter is decided once per distinct lemma (the same test as contentLemmas), not per token.
+  // letter is decided once per distinct lemma (contentLemmas' test), not per token.
   // Every occurrence of a lemma becomes one shared string, whose hash the model's maps reuse.
   const rows = db
     .prepare(
@@ -27,7 +27,6 @@ export function modelInputs(db: DB): ModelInputs {
     .raw()
     .all() as [string, string, number, ModelPassage['role'], string, Buffer][];
   const canonical = new Map<string, string | null>();
-  const letter = /\p{L}/u;
   const passages: ModelPassage[] = rows.map(([id, transcript, ordinal, role, lemmaText, stops]) => {
     const lemmas = lemmaText ? lemmaText.split(' ') : [];
     const terms: string[] = [];
@@ -35,7 +34,7 @@ export function modelInputs(db: DB): ModelInputs {
       if (stops[i]) continue;
       const l = lemmas[i]!;
       let c = canonical.get(l);
-      if (c === undefined) canonical.set(l, (c = letter.test(l) ? l : null));
+      if (c === undefined) canonical.set(l, (c = isTermLemma(l) ? l : null));
       if (c !== null) terms.push(c);
     }
     return { id, transcript, ordinal, role, terms, words: lemmas.length };

@@ -38,24 +38,6 @@ export function getPassage(db: DB, id: string): StoredPassage | undefined {
   return stmt.get(id) as StoredPassage | undefined;
 }
 
-/** The stored analysis of passages, for the models: lemmas with stop flags. */
-export interface PassageTerms {
-  id: string;
-  lemmas: string[];
-  stops: Uint8Array;
-}
-
-export function passageTerms(db: DB, f: PassageFilter = {}): PassageTerms[] {
-  const { where, args } = whereOf(f);
-  const sql = `SELECT p.id, p.lemmas, p.stops FROM passages p JOIN transcripts t ON t.id = p.transcript_id
-    ${where} ORDER BY t.id, p.ordinal`;
-  return (db.prepare(sql).all(...args) as { id: string; lemmas: string; stops: Buffer }[]).map((r) => ({
-    id: r.id,
-    lemmas: r.lemmas ? r.lemmas.split(' ') : [],
-    stops: new Uint8Array(r.stops.buffer, r.stops.byteOffset, r.stops.byteLength),
-  }));
-}
-
 function whereOf(f: PassageFilter): { where: string; args: unknown[] } {
   const parts: string[] = [];
   const args: unknown[] = [];

@@ -93,19 +93,19 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
       (args.length === BATCH * COLS ? full : statement(args.length / COLS)).run(args);
       args.length = 0;
     };
-    const passages = kept.map((p, n) => {
+    // Each candidate gets its id and rank in place: the run returns the same objects.
+    kept.forEach((p, n) => {
       if (progress && n % 500 === 0) progress('store', n / kept.length);
-      const candidates = p.candidates.map((c, i) => {
+      p.candidates.forEach((c, i) => {
         const stored = c as StoredCandidate;
         stored.suggestionId = next++;
         stored.rank = i + 1;
         args.push(stored.suggestionId, runId, p.passageId, c.themeId, i + 1, c.confidence, c.aboveThreshold ? 1 : 0, c.chosen ? 1 : 0, c.reasons.length ? JSON.stringify(c.reasons) : '[]');
         if (args.length === BATCH * COLS) flush();
-        return stored;
       });
-      return { ...p, candidates };
     });
     flush();
+    const passages = kept as SuggestRun['passages'];
     const paths = new Map(inputs.themes.map((t) => [t.id, t.path]));
     return { runId, rev: rev.rev, fingerprint: model.fingerprint, passages, reports: model.themeReports(), paths };
   })();

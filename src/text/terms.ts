@@ -5,10 +5,13 @@
  */
 import type { TextAnalysis } from './analysis.js';
 
+/** Whether a non-stop lemma is a term: it has a letter (numbers and punctuation are not). */
+export const isTermLemma = (lemma: string): boolean => /\p{L}/u.test(lemma);
+
 /** Non-stop lemmas of a stored analysis, in order (lemmas are already lower case). */
 export function contentLemmas(a: Pick<TextAnalysis, 'lemmas' | 'stop'>): string[] {
   const out: string[] = [];
-  for (let i = 0; i < a.lemmas.length; i++) if (!a.stop[i] && /\p{L}/u.test(a.lemmas[i]!)) out.push(a.lemmas[i]!);
+  for (let i = 0; i < a.lemmas.length; i++) if (!a.stop[i] && isTermLemma(a.lemmas[i]!)) out.push(a.lemmas[i]!);
   return out;
 }
 

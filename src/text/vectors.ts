@@ -11,6 +11,13 @@ export interface SparseVector {
 
 export const EMPTY: SparseVector = { indices: new Int32Array(0), values: new Float64Array(0) };
 
+/** A dense row as a sparse vector: its non-zero columns, in order. */
+export function fromDense(row: ArrayLike<number>): SparseVector {
+  const keep: number[] = [];
+  for (let j = 0; j < row.length; j++) if (row[j] !== 0) keep.push(j);
+  return { indices: Int32Array.from(keep), values: Float64Array.from(keep, (j) => row[j]!) };
+}
+
 /** A sparse vector from (index, value) pairs in any order; zero values are dropped. */
 export function fromEntries(entries: Iterable<[number, number]>): SparseVector {
   const pairs = [...entries].filter(([, v]) => v !== 0).sort((a, b) => a[0] - b[0]);
