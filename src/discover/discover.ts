@@ -68,8 +68,8 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
   for (let i = 1; i < items.length; i++) if (items[i]!.id === items[i - 1]!.id) throw new RangeError(`passage ${items[i]!.id} is in the pool twice`);
   if (o.k !== undefined && (!Number.isInteger(o.k) || o.k < 1)) throw new RangeError(`k must be a positive integer; got ${o.k}`);
 
-  const vec = new TfidfVectorizer().fit(items.map((p) => p.terms));
-  const all = vec.transform(items.map((p) => p.terms));
+  const vec = new TfidfVectorizer();
+  const all = vec.fitTransform(items.map((p) => p.terms));
   // A passage with no term has no direction; it stays unclaimed without a cluster.
   const live = all.map((v, i) => (v.indices.length ? i : -1)).filter((i) => i >= 0);
   const empty = items.filter((_, i) => all[i]!.indices.length === 0).map((p) => p.id);

@@ -25,23 +25,6 @@ export function sigmoid(z: number): number {
   return z >= 0 ? 1 / (1 + Math.exp(-z)) : Math.exp(z) / (1 + Math.exp(z));
 }
 
-/** Mean log-loss of a fitted model on data. */
-export function logLoss(m: GroupedModel, d: GroupedData): number {
-  const n = d.y.length;
-  let s = 0;
-  for (let i = 0; i < n; i++) {
-    const z = linear(m, d, i);
-    s += d.y[i] ? softplus(-z) : softplus(z);
-  }
-  return s / Math.max(1, n);
-}
-
-export function linear(m: GroupedModel, d: GroupedData, i: number): number {
-  let z = m.intercepts[d.group[i]!]!;
-  for (let j = 0; j < d.k; j++) z += m.weights[j]! * d.x[i * d.k + j]!;
-  return z;
-}
-
 function softplus(z: number): number {
   return z > 0 ? z + Math.log1p(Math.exp(-z)) : Math.log1p(Math.exp(z));
 }

@@ -11,7 +11,7 @@
  * one passage against every theme walks memory in order.
  */
 import type { SparseVector } from '../text/vectors.js';
-import { logOdds, logOddsDelta } from './logodds.js';
+import { logOddsDelta } from './logodds.js';
 
 export const SIGNALS = 3;
 export const CENTROID = 0;
@@ -72,7 +72,7 @@ export class Profiles {
   readonly negWeight: Float64Array;
   /** Coded passages (passage indices) and an inverted index of their TF-IDF vectors. */
   readonly coded: Int32Array;
-  readonly postStart: Int32Array;
+  private readonly postStart: Int32Array;
   private readonly postDoc: Int32Array;
   private readonly postVal: Float64Array;
   private readonly negs: number[][];
@@ -185,23 +185,19 @@ export class Profiles {
       }
     });
     this.local = new Int32Array(vc).fill(-1);
-    // For the exemplar search: each coded passage's transcript, and its label set as a group.
-    this.codedTranscript = Int32Array.from(coded, (p) => corpus.transcriptOf[p]!);
-    const groupIndex = new Map<string, number>();
-    this.groupOf = Int32Array.from(coded, (p) => {
-      const key = corpus.labels[p]!.join(',');
-      let g = groupIndex.get(key);
-      if (g === undefined) {
-        groupIndex.set(key, (g = this.groupThemes.length));
-        this.groupThemes.push(corpus.labels[p]!.slice());
-      }
-      return g;
-    });
+    // Terms the profiles see: used by a coded passage, or by a passage rejected outside the
+    // coded transcripts (the extra rest); other terms score nothing.
+    this.anyNeg = this.nneg.some((v) => v > 0);
+    this.restSeen = new Uint8Array(vc);
+    for (let l = 0; l < vc; l++) {
+      let seen = this.ytot[l]! > 0;
+      for (let t = 0; t < nT && !seen; t++) seen = this.yneg[l * nT + t]! > 0;
+      this.restSeen[l] = seen ? 1 : 0;
+    }
   }
 
-  private readonly codedTranscript: Int32Array;
-  private readonly groupOf: Int32Array;
-  private readonly groupThemes: number[][] = [];
+  private readonly restSeen: Uint8Array;
+  private readonly anyNeg: boolean;
   private gBest: Float64Array | null = null;
   private gArg: Int32Array | null = null;
 
@@ -364,7 +360,6 @@ export class Profiles {
     const foldDelta = sc.delta;
     const foldDone = sc.done;
     const foldSeen = sc.seen;
-    const anyNeg = this.nneg.some((v) => v > 0);
 
     const f = new Float64Array(m * nT * SIGNALS);
     const nearest = new Int32Array(m * nT).fill(-1);
@@ -408,7 +403,7 @@ export class Profiles {
         if (l < 0) continue;
         const w = c.values[q]!;
         if (table) {
-          if (this.ytot[l]! <= 0 && !this.rejectedTerm(l)) continue; // unseen by the profiles
+          if (!this.restSeen[l]) continue; // unseen by the profiles
           weight += w;
           const o = l * nT;
           for (let t = 0; t < nT; t++) lo[t] = lo[t]! + w * table[o + t]!;
@@ -420,7 +415,7 @@ export class Profiles {
           foldDone[r] = 1;
           const all = this.ytot[l]! - tc[r]!;
           let negSeen = false;
-          if (anyNeg) for (let t = 0; t < nT && !negSeen; t++) negSeen = this.yneg[l * nT + t]! - pneg[r * nT + t]! > 0;
+          if (this.anyNeg) for (let t = 0; t < nT && !negSeen; t++) negSeen = this.yneg[l * nT + t]! - pneg[r * nT + t]! > 0;
           foldSeen[r] = all > 0 || negSeen ? 1 : 0; // else a term only the held transcripts use: unseen by the fold
           if (foldSeen[r]) {
             const aw = this.prior[l]!;
@@ -488,12 +483,6 @@ export class Profiles {
     return { f, valid, nearest, nearestSim };
   }
 
-  /** True when some theme's extra rest (rejections outside coded transcripts) uses the term. */
-  private rejectedTerm(l: number): boolean {
-    for (let t = 0; t < this.nT; t++) if (this.yneg[l * this.nT + t]! > 0) return true;
-    return false;
-  }
-
   private delta: Float64Array | null = null;
   private zs: Float64Array | null = null;
 
@@ -503,7 +492,7 @@ export class Profiles {
     const { nT, vc } = this;
     const d = new Float64Array(vc * nT);
     for (let l = 0; l < vc; l++) {
-      if (this.ytot[l]! <= 0 && !this.rejectedTerm(l)) continue;
+      if (!this.restSeen[l]) continue;
       for (let t = 0; t < nT; t++) {
         const yt = this.y[l * nT + t]!;
         const yr = this.ytot[l]! - yt + this.yneg[l * nT + t]!;
@@ -532,15 +521,6 @@ export class Profiles {
     return (this.zs = z);
   }
 
-  /** Full-batch log-odds of term `termIndex` for theme t (for reasons and top terms). */
-  termLogOdds(termIndex: number, t: number): { delta: number; z: number } | null {
-    const l = this.loc[termIndex]!;
-    if (l < 0 || (this.ytot[l]! <= 0 && !this.rejectedTerm(l))) return null;
-    const yt = this.y[l * this.nT + t]!;
-    const yr = this.ytot[l]! - yt + this.yneg[l * this.nT + t]!;
-    return logOdds(yt, this.n[t]!, yr, this.ntot - this.n[t]! + this.nneg[t]!, this.prior[l]!, this.a0);
-  }
-
   /**
    * The nearest coded passage of each theme to passage p, from transcripts other than p's,
    * with its cosine: [passage index or -1, cosine] per theme. With `themes`, only those are
@@ -567,7 +547,7 @@ export class Profiles {
       }
     }
     // The best passage per label set (coded passages share a handful of them), then per theme.
-    const nG = this.groupThemes.length;
+    const nG = G.themes.length;
     const gBest = (this.gBest ??= new Float64Array(nG));
     const gArg = (this.gArg ??= new Int32Array(nG));
     const own = corpus.transcriptOf[p]!;
@@ -598,7 +578,7 @@ export class Profiles {
       if (gArg[g]! < 0) continue;
       const v = gBest[g]!;
       const pd = coded[gArg[g]!]!;
-      for (const t of this.groupThemes[g]!) {
+      for (const t of G.themes[g]!) {
         if (!want[t]) continue;
         if (v > sim[t]! || (v === sim[t]! && nearest[t]! >= 0 && pd < nearest[t]!)) {
           sim[t] = v;
@@ -611,26 +591,39 @@ export class Profiles {
   }
 
   private want: Uint8Array | null = null;
-  private byGroup: { doc: Int32Array; start: Int32Array; ci: Int32Array; transcript: Int32Array } | null = null;
+  private byGroup: ReturnType<Profiles['groupIndex']> | null = null;
 
   /** The postings renumbered by label set: position of every coded passage, grouped, in passage order. */
-  private groupIndex(): { doc: Int32Array; start: Int32Array; ci: Int32Array; transcript: Int32Array } {
-    const nc = this.coded.length;
-    const nG = this.groupThemes.length;
+  /** For the exemplar search: the coded passages grouped by label set, with their transcripts. */
+  private groupIndex(): { doc: Int32Array; start: Int32Array; ci: Int32Array; transcript: Int32Array; themes: number[][] } {
+    const { corpus, coded } = this;
+    const nc = coded.length;
+    const themes: number[][] = [];
+    const groupKey = new Map<string, number>();
+    const groupOf = Int32Array.from(coded, (p) => {
+      const key = corpus.labels[p]!.join(',');
+      let g = groupKey.get(key);
+      if (g === undefined) {
+        groupKey.set(key, (g = themes.length));
+        themes.push(corpus.labels[p]!.slice());
+      }
+      return g;
+    });
+    const nG = themes.length;
     const start = new Int32Array(nG + 1);
-    for (let d = 0; d < nc; d++) start[this.groupOf[d]! + 1]!++;
+    for (let d = 0; d < nc; d++) start[groupOf[d]! + 1]!++;
     for (let g = 0; g < nG; g++) start[g + 1] = start[g + 1]! + start[g]!;
     const fill = start.slice();
     const rank = new Int32Array(nc);
     const ci = new Int32Array(nc);
     const transcript = new Int32Array(nc);
     for (let d = 0; d < nc; d++) {
-      const at = fill[this.groupOf[d]!]!++;
+      const at = fill[groupOf[d]!]!++;
       rank[d] = at;
       ci[at] = d;
-      transcript[at] = this.codedTranscript[d]!;
+      transcript[at] = corpus.transcriptOf[coded[d]!]!;
     }
-    return { doc: this.postDoc.map((d) => rank[d]!), start, ci, transcript };
+    return { doc: this.postDoc.map((d) => rank[d]!), start, ci, transcript, themes };
   }
   private acc: Float64Array | null = null;
 
@@ -640,10 +633,5 @@ export class Profiles {
     for (let l = 0; l < this.vc; l++) d += this.s[l * this.nT + a]! * this.s[l * this.nT + b]!;
     const n = Math.sqrt(this.ss[a]! * this.ss[b]!);
     return n > 0 ? d / n : 0;
-  }
-
-  /** Term positions of the labelled vocabulary, for walking every term of a theme. */
-  *codedTerms(): Generator<[number, number]> {
-    for (let i = 0; i < this.loc.length; i++) if (this.loc[i]! >= 0) yield [i, this.loc[i]!];
   }
 }

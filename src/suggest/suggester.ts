@@ -320,7 +320,7 @@ export class ThemeSuggester {
     }
     const decays = o.signals.transcript ? o.decays : [NaN];
     const scales = o.signals.transcript ? o.contextScales : (['mean'] as const);
-    let best: { layer: LayerState; loss: number; decay: number; scale: 'mean' | 'sqrt'; cols: Column[]; index: number } | null = null;
+    let best: { layer: LayerState; data: ChoiceData; loss: number; decay: number; scale: 'mean' | 'sqrt'; cols: Column[]; index: number } | null = null;
     const lossBy: Record<string, number> = {};
     // The first candidate starts where the base layer and the length model leave off: weight
     // sd(x) on a standardised x is weight 1 on x itself.
@@ -357,12 +357,11 @@ export class ThemeSuggester {
       const { layer, data } = fitLayer(cols, sets, nT, o.ridge, best?.layer ?? warm, best ? SCREEN_STEPS : undefined);
       const loss = choiceLoss(layer, data);
       lossBy[Number.isNaN(decay) ? 'none' : `${scale} ${decay}`] = loss;
-      if (!best || loss < best.loss - 1e-12) best = { layer, loss, decay, scale, cols, index };
+      if (!best || loss < best.loss - 1e-12) best = { layer, data, loss, decay, scale, cols, index };
     }
     if (best!.index > 0) {
-      const done = fitLayer(best!.cols, sets, nT, o.ridge, best!.layer);
-      best!.layer = done.layer;
-      best!.loss = choiceLoss(done.layer, done.data);
+      best!.layer = refitLayer(best!.layer, best!.data, o.ridge);
+      best!.loss = choiceLoss(best!.layer, best!.data);
     }
     const ctx = best!;
 
@@ -405,7 +404,7 @@ export class ThemeSuggester {
     const rowsOf: number[][] = themes.map(() => []);
     for (let s = 0; s + 1 < sets.start.length; s++) {
       if (sets.partial[s]) continue;
-      for (let r = sets.start[s]!; r < sets.start[s + 1]!; r++) rowsOf[sets.cells[r]! % nT]!.push(r);
+      for (let r = sets.start[s]!; r < sets.start[s + 1]!; r++) rowsOf[sets.theme[r]!]!.push(r);
     }
     const trainRows = rowsOf.flat();
     const seedCalibrator = seedOnly.some(Boolean) && trainRows.length ? fitPlatt(trainRows.map((r) => F[sets.cells[r]! * SIGNALS + CENTROID]!), trainRows.map((r) => sets.y[r]!)) : null;
@@ -820,6 +819,13 @@ function fitLayer(
   const mean = stats.map((c) => c.mean);
   const sd = stats.map((c) => c.sd);
   const data = choiceData({ mean, sd }, cols, sets, nT, values);
-  const m = fitChoice(data, ridge, 1e-3, start && start.weights.length === cols.length ? start : undefined, maxIter);
+  // A start of another width (fewer inputs) is ignored by fitChoice.
+  const m = fitChoice(data, ridge, 1e-3, start, maxIter);
   return { layer: { inputs: cols.map((c) => c.name), mean, sd, weights: m.weights, intercepts: m.intercepts }, data };
+}
+
+/** Fits a layer on to convergence from where it stopped, on the data it was fitted on. */
+function refitLayer(layer: LayerState, data: ChoiceData, ridge: number): LayerState {
+  const m = fitChoice(data, ridge, 1e-3, layer);
+  return { ...layer, weights: m.weights, intercepts: m.intercepts };
 }

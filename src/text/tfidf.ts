@@ -128,8 +128,9 @@ export class TfidfVectorizer {
     return { ids, remap };
   }
 
+  /** fit(docs), then the vectors of the same docs (in one pass, as fitVectorise). */
   fitTransform(docs: readonly (readonly string[])[]): SparseVector[] {
-    return this.fit(docs).transform(docs);
+    return this.fitVectorise(docs).vectors;
   }
 
   /** Vectors of `docs`; terms outside the learned vocabulary are ignored. */
