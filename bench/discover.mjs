@@ -26,7 +26,7 @@ for (const left of LEFT_OUT) {
   writeFileSync(join(out, 'template.txt'), brownTemplate(LEAVES.filter((c) => c !== left)));
   trellis(['template', 'set', '--study', study, join(out, 'template.txt')]);
   trellis(['add', '--study', study, ...files]);
-  trellis(['sheet', 'export', '--study', study, '--out', join(out, 'sheet.csv')]);
+  trellis(['sheet', 'export', '--study', study, '--out', join(out, 'sheet.csv'), '--force']);
   const rows = parse(readFileSync(join(out, 'sheet.csv'), 'utf8'), { bom: true, columns: true });
   const isPassage = (r) => wordCount(r.text) >= 20;
   for (const r of rows) r.themes = batch.has(r.transcript) && isPassage(r) && cats.get(r.transcript) !== left ? leafPath(cats.get(r.transcript)) : '';

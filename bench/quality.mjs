@@ -30,7 +30,7 @@ trellis(['template', 'set', '--study', study, join(out, 'template.txt')]);
 const add = trellis(['add', '--study', study, '--json', ...files]);
 console.log(`imported ${files.length} samples in ${add.seconds.toFixed(1)} s`);
 
-trellis(['sheet', 'export', '--study', study, '--out', join(out, 'sheet.csv')]);
+trellis(['sheet', 'export', '--study', study, '--out', join(out, 'sheet.csv'), '--force']);
 const rows = parse(readFileSync(join(out, 'sheet.csv'), 'utf8'), { bom: true, columns: true });
 const isPassage = (r) => wordCount(r.text) >= 20;
 for (const r of rows) r.themes = batch.has(r.transcript) && isPassage(r) ? leafPath(cats.get(r.transcript)) : '';

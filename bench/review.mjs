@@ -44,7 +44,7 @@ await trellis('init', study, '--window', '100000');
 writeFileSync(join(out, 'template.txt'), brownTemplate());
 await trellis('template', 'set', '--study', study, join(out, 'template.txt'));
 await trellis('add', '--study', study, ...files);
-await trellis('sheet', 'export', '--study', study, '--out', join(out, 'sheet.csv'));
+await trellis('sheet', 'export', '--study', study, '--out', join(out, 'sheet.csv'), '--force');
 const rows = parse(readFileSync(join(out, 'sheet.csv'), 'utf8'), { bom: true, columns: true });
 const isPassage = new Set(rows.filter((r) => wordCount(r.text) >= 20).map((r) => r.passage_id));
 for (const r of rows) r.themes = batch.has(r.transcript) && isPassage.has(r.passage_id) ? leafPath(cats.get(r.transcript)) : '';

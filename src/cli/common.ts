@@ -1,6 +1,7 @@
 import { Command, InvalidArgumentError } from 'commander';
 import { userInfo } from 'node:os';
 import { openStudy, type DB } from '../study/db.js';
+import { checkOutputPath, writeOutputFile } from '../study/files.js';
 
 export interface StudyOpts {
   study: string;
@@ -14,6 +15,26 @@ export function studyCommand(program: Command, name: string, description: string
     .description(description)
     .option('--study <dir>', 'the study folder', '.')
     .option('--json', 'machine-readable output on stdout');
+}
+
+export interface OutputOpts extends StudyOpts {
+  out: string;
+  force?: boolean;
+}
+
+/** Adds --force to a command that writes --out FILE. */
+export function forceOption(cmd: Command): Command {
+  return cmd.option('--force', 'overwrite the --out file if it exists');
+}
+
+/** Fails before any work when --out would hit the study itself, a folder, or an existing file. */
+export function checkOut(opts: OutputOpts): void {
+  checkOutputPath(opts.out, opts.study, opts.force);
+}
+
+/** Writes the --out file: whole or not at all, owner-only, never over the study. */
+export function writeOut(opts: OutputOpts, data: string): void {
+  writeOutputFile(opts.out, data, opts.study, opts.force);
 }
 
 /** Opens the study, runs `work`, and always closes the database. */

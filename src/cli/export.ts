@@ -1,20 +1,17 @@
 import type { Command } from 'commander';
-import { writeFileSync } from 'node:fs';
-import { stringify } from 'csv-stringify/sync';
 import { UserError } from '../errors.js';
-import { decisionLog } from '../study/decisions.js';
-import { codingsForExport, themeMatrix } from '../study/export.js';
+import { writeCsv } from '../sheet/csv.js';
+import { decisionLog, logColumns } from '../study/decisions.js';
+import { CODING_COLUMNS, codingsForExport, themeMatrix } from '../study/export.js';
 import { currentTemplate } from '../study/template.js';
 import { printOutline } from '../template/print.js';
-import { studyCommand, withStudy, type StudyOpts } from './common.js';
+import { checkOut, forceOption, studyCommand, withStudy, writeOut, type OutputOpts } from './common.js';
 import { say } from './output.js';
 
 const WHAT = ['codings', 'matrix', 'log', 'template'];
-const csv = (rows: Record<string, unknown>[] | unknown[][], header?: string[]) =>
-  '\ufeff' + stringify(rows as never, { header: !!header || !Array.isArray(rows[0]), columns: header, record_delimiter: '\r\n' });
 
 export function registerExport(program: Command): void {
-  studyCommand(program, 'export', 'export codings, the theme x transcript matrix, the decision log or the template')
+  forceOption(studyCommand(program, 'export', 'export codings, the theme x transcript matrix, the decision log or the template'))
     .argument('<what>', WHAT.join(', '))
     .requiredOption('--out <file>', 'the file to write')
     .option('--format <format>', 'csv or json (codings, log); the matrix is CSV, the template an outline', 'csv')
@@ -32,28 +29,29 @@ Examples:
   trellis export matrix --out matrix.csv
   trellis export template --out template-rev7.txt`,
     )
-    .action(async (what: string, opts: StudyOpts & { out: string; format: string }) => {
+    .action(async (what: string, opts: OutputOpts & { format: string }) => {
       if (!WHAT.includes(what)) throw new UserError(`export what? one of ${WHAT.join(', ')} (got "${what}")`);
       if (!['csv', 'json'].includes(opts.format)) throw new UserError(`--format is csv or json (got "${opts.format}")`);
+      checkOut(opts);
       const text = await withStudy(opts, (db) => {
         switch (what) {
           case 'codings': {
             const rows = codingsForExport(db);
-            return opts.format === 'json' ? JSON.stringify({ codings: rows }, null, 2) + '\n' : csv(rows as unknown as Record<string, unknown>[], rows.length ? undefined : ['passage_id', 'transcript', 'speaker', 'time', 'theme', 'coder', 'origin', 'coded_at', 'text']);
+            return opts.format === 'json' ? JSON.stringify({ codings: rows }, null, 2) + '\n' : writeCsv(CODING_COLUMNS, rows);
           }
           case 'matrix': {
             const m = themeMatrix(db);
-            return csv(m.rows.map((r) => [r.number, r.theme, ...r.counts]), ['number', 'theme', ...m.transcripts]);
+            return writeCsv(['number', 'theme', ...m.transcripts], m.rows.map((r) => [r.number, r.theme, ...r.counts]));
           }
           case 'log': {
             const rows = decisionLog(db);
-            return opts.format === 'json' ? JSON.stringify({ decisions: rows }, null, 2) + '\n' : csv(rows as unknown as Record<string, unknown>[]);
+            return opts.format === 'json' ? JSON.stringify({ decisions: rows }, null, 2) + '\n' : writeCsv(logColumns(rows), rows);
           }
           default:
             return printOutline(currentTemplate(db));
         }
       });
-      writeFileSync(opts.out, text);
+      writeOut(opts, text);
       if (opts.json) process.stdout.write(JSON.stringify({ out: opts.out, what }) + '\n');
       else say(`Wrote ${what} to ${opts.out}.`);
     });

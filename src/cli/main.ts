@@ -1,6 +1,7 @@
 import { Command, CommanderError } from 'commander';
-import { UserError } from '../errors.js';
+import { knownProblem } from '../study/files.js';
 import { registerAdd } from './add.js';
+import { registerCheck } from './check.js';
 import { registerInit } from './init.js';
 import { registerSheet } from './sheet.js';
 import { registerStatus } from './status.js';
@@ -65,6 +66,7 @@ ${CAUTIONS}`,
   registerExport(program);
   registerDiscover(program);
   registerReport(program);
+  registerCheck(program);
   return program;
 }
 
@@ -87,8 +89,9 @@ export async function main(argv: string[]): Promise<number> {
       // Help and version are "errors" to commander; a usage mistake is the user's.
       return e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.exitCode === 0 ? 0 : 1;
     }
-    if (e instanceof UserError) {
-      process.stderr.write(`trellis: ${e.describe()}\n`);
+    const known = knownProblem(e);
+    if (known) {
+      process.stderr.write(`trellis: ${known.describe()}\n`);
       return 1;
     }
     process.stderr.write(`trellis: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);

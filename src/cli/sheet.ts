@@ -1,11 +1,11 @@
 import type { Command } from 'commander';
-import { readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { UserError } from '../errors.js';
 import { decodeText } from '../ingest/decode.js';
 import { parseSheet, writeSheet } from '../sheet/sheet.js';
 import { importSheet, sheetRows } from '../study/sheet.js';
 import { requireTranscripts } from '../study/transcripts.js';
-import { collect, withStudy, type StudyOpts } from './common.js';
+import { checkOut, collect, forceOption, withStudy, writeOut, type OutputOpts, type StudyOpts } from './common.js';
 import { plural, printJson, say } from './output.js';
 
 export function registerSheet(program: Command): void {
@@ -20,8 +20,8 @@ e.g. "Workload > Staffing levels; Patient safety". A bare theme name is accepted
 is unique in the template. Import is all or nothing: any unknown theme or passage stops it.`,
     );
 
-  sheet
-    .command('export')
+  forceOption(sheet
+    .command('export'))
     .description('write a coding sheet (CSV, UTF-8) with one row a passage')
     .requiredOption('--out <file>', 'the CSV file to write')
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
@@ -29,12 +29,13 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     .option('--study <dir>', 'the study folder', '.')
     .option('--json', 'machine-readable output on stdout')
     .addHelpText('after', '\nExamples:\n  trellis sheet export --transcript t01 --transcript t02 --out batch1.csv\n  trellis sheet export --coder alex --out alex-codes.csv')
-    .action(async (opts: StudyOpts & { out: string; transcript?: string[]; coder?: string }) => {
+    .action(async (opts: OutputOpts & { transcript?: string[]; coder?: string }) => {
+      checkOut(opts);
       const rows = await withStudy(opts, (db) => {
         requireTranscripts(db, opts.transcript);
         return sheetRows(db, { transcripts: opts.transcript, coder: opts.coder });
       });
-      writeFileSync(opts.out, writeSheet(rows));
+      writeOut(opts, writeSheet(rows));
       if (opts.json) printJson({ out: opts.out, rows: rows.length });
       else say(`Wrote ${plural(rows.length, 'passage')} to ${opts.out}. Code the "themes" column, then: trellis sheet import ${opts.out} --coder NAME`);
     });

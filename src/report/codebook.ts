@@ -4,7 +4,7 @@
  * second coder's briefing. Markdown, self-contained HTML, or CSV for a spreadsheet.
  */
 
-import { stringify } from 'csv-stringify/sync';
+import { writeCsv } from '../sheet/csv.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, int, oneLine, plural, when } from './escape.js';
 import type { ReportData, ReportTheme } from './types.js';
@@ -181,9 +181,7 @@ function csv(d: ReportData, examples: number): string {
     }
     return row;
   });
-  // UTF-8 with BOM and CRLF, as spreadsheet programs expect; a cell that would be read as a
-  // formula (=, +, -, @) gets a leading apostrophe.
-  return stringify(rows, { header: true, columns, bom: true, record_delimiter: 'windows', escape_formulas: true });
+  return writeCsv(columns, rows);
 }
 
 /** The codebook in one of three formats; `examples` quotes per theme (default 2). */

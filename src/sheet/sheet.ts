@@ -1,6 +1,6 @@
 import { parse } from 'csv-parse/sync';
-import { stringify } from 'csv-stringify/sync';
 import { UserError } from '../errors.js';
+import { unguardCell, writeCsv } from './csv.js';
 import { splitPathList } from '../template/paths.js';
 
 /** The coding sheet: one row a passage, opened in a spreadsheet, coded, and imported back. */
@@ -26,25 +26,9 @@ export interface ImportedRow {
   themes: string[];
 }
 
-// A cell starting with one of these is read as a formula by spreadsheet programs; a leading
-// apostrophe keeps it text (common practice), and is removed again on import.
-const FORMULA_START = /^[=+\-@\t\r]/;
-
-function cell(v: string): string {
-  return FORMULA_START.test(v) ? `'${v}` : v;
-}
-
-function uncell(v: string): string {
-  return v.startsWith("'") && FORMULA_START.test(v.slice(1)) ? v.slice(1) : v;
-}
-
 /** CSV text: UTF-8 with BOM (so spreadsheet programs detect the encoding), CRLF, quoted where needed. */
 export function writeSheet(rows: SheetRow[]): string {
-  const body = stringify(
-    rows.map((r) => [r.passage_id, r.transcript, cell(r.speaker), r.role, r.time, cell(r.text), r.themes.join('; ')]),
-    { header: true, columns: [...SHEET_COLUMNS], record_delimiter: '\r\n', quoted_match: /[\n",;]/ },
-  );
-  return '\ufeff' + body;
+  return writeCsv(SHEET_COLUMNS, rows.map((r) => [r.passage_id, r.transcript, r.speaker, r.role, r.time, r.text, r.themes.join('; ')]));
 }
 
 /** Reads a coding sheet; a malformed file gives an error naming the line. */
@@ -64,9 +48,9 @@ export function parseSheet(text: string, file: string): ImportedRow[] {
   const hasText = cols.includes('text');
   return records.map(({ record }, i) => ({
     row: i + 2,
-    passageId: (record.passage_id ?? '').trim(),
-    text: hasText ? uncell(record.text ?? '') : null,
-    themes: [...new Set(splitPathList(record.themes ?? ''))],
+    passageId: unguardCell((record.passage_id ?? '').trim()),
+    text: hasText ? unguardCell(record.text ?? '') : null,
+    themes: [...new Set(splitPathList(unguardCell(record.themes ?? '')))],
   }));
 }
 

@@ -184,6 +184,11 @@ export function rejections(db: DB): { passageId: string; themeId: string }[] {
 }
 
 /** The whole log with theme paths beside the ids, for listing and export. */
+/** The decision log's columns as CSV exports write them (the table's, then the two theme paths). */
+export function logColumns(rows: readonly object[]): string[] {
+  return rows.length ? Object.keys(rows[0]!) : ['id', 'at', 'coder', 'action', 'suggestion_id', 'passage_id', 'transcript', 'theme_id', 'note', 'theme_path', 'chosen_path'];
+}
+
 export function decisionLog(db: DB): (DecisionRow & { theme_path: string; chosen_path: string })[] {
   const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
   const path = (id: string | null) => (id ? (paths.get(id) ?? id) : '');

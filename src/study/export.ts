@@ -15,6 +15,8 @@ export interface CodingExport {
   text: string;
 }
 
+export const CODING_COLUMNS = ['passage_id', 'transcript', 'speaker', 'time', 'theme', 'coder', 'origin', 'coded_at', 'text'] as const;
+
 /** Every current coding with its passage, for analysis elsewhere (a retired theme is named so). */
 export function codingsForExport(db: DB): CodingExport[] {
   const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));

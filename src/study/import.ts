@@ -6,7 +6,7 @@ import { findByPath } from '../template/paths.js';
 import type { TextAnalysis } from '../text/analysis.js';
 import { analyseMany } from '../text/pool.js';
 import { codingAdder } from './codings.js';
-import { inTransaction, settingsOf, type DB } from './db.js';
+import { settingsOf, type DB } from './db.js';
 import { currentRevision } from './template.js';
 import { deleteTranscript, findTranscript, transcriptWriter } from './transcripts.js';
 
@@ -46,16 +46,14 @@ export interface ImportReport {
 }
 
 /**
- * Imports transcripts in one transaction: every file goes in, or none does. Text analysis runs in
- * worker threads while earlier transcripts are being written.
+ * Which transcripts of `items` need writing (new, or changed with --replace); the unchanged ones
+ * go into the report. A name taken by a different transcript without --replace is an error.
  */
-export async function importTranscripts(db: DB, items: ImportItem[], opts: ImportOptions): Promise<ImportReport> {
-  const report: ImportReport = { added: [], unchanged: [], inlineCodings: 0, keptCodings: 0, droppedCodings: 0, words: 0, warnings: [] };
-  const todo: { t: Transcript; file: string; hash: string; replaces: number | null }[] = [];
+function plan(db: DB, items: ImportItem[], opts: ImportOptions, report: ImportReport): Planned[] {
+  const todo: Planned[] = [];
   const seen = new Map<string, string>();
   for (const item of items) {
     for (const t of item.transcripts) {
-      report.warnings.push(...t.warnings);
       const twin = seen.get(t.name);
       if (twin) throw new UserError(`two transcripts would both be named "${t.name}" (also from ${twin}); rename one file`, item.file);
       seen.set(t.name, item.file);
@@ -75,19 +73,50 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
       todo.push({ t, file: item.file, hash, replaces: old?.id ?? null });
     }
   }
-  if (!todo.length) return report;
+  return todo;
+}
 
-  const rev = currentRevision(db);
-  const { window } = settingsOf(db);
-  const interviewers = opts.interviewers ?? [];
+interface Planned {
+  t: Transcript;
+  file: string;
+  hash: string;
+  replaces: number | null;
+}
+
+/**
+ * Imports transcripts: every file goes in, or none does. The text is analysed first (in worker
+ * threads, the slow part) with the study unlocked; then one short write transaction re-checks the
+ * plan against the study as it is by then and stores everything, so a long import never holds up
+ * a review or a decision in another window.
+ */
+export async function importTranscripts(db: DB, items: ImportItem[], opts: ImportOptions): Promise<ImportReport> {
+  const first = plan(db, items, opts, emptyReport());
+  if (!first.length) {
+    const report = emptyReport();
+    plan(db, items, opts, report);
+    return withWarnings(report, items);
+  }
   const texts: string[] = [];
-  const firstTurn: number[] = [];
-  for (const { t } of todo) {
-    firstTurn.push(texts.length);
+  const firstTurn = new Map<Transcript, number>();
+  for (const { t } of first) {
+    firstTurn.set(t, texts.length);
     for (const turn of t.turns) texts.push(turn.text);
   }
+  const analyses = new Array<TextAnalysis>(texts.length);
+  const ends = first.map(({ t }) => firstTurn.get(t)! + t.turns.length);
+  let done = 0;
+  await analyseMany(texts, (i, a) => {
+    analyses[i] = a;
+    while (done < first.length && i + 1 >= ends[done]!) opts.onProgress?.(++done, first.length, first[done - 1]!.t.name);
+  });
+  while (done < first.length) opts.onProgress?.(++done, first.length, first[done - 1]!.t.name); // transcripts with no turns
 
-  return inTransaction(db, async () => {
+  return db.transaction(() => {
+    const report = emptyReport();
+    const todo = plan(db, items, opts, report); // what another command did meanwhile counts
+    const rev = currentRevision(db);
+    const { window } = settingsOf(db);
+    const interviewers = opts.interviewers ?? [];
     const write = transcriptWriter(db);
     const addCoding = codingAdder(db);
     const keep = db.prepare(
@@ -98,41 +127,48 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
     );
     // Suggestions made for the old text no longer apply.
     const dropSuggestions = db.prepare('DELETE FROM suggestions WHERE passage_id IN (SELECT id FROM passages WHERE transcript_id = ?)');
-    const analyses = new Array<TextAnalysis>(texts.length);
-    let next = 0; // next transcript to write
-    const flush = (upTo: number) => {
-      while (next < todo.length && upTo >= (firstTurn[next + 1] ?? texts.length)) {
-        const { t, file, hash, replaces } = todo[next]!;
-        const own = analyses.slice(firstTurn[next], firstTurn[next + 1] ?? texts.length);
-        const passages = segment(t, own, { window, roleOf: (s) => roleOf(s, interviewers) });
-        let kept: ReturnType<typeof keep.all> = [];
-        if (replaces !== null) {
-          kept = keep.all(replaces);
-          dropSuggestions.run(replaces);
-          deleteTranscript(db, replaces);
-        }
-        write(t, file, hash, passages);
-        for (const k of kept as { passage_id: string; text: string; theme_id: string; coder: string; origin: string; created_at: string; rev: number }[]) {
-          const r = restore.run(k.passage_id, k.theme_id, k.coder, k.origin, k.created_at, k.rev, k.passage_id, k.text);
-          if (r.changes) report.keptCodings++;
-          else report.droppedCodings++;
-        }
-        report.inlineCodings += writeInlineCodes(db, t, file, passages, rev, opts.coder, addCoding);
-        const participant = passages.filter((p) => p.role === 'participant').length;
-        const words = passages.reduce((n, p) => n + p.words, 0);
-        report.words += words;
-        report.added.push({ name: t.name, file, passages: passages.length, participant, interviewer: passages.length - participant, words, replaced: replaces !== null });
-        next++;
-        opts.onProgress?.(next, todo.length, t.name);
+    for (const { t, file, hash, replaces } of todo) {
+      const from = firstTurn.get(t)!; // every transcript to write was analysed: the plan can only shrink
+      const passages = segment(t, analyses.slice(from, from + t.turns.length), { window, roleOf: (s) => roleOf(s, interviewers) });
+      let kept: KeptCoding[] = [];
+      if (replaces !== null) {
+        kept = keep.all(replaces) as KeptCoding[];
+        dropSuggestions.run(replaces);
+        deleteTranscript(db, replaces);
       }
-    };
-    await analyseMany(texts, (i, a) => {
-      analyses[i] = a;
-      flush(i + 1);
-    });
-    flush(texts.length); // transcripts with no turns left
-    return report;
-  });
+      write(t, file, hash, passages);
+      for (const k of kept) {
+        const r = restore.run(k.passage_id, k.theme_id, k.coder, k.origin, k.created_at, k.rev, k.passage_id, k.text);
+        if (r.changes) report.keptCodings++;
+        else report.droppedCodings++;
+      }
+      report.inlineCodings += writeInlineCodes(db, t, file, passages, rev, opts.coder, addCoding);
+      const participant = passages.filter((p) => p.role === 'participant').length;
+      const words = passages.reduce((n, p) => n + p.words, 0);
+      report.words += words;
+      report.added.push({ name: t.name, file, passages: passages.length, participant, interviewer: passages.length - participant, words, replaced: replaces !== null });
+    }
+    return withWarnings(report, items);
+  })();
+}
+
+interface KeptCoding {
+  passage_id: string;
+  text: string;
+  theme_id: string;
+  coder: string;
+  origin: string;
+  created_at: string;
+  rev: number;
+}
+
+function emptyReport(): ImportReport {
+  return { added: [], unchanged: [], inlineCodings: 0, keptCodings: 0, droppedCodings: 0, words: 0, warnings: [] };
+}
+
+function withWarnings(report: ImportReport, items: ImportItem[]): ImportReport {
+  for (const item of items) for (const t of item.transcripts) report.warnings.push(...t.warnings);
+  return report;
 }
 
 function writeInlineCodes(

@@ -1,11 +1,12 @@
-import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { assignIds } from '../template/diff.js';
+import { UserError } from '../errors.js';
+import { assignIds, reviveRetired } from '../template/diff.js';
 import { parseOutlineOrThrow } from '../template/parse.js';
 import { printOutline } from '../template/print.js';
 import type { Change, Diagnostic, Revised, Template } from '../template/types.js';
 import { TEMPLATE_FILE, type DB } from './db.js';
-import { currentRevision, recordRevision, themeIdAllocator } from './template.js';
+import { writeFileAtomic } from './files.js';
+import { currentRevision, recordRevision, retiredPaths, themeIdAllocator } from './template.js';
 
 export interface RevisionResult {
   /** The new revision, or null when nothing changed. */
@@ -21,16 +22,21 @@ export interface RevisionResult {
  */
 export function setTemplate(db: DB, studyDir: string, text: string, file: string, author: string, reason?: string): RevisionResult {
   const { template: parsed, warnings } = parseOutlineOrThrow(text, file);
-  const prev = currentRevision(db);
+  if (!parsed.roots.length) {
+    // Recording it would retire every theme and cut every coding off its theme.
+    throw new UserError('the outline has no themes (only comments or blank lines): nothing recorded; write at least one theme, one a line', file);
+  }
   const result = db.transaction(() => {
-    const { template, changes } = assignIds(parsed, prev?.template ?? null, themeIdAllocator(db));
+    const prev = currentRevision(db);
+    const { template, changes } = reviveRetired(assignIds(parsed, prev?.template ?? null, themeIdAllocator(db)), retiredPaths(db));
     if (prev && changes.length === 0) {
-      writeFileSync(join(studyDir, TEMPLATE_FILE), text);
+      writeFileAtomic(join(studyDir, TEMPLATE_FILE), text);
       return { rev: null, changes, warnings, template };
     }
     const rev = recordRevision(db, { template, changes, outline: text, action: `set ${file}`, author, reason });
-    // Written last inside the transaction: if the file cannot be written, the revision rolls back.
-    writeFileSync(join(studyDir, TEMPLATE_FILE), text);
+    // Written last inside the transaction: if the file cannot be written, the revision rolls back,
+    // and the atomic write leaves the old template.txt whole.
+    writeFileAtomic(join(studyDir, TEMPLATE_FILE), text);
     return { rev, changes, warnings, template };
   })();
   return result;
@@ -50,7 +56,7 @@ export function reviseTemplate(
     const { template, changes } = op(prev?.template ?? { roots: [] }, themeIdAllocator(db));
     const outline = printOutline(template);
     const rev = recordRevision(db, { template, changes, outline, action, author, reason });
-    writeFileSync(join(studyDir, TEMPLATE_FILE), outline);
+    writeFileAtomic(join(studyDir, TEMPLATE_FILE), outline);
     return { rev, changes, warnings: [], template };
   })();
   return result;

@@ -1,3 +1,4 @@
+import { pathKey, walk } from '../template/paths.js';
 import type { Change, Template } from '../template/types.js';
 import type { DB } from './db.js';
 
@@ -43,6 +44,25 @@ export function revisionHistory(db: DB): Revision[] {
   return (db.prepare('SELECT * FROM revisions ORDER BY rev').all() as RevisionRow[]).map(toRevision);
 }
 
+/**
+ * Retired themes (not merged: a merged theme's codings moved on) by the path they had when they
+ * were retired, keyed by pathKey; the most recently retired wins a shared path.
+ */
+export function retiredPaths(db: DB): Map<string, string> {
+  const rows = db
+    .prepare('SELECT id, retired_rev FROM themes WHERE retired_rev IS NOT NULL AND merged_into IS NULL ORDER BY retired_rev')
+    .all() as { id: string; retired_rev: number }[];
+  const out = new Map<string, string>();
+  if (!rows.length) return out;
+  const before = db.prepare('SELECT tree FROM revisions WHERE rev < ? ORDER BY rev DESC LIMIT 1');
+  for (const r of rows) {
+    const row = before.get(r.retired_rev) as { tree: string } | undefined;
+    if (!row) continue;
+    for (const e of walk(JSON.parse(row.tree) as Template)) if (e.node.id === r.id) out.set(pathKey(e.path), r.id);
+  }
+  return out;
+}
+
 /** Theme ids are T1, T2, ... in order of creation, never reused. */
 export function themeIdAllocator(db: DB): () => string {
   const row = db.prepare("SELECT MAX(CAST(SUBSTR(id, 2) AS INTEGER)) AS n FROM themes WHERE id LIKE 'T%'").get() as {
@@ -81,6 +101,7 @@ export function recordRevision(db: DB, r: NewRevision): number {
   const add = db.prepare('INSERT OR IGNORE INTO themes (id, name, created_rev) VALUES (?, ?, ?)');
   const retire = db.prepare('UPDATE themes SET retired_rev = ? WHERE id = ? AND retired_rev IS NULL');
   const rename = db.prepare('UPDATE themes SET name = ? WHERE id = ?');
+  const revive = db.prepare('UPDATE themes SET retired_rev = NULL WHERE id = ?');
   const mergeTheme = db.prepare('UPDATE themes SET retired_rev = ?, merged_into = ? WHERE id = ?');
   // A coding re-pointed by a merge remembers the theme it was first given.
   const repoint = db.prepare(
@@ -105,6 +126,9 @@ export function recordRevision(db: DB, r: NewRevision): number {
         mergeTheme.run(rev, c.into, c.id);
         repoint.run(c.into, c.id, c.into);
         dropDup.run(now, c.id); // the passage already carried the target theme
+        break;
+      case 'revived':
+        revive.run(c.id);
         break;
       case 'renamed':
       case 'moved':

@@ -17,6 +17,8 @@ export function describeChange(c: Change): string {
       return `split    ${c.path} into ${c.into.join(', ')}`;
     case 'retired':
       return `retired  ${c.path}`;
+    case 'revived':
+      return `revived  ${c.path} (a retired theme: its codings return)`;
     case 'edited':
       return `edited   ${c.path} (${c.fields.join(', ')})`;
   }

@@ -14,7 +14,7 @@
  */
 
 import { nameKey } from './names.js';
-import { walk, type WalkEntry } from './paths.js';
+import { pathKey, walk, type WalkEntry } from './paths.js';
 import type { Change, EditableField, Template, ThemeNode } from './types.js';
 
 const ROOT = Symbol('top level');
@@ -141,6 +141,27 @@ export function assignIds(
     if (fields.length > 0) changes.push({ kind: 'edited', id, path: e.path, fields });
   }
   for (const o of old) if (!used.has(o.node.id)) changes.push({ kind: 'removed', id: o.node.id, path: o.path });
+  return { template, changes };
+}
+
+/**
+ * Themes the outline adds at the path a retired theme last had get that theme back (its id, so
+ * its codings return) instead of a fresh id. `retired` maps pathKey(path) to the retired id.
+ */
+export function reviveRetired(result: { template: Template; changes: Change[] }, retired: ReadonlyMap<string, string>): { template: Template; changes: Change[] } {
+  if (!retired.size) return result;
+  const template = structuredClone(result.template);
+  const inUse = new Set([...walk(template)].map((e) => e.node.id));
+  const revived = new Map<string, string>(); // fresh id -> retired id
+  for (const e of walk(template)) {
+    const old = retired.get(pathKey(e.path));
+    if (!old || inUse.has(old) || !result.changes.some((c) => c.kind === 'added' && c.id === e.node.id)) continue;
+    revived.set(e.node.id, old);
+    inUse.add(old);
+    e.node.id = old;
+  }
+  if (!revived.size) return result;
+  const changes = result.changes.map((c): Change => (c.kind === 'added' && revived.has(c.id) ? { kind: 'revived', id: revived.get(c.id)!, path: c.path } : c));
   return { template, changes };
 }
 

@@ -30,6 +30,7 @@ export type Change =
   | { kind: 'merged'; id: string; into: string; from: string; to: string }
   | { kind: 'split'; id: string; path: string; into: string[] }
   | { kind: 'retired'; id: string; path: string }
+  | { kind: 'revived'; id: string; path: string } // a retired theme's path came back: its codings return
   | { kind: 'edited'; id: string; path: string; fields: string[] };
 
 /** What every tree operation returns: a new template (the input is never touched) and its changes. */

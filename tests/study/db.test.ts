@@ -1,10 +1,12 @@
 import Database from 'better-sqlite3';
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/errors.js';
-import { createStudy, inTransaction, openStudy } from '../../src/study/db.js';
+import { readTranscriptFile } from '../../src/ingest/read.js';
+import { createStudy, openStudy } from '../../src/study/db.js';
+import { importTranscripts } from '../../src/study/import.js';
 import { SCHEMA_VERSION } from '../../src/study/schema.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'trellis-db-'));
@@ -30,9 +32,11 @@ describe('study.db', () => {
     expect(() => openStudy(tmp())).toThrow(UserError);
   });
 
-  it('migrates an empty database forward to the current schema', () => {
+  it('migrates a database of schema version 0 forward to the current schema', () => {
     const dir = tmp();
-    new Database(join(dir, 'study.db')).close(); // version 0: no tables
+    const raw = new Database(join(dir, 'study.db'));
+    raw.pragma('journal_mode = WAL'); // writes the file's header: an SQLite file with no tables
+    raw.close();
     const db = openStudy(dir);
     expect(db.pragma('user_version', { simple: true })).toBe(SCHEMA_VERSION);
     const tables = (db.prepare("SELECT name FROM sqlite_master WHERE type='table'").all() as { name: string }[]).map((t) => t.name);
@@ -40,16 +44,72 @@ describe('study.db', () => {
     db.close();
   });
 
-  it('rolls back everything an async transaction wrote when it throws', async () => {
+  it('rolls back everything a transaction wrote when it throws', () => {
     const db = createStudy(tmp());
-    await expect(
-      inTransaction(db, async () => {
+    expect(() =>
+      db.transaction(() => {
         db.prepare("INSERT INTO meta (key, value) VALUES ('x', '1')").run();
-        await new Promise((r) => setTimeout(r, 5));
         throw new UserError('stop');
-      }),
-    ).rejects.toThrow('stop');
+      })(),
+    ).toThrow('stop');
     expect(db.prepare("SELECT * FROM meta WHERE key = 'x'").get()).toBeUndefined();
     db.close();
+  });
+
+  it('a writer that meets another write waits, says so, and gives a clear error when it cannot get in', () => {
+    const dir = tmp();
+    createStudy(dir).close();
+    const holder = openStudy(dir);
+    holder.exec('BEGIN IMMEDIATE');
+    const waiting = openStudy(dir);
+    const said: string[] = [];
+    const write = process.stderr.write;
+    process.env.TRELLIS_LOCK_WAIT = '0.2';
+    process.stderr.write = ((chunk: string) => (said.push(String(chunk)), true)) as typeof process.stderr.write;
+    try {
+      const t0 = Date.now();
+      expect(() => waiting.transaction(() => waiting.prepare("INSERT INTO meta (key, value) VALUES ('y', '1')").run())()).toThrow(
+        /the study is busy: another trellis command .* kept it locked for 0.2 s; nothing was changed/,
+      );
+      expect(Date.now() - t0).toBeGreaterThanOrEqual(150); // it did wait
+      expect(said.join('')).toMatch(/another trellis command is writing to this study; waiting up to 0.2 s/);
+    } finally {
+      process.stderr.write = write;
+      delete process.env.TRELLIS_LOCK_WAIT;
+    }
+    holder.exec('COMMIT');
+    // Once the other write is done, the same transaction goes through.
+    waiting.transaction(() => waiting.prepare("INSERT INTO meta (key, value) VALUES ('y', '1')").run())();
+    expect(holder.prepare("SELECT value FROM meta WHERE key = 'y'").get()).toEqual({ value: '1' });
+    holder.close();
+    waiting.close();
+  });
+
+  it('an import leaves the study unlocked while it analyses the text', async () => {
+    const dir = tmp();
+    createStudy(dir).close();
+    const db = openStudy(dir);
+    const other = openStudy(dir);
+    other.pragma('busy_timeout = 0'); // any lock held by the import fails this at once
+    const text = Array.from({ length: 40 }, (_, i) => `Nadia: Turn ${i} about the tablets and the handover sheet.\n\nInterviewer: And then?\n`).join('\n');
+    const items = [];
+    for (const name of ['a', 'b', 'c']) {
+      writeFileSync(join(dir, `${name}.txt`), text.replaceAll('Turn', `Turn of ${name}`));
+      items.push({ file: `${name}.txt`, ...(await readTranscriptFile(join(dir, `${name}.txt`))) });
+    }
+    let wrote = 0;
+    await importTranscripts(db, items, {
+      coder: 'tester',
+      onProgress: (done) => {
+        // Called while the analysis runs: another command can write meanwhile.
+        other.prepare('INSERT OR REPLACE INTO meta (key, value) VALUES (?, ?)').run(`during-${done}`, '1');
+        wrote++;
+      },
+    });
+    expect(wrote).toBe(3);
+    expect((db.prepare('SELECT COUNT(*) AS n FROM transcripts').get() as { n: number }).n).toBe(3);
+    expect((db.prepare("SELECT COUNT(*) AS n FROM meta WHERE key LIKE 'during-%'").get() as { n: number }).n).toBe(3);
+    db.close();
+    other.close();
   });
 });
