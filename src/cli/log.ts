@@ -5,7 +5,7 @@ import { decisionLog, logColumns } from '../study/decisions.js';
 import { currentTemplate } from '../study/template.js';
 import { checkOut, forceOption, studyCommand, withStudy, writeOut, type StudyOpts } from './common.js';
 import { describeDecision } from './decide.js';
-import { printJson, say } from './output.js';
+import { plain, printJson, say } from './output.js';
 
 export function registerLog(program: Command): void {
   forceOption(studyCommand(program, 'log', 'the decision log: every accept, reject, re-code, defer and undo (the audit trail)'))
@@ -28,7 +28,7 @@ export function registerLog(program: Command): void {
           writeOut(out, text);
           if (!opts.json) say(`Wrote ${rows.length} decisions to ${opts.out}.`);
         } else if (format === 'json') printJson({ decisions: rows });
-        else process.stdout.write(rows.length ? text : 'No decisions yet.\n');
+        else process.stdout.write(rows.length ? plain(text) : 'No decisions yet.\n');
       });
     });
 }

@@ -1,5 +1,6 @@
 import { Command, CommanderError } from 'commander';
 import { knownProblem } from '../study/files.js';
+import { plain } from './output.js';
 import { registerAdd } from './add.js';
 import { registerCheck } from './check.js';
 import { registerInit } from './init.js';
@@ -91,7 +92,7 @@ export async function main(argv: string[]): Promise<number> {
     }
     const known = knownProblem(e);
     if (known) {
-      process.stderr.write(`trellis: ${known.describe()}\n`);
+      process.stderr.write(`trellis: ${plain(known.describe())}\n`);
       return 1;
     }
     process.stderr.write(`trellis: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);

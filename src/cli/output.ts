@@ -1,17 +1,41 @@
 /** Printing helpers shared by the commands: human text by default, JSON for scripts. */
 
+/**
+ * Terminal control characters (escape sequences that clear the screen, plant hyperlinks or move
+ * the cursor), other C0/C1 controls and bidirectional overrides. Text from transcripts and files
+ * is shown, never obeyed: each becomes U+FFFD, one code unit for one, so offsets into the text
+ * (term marks) stay right. Tab and newline stay.
+ */
+const CONTROL = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f\u202a-\u202e\u2066-\u2069]/g;
+
+export function plain(text: string): string {
+  return text.replace(CONTROL, '\ufffd');
+}
+
+/** `plain` through every string of a value (arrays, plain objects, maps), for screen models. */
+export function plainDeep<T>(value: T): T {
+  if (typeof value === 'string') return plain(value) as T;
+  if (Array.isArray(value)) return value.map(plainDeep) as T;
+  if (value instanceof Map) return new Map([...value].map(([k, v]) => [plainDeep(k), plainDeep(v)])) as T;
+  if (value && typeof value === 'object' && Object.getPrototypeOf(value) === Object.prototype) {
+    return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, plainDeep(v)])) as T;
+  }
+  return value;
+}
+
 /** JSON on stdout, indented for reading (bulk output streams compact JSON: printJsonStream). */
 export function printJson(value: unknown): void {
   process.stdout.write(JSON.stringify(value, null, 2) + '\n');
 }
 
+/** A line of human-readable output; anything from the study is shown as text, never obeyed. */
 export function say(line = ''): void {
-  process.stdout.write(line + '\n');
+  process.stdout.write(plain(line) + '\n');
 }
 
 /** Notices go to stderr so that --json output on stdout stays machine-readable. */
 export function warn(line: string): void {
-  process.stderr.write(`warning: ${line}\n`);
+  process.stderr.write(`warning: ${plain(line)}\n`);
 }
 
 /** A plain-text table: columns padded, numbers right-aligned. Readable without colour. */

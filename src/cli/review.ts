@@ -28,6 +28,7 @@ import { collect, studyCommand, type StudyOpts } from './common.js';
 import { coderOf, describeDecision } from './decide.js';
 import { useColour } from './marks.js';
 import type { Snippets } from './reasons.js';
+import { plain, plainDeep } from './output.js';
 import { decodeKeys, type Key } from './review-keys.js';
 import { MAX_MATCHES, renderScreen, type Mode, type ScreenModel, type Showing, type Style } from './review-screen.js';
 import { matchThemes, type ThemeEntry } from './review-search.js';
@@ -145,7 +146,7 @@ class Session {
       get: (id) => {
         if (!cache.has(id)) {
           const p = getPassage(db, id);
-          cache.set(id, p ? { transcript: p.transcript, text: p.text } : undefined);
+          cache.set(id, p ? { transcript: plain(p.transcript), text: plain(p.text) } : undefined);
         }
         return cache.get(id);
       },
@@ -235,7 +236,8 @@ class Session {
       matches: this.matches(),
       snippets: this.snippets,
     };
-    const screen = renderScreen(m, this.style());
+    // Passage text, names and reasons come from files: shown as text, never as terminal commands.
+    const screen = renderScreen({ ...plainDeep(m), snippets: this.snippets }, this.style());
     // Clear and draw in one write; a dumb terminal gets the screens one after another.
     process.stdout.write(this.look.dumb ? '\n\n' + screen + '\n' : '\x1b[H\x1b[2J' + screen);
   }

@@ -20,6 +20,8 @@ import { palettePng } from './png.js';
 
 const CHROMIUM = '/usr/bin/chromium';
 const present = existsSync(CHROMIUM);
+// CI installs Debian's chromium (.ci/run): there a missing browser is a failure, not a skip.
+if (!present && process.env.CI) throw new Error(`${CHROMIUM} is missing: the browser checks of the report must run in CI (apt-get install chromium)`);
 if (!present) console.warn(`Skipping the browser checks of the report: ${CHROMIUM} is not installed (apt-get install chromium).`);
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
