@@ -1,9 +1,10 @@
 import type { Command } from 'commander';
 import { statSync } from 'node:fs';
+import { DEFAULT_MAX_MB } from '../ingest/limits.js';
 import { readTranscriptFile } from '../ingest/read.js';
 import { warmUp } from '../text/pool.js';
 import { importTranscripts, type ImportItem } from '../study/import.js';
-import { collect, defaultCoder, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { collect, defaultCoder, positiveInt, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table, warn } from './output.js';
 import { progressBar } from './progress.js';
 
@@ -11,6 +12,7 @@ interface AddOpts extends StudyOpts {
   replace?: boolean;
   interviewer?: string[];
   coder?: string;
+  maxSize: number;
   idColumn?: string;
   textColumn?: string;
   questionColumn?: string;
@@ -22,6 +24,7 @@ export function registerAdd(program: Command): void {
     .option('--replace', 'replace a transcript of the same name whose file has changed')
     .option('--interviewer <name>', 'a speaker label that is the interviewer (repeatable)', collect)
     .option('--coder <name>', 'who wrote the inline {theme: ...} codes in these files', defaultCoder())
+    .option('--max-size <MB>', `largest file (or expanded .docx) to read, in megabytes`, positiveInt('--max-size'), DEFAULT_MAX_MB)
     .option('--id-column <name>', 'survey .csv: the respondent id column')
     .option('--text-column <name>', 'survey .csv: the answer text column')
     .option('--question-column <name>', 'survey .csv: the question column')
@@ -45,6 +48,7 @@ Examples:
       const readBar = progressBar(files.length, 'reading  ');
       for (const [i, file] of files.entries()) {
         const { transcripts, hash } = await readTranscriptFile(file, {
+          maxMb: opts.maxSize,
           idColumn: opts.idColumn,
           textColumn: opts.textColumn,
           questionColumn: opts.questionColumn,

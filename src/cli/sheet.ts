@@ -1,7 +1,6 @@
 import type { Command } from 'commander';
-import { readFileSync } from 'node:fs';
-import { UserError } from '../errors.js';
 import { decodeText } from '../ingest/decode.js';
+import { readInputFile } from '../ingest/limits.js';
 import { parseSheet, writeSheet } from '../sheet/sheet.js';
 import { importSheet, sheetRows } from '../study/sheet.js';
 import { requireTranscripts } from '../study/transcripts.js';
@@ -48,12 +47,7 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     .option('--json', 'machine-readable output on stdout')
     .addHelpText('after', '\nExample:\n  trellis sheet import batch1.csv --coder alex')
     .action(async (file: string, opts: StudyOpts & { coder: string }) => {
-      let bytes: Buffer;
-      try {
-        bytes = readFileSync(file);
-      } catch {
-        throw new UserError('cannot read the file', file);
-      }
+      const bytes = readInputFile(file);
       const rows = parseSheet(decodeText(bytes, file).text, file);
       const report = await withStudy(opts, (db) => importSheet(db, rows, file, opts.coder));
       if (opts.json) printJson(report);

@@ -1,12 +1,12 @@
 import type { Command } from 'commander';
-import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { decodeText } from '../ingest/decode.js';
+import { readInputFile } from '../ingest/limits.js';
 import { addTheme, mergeThemes, moveTheme, renameTheme, retireTheme, splitTheme } from '../template/ops.js';
 import { findByPath, splitPathList, walk } from '../template/paths.js';
 import { describeChange } from '../template/describe.js';
-import type { Revised, Template } from '../template/types.js';
+import type { Revised, Template, ThemeNode } from '../template/types.js';
 import { themeCounts } from '../study/status.js';
 import { reviseTemplate, setTemplate, type RevisionResult } from '../study/revise.js';
 import { currentRevision, revisionHistory } from '../study/template.js';
@@ -69,12 +69,7 @@ Examples:
     .option('--reason <text>', 'why: kept in the revision history')
     .option('--coder <name>', 'who made the change', defaultCoder())
     .action(async (file: string, opts: Opts) => {
-      let bytes: Buffer;
-      try {
-        bytes = readFileSync(file);
-      } catch {
-        throw new UserError('cannot read the file', file);
-      }
+      const bytes = readInputFile(file);
       const text = decodeText(bytes, file).text;
       const r = await withStudy(opts, (db) => setTemplate(db, resolve(opts.study), text, file, opts.coder!, opts.reason));
       report(r, opts.json);
@@ -89,8 +84,13 @@ Examples:
       }
       const counts = new Map(themeCounts(db, rev.template).map((c) => [c.id, c]));
       if (opts.json) {
-        const tree = (nodes: Template['roots']): unknown[] =>
-          nodes.map((n) => ({
+        // Built by a walk, not recursion: depth is unlimited.
+        const themes: unknown[] = [];
+        const kids = new Map<ThemeNode, unknown[]>();
+        for (const { node: n, parent } of walk(rev.template)) {
+          const children: unknown[] = [];
+          kids.set(n, children);
+          (parent ? kids.get(parent)! : themes).push({
             id: n.id,
             name: n.name,
             apriori: n.apriori,
@@ -100,9 +100,10 @@ Examples:
             seeds: n.seeds,
             passages: counts.get(n.id)?.direct ?? 0,
             passages_with_subthemes: counts.get(n.id)?.total ?? 0,
-            children: tree(n.children),
-          }));
-        return printJson({ revision: rev.rev, themes: tree(rev.template.roots) });
+            children,
+          });
+        }
+        return printJson({ revision: rev.rev, themes });
       }
       say(`Template revision ${rev.rev} (${rev.created_at.slice(0, 16).replace('T', ' ')}, ${rev.action})`);
       for (const e of walk(rev.template)) {

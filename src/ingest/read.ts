@@ -1,11 +1,12 @@
 /** Entry point: a transcript file (or its bytes) to Transcript[] in the one shape all readers share. */
 import { createHash } from 'node:crypto';
-import { readFile } from 'node:fs/promises';
+import { readFile, stat } from 'node:fs/promises';
 import { extname } from 'node:path';
 import { UserError } from '../errors.js';
 import { parseCsv } from './csv.js';
 import { decodeText } from './decode.js';
 import { docxText } from './docx.js';
+import { DEFAULT_MAX_MB, tooLarge } from './limits.js';
 import { transcriptName } from './names.js';
 import { parseSrt } from './srt.js';
 import { parseText } from './text.js';
@@ -13,6 +14,8 @@ import type { SourceFormat, Transcript } from './types.js';
 import { parseVtt } from './vtt.js';
 
 export interface ReadOptions {
+  /** Largest file (and expanded .docx) accepted, in megabytes; DEFAULT_MAX_MB when absent. */
+  maxMb?: number;
   /** CSV column names (override the guess) */
   idColumn?: string;
   textColumn?: string;
@@ -49,8 +52,12 @@ export async function readTranscriptFile(path: string, opts?: ReadOptions): Prom
   formatOf(path);
   let bytes: Buffer;
   try {
+    const size = (await stat(path)).size;
+    const max = maxBytes(opts);
+    if (size > max) throw tooLarge(size, max, path);
     bytes = await readFile(path);
   } catch (e) {
+    if (e instanceof UserError) throw e;
     const code = (e as NodeJS.ErrnoException).code;
     const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'is a folder, not a file' : code === 'EACCES' ? 'permission denied' : 'cannot be read';
     throw new UserError(why, path);
@@ -59,10 +66,14 @@ export async function readTranscriptFile(path: string, opts?: ReadOptions): Prom
   return { transcripts: await readTranscriptBytes(bytes, path, opts), hash };
 }
 
+function maxBytes(opts: ReadOptions = {}): number {
+  return (opts.maxMb ?? DEFAULT_MAX_MB) * 1024 * 1024;
+}
+
 export async function readTranscriptBytes(bytes: Buffer, fileName: string, opts: ReadOptions = {}): Promise<Transcript[]> {
   const format = formatOf(fileName);
   if (format === 'docx') {
-    const source = await docxText(bytes, fileName);
+    const source = await docxText(bytes, fileName, maxBytes(opts));
     return [textTranscript(source, 'docx', fileName, [])];
   }
   const { text, warnings } = decodeText(bytes, fileName);

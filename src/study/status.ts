@@ -1,4 +1,5 @@
 import { countThemes } from '../template/number.js';
+import { walk } from '../template/paths.js';
 import type { Template } from '../template/types.js';
 import type { DB } from './db.js';
 import { currentRevision } from './template.js';
@@ -72,15 +73,19 @@ export function themeCounts(db: DB, t: Template): ThemeCount[] {
     if (!s) byTheme.set(r.theme_id, (s = new Set()));
     s.add(r.passage_id);
   }
-  const out: ThemeCount[] = [];
-  const visit = (node: Template['roots'][number]): Set<string> => {
+  // Sub-themes before their parents (the walk backwards), so each parent gathers finished sets.
+  const entries = [...walk(t)];
+  const out: ThemeCount[] = entries.map((e) => ({ id: e.node.id, direct: byTheme.get(e.node.id)?.size ?? 0, total: 0 }));
+  const gathered = new Map<string, Set<string>>();
+  for (let i = entries.length - 1; i >= 0; i--) {
+    const node = entries[i]!.node;
     const all = new Set(byTheme.get(node.id) ?? []);
-    const slot = out.length;
-    out.push({ id: node.id, direct: all.size, total: 0 });
-    for (const c of node.children) for (const pid of visit(c)) all.add(pid);
-    out[slot]!.total = all.size;
-    return all;
-  };
-  t.roots.forEach(visit);
+    for (const c of node.children) {
+      for (const pid of gathered.get(c.id)!) all.add(pid);
+      gathered.delete(c.id);
+    }
+    gathered.set(node.id, all);
+    out[i]!.total = all.size;
+  }
   return out;
 }

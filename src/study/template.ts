@@ -1,4 +1,4 @@
-import { pathKey, walk } from '../template/paths.js';
+import { flattenTemplate, pathKey, unflattenTemplate, walk, type FlatTheme } from '../template/paths.js';
 import type { Change, Template } from '../template/types.js';
 import type { DB } from './db.js';
 
@@ -26,8 +26,21 @@ interface RevisionRow {
 
 const EMPTY: Template = { roots: [] };
 
+/**
+ * The tree is stored as a flat list (a theme and its parent's position): nested JSON would overflow
+ * the stack on very deep templates. Revisions stored nested by older versions still read.
+ */
+function encodeTree(t: Template): string {
+  return JSON.stringify({ flat: flattenTemplate(t) });
+}
+
+function decodeTree(text: string): Template {
+  const v = JSON.parse(text) as Template | { flat: FlatTheme[] };
+  return 'flat' in v ? unflattenTemplate(v.flat) : v;
+}
+
 function toRevision(r: RevisionRow): Revision {
-  return { ...r, template: JSON.parse(r.tree) as Template, changes: JSON.parse(r.changes) as Change[] };
+  return { ...r, template: decodeTree(r.tree), changes: JSON.parse(r.changes) as Change[] };
 }
 
 /** The current revision, or null before the first `template set`. */
@@ -58,7 +71,7 @@ export function retiredPaths(db: DB): Map<string, string> {
   for (const r of rows) {
     const row = before.get(r.retired_rev) as { tree: string } | undefined;
     if (!row) continue;
-    for (const e of walk(JSON.parse(row.tree) as Template)) if (e.node.id === r.id) out.set(pathKey(e.path), r.id);
+    for (const e of walk(decodeTree(row.tree))) if (e.node.id === r.id) out.set(pathKey(e.path), r.id);
   }
   return out;
 }
@@ -91,12 +104,10 @@ export function recordRevision(db: DB, r: NewRevision): number {
   const rev = Number(
     db
       .prepare('INSERT INTO revisions (created_at, author, action, reason, outline, tree, changes) VALUES (?, ?, ?, ?, ?, ?, ?)')
-      .run(now, r.author, r.action, r.reason ?? null, r.outline, JSON.stringify(r.template), JSON.stringify(r.changes))
+      .run(now, r.author, r.action, r.reason ?? null, r.outline, encodeTree(r.template), JSON.stringify(r.changes))
       .lastInsertRowid,
   );
-  const names = new Map<string, string>();
-  const collect = (nodes: Template['roots']) => nodes.forEach((n) => (names.set(n.id, n.name), collect(n.children)));
-  collect(r.template.roots);
+  const names = new Map([...walk(r.template)].map((e) => [e.node.id, e.node.name]));
 
   const add = db.prepare('INSERT OR IGNORE INTO themes (id, name, created_rev) VALUES (?, ?, ?)');
   const retire = db.prepare('UPDATE themes SET retired_rev = ? WHERE id = ? AND retired_rev IS NULL');

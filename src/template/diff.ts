@@ -14,7 +14,7 @@
  */
 
 import { nameKey } from './names.js';
-import { pathKey, walk, type WalkEntry } from './paths.js';
+import { cloneTemplate, pathKey, walk, type WalkEntry } from './paths.js';
 import type { Change, EditableField, Template, ThemeNode } from './types.js';
 
 const ROOT = Symbol('top level');
@@ -25,7 +25,7 @@ export function assignIds(
   prev: Template | null,
   newId: () => string,
 ): { template: Template; changes: Change[] } {
-  const template = structuredClone(fresh);
+  const template = cloneTemplate(fresh);
   const next = [...walk(template)];
   const old = prev ? [...walk(prev)] : [];
   const oldById = new Map(old.map((e) => [e.node.id, e]));
@@ -150,7 +150,7 @@ export function assignIds(
  */
 export function reviveRetired(result: { template: Template; changes: Change[] }, retired: ReadonlyMap<string, string>): { template: Template; changes: Change[] } {
   if (!retired.size) return result;
-  const template = structuredClone(result.template);
+  const template = cloneTemplate(result.template);
   const inUse = new Set([...walk(template)].map((e) => e.node.id));
   const revived = new Map<string, string>(); // fresh id -> retired id
   for (const e of walk(template)) {

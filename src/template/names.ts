@@ -23,8 +23,19 @@ const APRIORI_END = /\[\s*a\s+priori\s*\]$/i;
  * separators of theme paths (" > " between levels, ";" between paths in a coding sheet) and the
  * marks of the outline format, so that every name survives printing and parsing again.
  */
+/** Longest theme name accepted: a name is a label; detail belongs in the definition. */
+export const MAX_NAME = 200;
+
+/** Characters that show nothing: format controls, separators, fillers that render blank. */
+const INVISIBLE = /^[\p{Cf}\p{Z}\p{Cc}\u115f\u1160\u3164\uffa0\u2800]*$/u;
+
 export function nameProblem(name: string): string | null {
   if (name === '') return 'empty theme name';
+  if (INVISIBLE.test(name)) return 'theme name has no visible characters';
+  if (/\p{Cc}/u.test(name)) return `theme name "${name.replace(/\p{Cc}/gu, '?')}" contains control characters`;
+  if ([...name].length > MAX_NAME) {
+    return `theme name "${[...name].slice(0, 40).join('')}…" is ${[...name].length} characters long; keep it to ${MAX_NAME} (put detail in its definition)`;
+  }
   if (/\s>\s/.test(name)) {
     return `theme name "${name}" contains " > ", which separates the levels of a theme path`;
   }

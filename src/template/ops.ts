@@ -7,7 +7,7 @@
 
 import { UserError } from '../errors.js';
 import { PATH_SEP, checkName, cleanName, findClash, nameKey, placeLabel } from './names.js';
-import { locate, walk, type WalkEntry } from './paths.js';
+import { cloneTemplate, locate, walk, type WalkEntry } from './paths.js';
 import type { Change, Revised, Template, ThemeNode } from './types.js';
 
 export interface NewThemeOptions {
@@ -21,7 +21,7 @@ export interface NewThemeOptions {
 }
 
 function copy(t: Template): Template {
-  return structuredClone(t);
+  return cloneTemplate(t);
 }
 
 function siblingsOf(t: Template, e: WalkEntry): ThemeNode[] {

@@ -43,6 +43,37 @@ export function* walk(template: Template): Generator<WalkEntry> {
   }
 }
 
+/** A deep copy of a template, without recursion: depth is unlimited. */
+export function cloneTemplate(t: Template): Template {
+  return unflattenTemplate(flattenTemplate(t));
+}
+
+/** A theme without its sub-themes, and the position of its parent in the flat list (-1: top level). */
+export type FlatTheme = Omit<ThemeNode, 'children'> & { parent: number };
+
+/** The tree as a list in document order: a parent before its sub-themes. */
+export function flattenTemplate(t: Template): FlatTheme[] {
+  const at = new Map<ThemeNode, number>();
+  const out: FlatTheme[] = [];
+  for (const e of walk(t)) {
+    const { children: _children, ...rest } = e.node;
+    at.set(e.node, out.length);
+    out.push({ ...rest, seeds: [...rest.seeds], parent: e.parent ? at.get(e.parent)! : -1 });
+  }
+  return out;
+}
+
+export function unflattenTemplate(flat: readonly FlatTheme[]): Template {
+  const nodes: ThemeNode[] = [];
+  const roots: ThemeNode[] = [];
+  for (const { parent, ...rest } of flat) {
+    const node: ThemeNode = { ...rest, seeds: [...rest.seeds], children: [] };
+    nodes.push(node);
+    (parent < 0 ? roots : nodes[parent]!.children).push(node);
+  }
+  return { roots };
+}
+
 /** The walk entry of the theme with this id; UserError when there is none. */
 export function locate(template: Template, id: string): WalkEntry {
   for (const e of walk(template)) if (e.node.id === id) return e;
@@ -105,7 +136,9 @@ export function themeFinder(template: Template): ThemeFinder {
   const keyed = [...walk(template)].map((e) => ({ e, key: pathKey(e.path), name: nameKey(e.node.name) }));
   type K = (typeof keyed)[number];
   const byPath = new Map<string, K[]>();
-  const byEnding = new Map<string, K[]>(); // every proper ending of every path
+  // By last name: a path's endings are found among the themes of that name (indexing every ending
+  // of every path would grow with the cube of the depth).
+  const byName = new Map<string, K[]>();
   const add = (m: Map<string, K[]>, key: string, k: K) => {
     const list = m.get(key);
     if (list) list.push(k);
@@ -113,16 +146,20 @@ export function themeFinder(template: Template): ThemeFinder {
   };
   for (const k of keyed) {
     add(byPath, k.key, k);
-    const parts = k.key.split(PATH_SEP);
-    for (let i = 1; i < parts.length; i++) add(byEnding, parts.slice(i).join(PATH_SEP), k);
+    add(byName, k.name, k);
   }
+  const endingIn = (q: string): K[] => {
+    const cut = q.lastIndexOf(PATH_SEP);
+    const last = cut < 0 ? q : q.slice(cut + PATH_SEP.length);
+    return (byName.get(last) ?? []).filter((k) => k.key.endsWith(PATH_SEP + q));
+  };
 
   return (pathOrName, where = {}) => {
     const q = pathKey(pathOrName);
     if (q === '') throw new UserError('empty theme path', where.file, where.line);
     const exact = byPath.get(q) ?? [];
     if (exact.length === 1) return exact[0]!.e.node;
-    const ending = exact.length > 1 ? exact : (byEnding.get(q) ?? []);
+    const ending = exact.length > 1 ? exact : endingIn(q);
     if (ending.length === 1) return ending[0]!.e.node;
     if (ending.length > 1) {
       const paths = ending.map((k) => k.e.path);

@@ -18,6 +18,7 @@ export function trellis(args: string[], cwd: string, env: Record<string, string>
   const r = spawnSync(process.execPath, [BIN, ...args], {
     cwd,
     encoding: 'utf8',
+    maxBuffer: 256 * 1024 * 1024,
     env: { ...process.env, TRELLIS_CODER: 'tester', ...env },
   });
   return { status: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
