@@ -92,7 +92,7 @@ console.log('interviews, most novel first (the later interviews talk about infor
 await trellis('discover', '--study', rel(study));
 await trellis('triage', '--study', rel(study));
 
-await trellis('report', '--study', rel(study), '--out', rel(join(study, 'report.html')), '--title', 'Calderbrook General: the e-handover study (invented demo)');
+await trellis('report', '--study', rel(study), '--out', rel(join(study, 'report.html')), '--title', 'Vellmoor General: the e-handover study (invented demo)');
 await trellis('codebook', '--study', rel(study), '--out', rel(join(study, 'codebook.md')));
 console.log(`\nReport:   ${join(study, 'report.html')}`);
 console.log(`Codebook: ${join(study, 'codebook.md')}`);

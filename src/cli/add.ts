@@ -38,7 +38,7 @@ speaker labels is split on blank lines, each paragraph a participant passage.
 
 Examples:
   trellis add interviews/*.txt interviews/*.docx
-  trellis add focus-group.vtt --interviewer "Dr Shah"
+  trellis add focus-group.vtt --interviewer Asha
   trellis add survey.csv --id-column resp --text-column q3_answer`,
     )
     .action(async (files: string[], opts: AddOpts) => {

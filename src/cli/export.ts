@@ -1,5 +1,6 @@
 import type { Command } from 'commander';
 import { UserError } from '../errors.js';
+import { DATA_CAUTION } from '../report/cautions.js';
 import { writeCsv } from '../sheet/csv.js';
 import { decisionLog, logColumns } from '../study/decisions.js';
 import { CODING_COLUMNS, codingsForExport, themeMatrix } from '../study/export.js';
@@ -37,15 +38,15 @@ Examples:
         switch (what) {
           case 'codings': {
             const rows = codingsForExport(db);
-            return opts.format === 'json' ? JSON.stringify({ codings: rows }, null, 2) + '\n' : writeCsv(CODING_COLUMNS, rows);
+            return opts.format === 'json' ? JSON.stringify({ caution: DATA_CAUTION, codings: rows }, null, 2) + '\n' : writeCsv(CODING_COLUMNS, rows, DATA_CAUTION);
           }
           case 'matrix': {
             const m = themeMatrix(db);
-            return writeCsv(['number', 'theme', ...m.transcripts], m.rows.map((r) => [r.number, r.theme, ...r.counts]));
+            return writeCsv(['number', 'theme', ...m.transcripts], m.rows.map((r) => [r.number, r.theme, ...r.counts]), DATA_CAUTION);
           }
           case 'log': {
             const rows = decisionLog(db);
-            return opts.format === 'json' ? JSON.stringify({ decisions: rows }, null, 2) + '\n' : writeCsv(logColumns(rows), rows);
+            return opts.format === 'json' ? JSON.stringify({ caution: DATA_CAUTION, decisions: rows }, null, 2) + '\n' : writeCsv(logColumns(rows), rows, DATA_CAUTION);
           }
           default:
             return printOutline(currentTemplate(db));
@@ -53,6 +54,6 @@ Examples:
       });
       writeOut(opts, text);
       if (opts.json) process.stdout.write(JSON.stringify({ out: opts.out, what }) + '\n');
-      else say(`Wrote ${what} to ${opts.out}.`);
+      else say(`Wrote ${what} to ${opts.out}.${what === 'template' ? '' : `\n${DATA_CAUTION}`}`);
     });
 }

@@ -1,5 +1,6 @@
 import type { Command } from 'commander';
 import { UserError } from '../errors.js';
+import { DATA_CAUTION } from '../report/cautions.js';
 import { writeCsv } from '../sheet/csv.js';
 import { decisionLog, logColumns } from '../study/decisions.js';
 import { currentTemplate } from '../study/template.js';
@@ -22,7 +23,7 @@ export function registerLog(program: Command): void {
         const format = opts.json ? 'json' : opts.format;
         let text: string;
         if (format === 'json') text = JSON.stringify({ decisions: rows }, null, 2) + '\n';
-        else if (format === 'csv') text = writeCsv(logColumns(rows), rows);
+        else if (format === 'csv') text = writeCsv(logColumns(rows), rows, DATA_CAUTION);
         else text = rows.map((d) => `${d.at.slice(0, 16).replace('T', ' ')}  ${d.coder.padEnd(10)} ${describeDecision(d, t)}${d.bulk ? ' (bulk)' : ''}${d.note ? `  — ${d.note}` : ''}`).join('\n') + '\n';
         if (out) {
           writeOut(out, text);

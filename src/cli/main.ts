@@ -17,13 +17,6 @@ import { registerReport } from './report.js';
 import { registerDiscover } from './discover.js';
 import { registerTemplate } from './template.js';
 
-/** The cautions every report carries, one paragraph each. */
-export const REPORT_CAUTIONS = [
-  'The study stays on the researcher\'s disk: trellis never opens a network connection, and this report needs none.',
-  'Suggestions are aids: every coding shown here was made or confirmed by a researcher, and interpretation remains theirs.',
-  'Ethics approval, consent, de-identification and data-protection duties remain with the research team, under their institution\'s rules. This report quotes transcripts: share it as you would share them.',
-];
-
 export const CAUTIONS = `
 Your data: trellis never opens a network connection; the study (study.db and template.txt)
 stays in its folder on your disk. Suggestions are aids: the researcher decides every coding.

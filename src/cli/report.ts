@@ -1,10 +1,10 @@
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
+import { reportCautions } from '../report/cautions.js';
 import { renderCodebook, renderReport, type CodebookFormat } from '../report/index.js';
 import { reportData } from '../study/report-data.js';
 import { checkOut, forceOption, studyCommand, withStudy, writeOut, type OutputOpts } from './common.js';
-import { REPORT_CAUTIONS } from './main.js';
 import { printJson, say } from './output.js';
 
 export function registerReport(program: Command): void {
@@ -25,7 +25,7 @@ Examples:
     )
     .action(async (opts: OutputOpts & { title?: string }) => {
       checkOut(opts);
-      const html = await withStudy(opts, (db) => renderReport(reportData(db, { studyDir: opts.study, title: opts.title, quotes: 3, cautions: REPORT_CAUTIONS })));
+      const html = await withStudy(opts, (db) => renderReport(reportData(db, { studyDir: opts.study, title: opts.title, quotes: 3, cautions: reportCautions })));
       writeOut(opts, html);
       if (opts.json) printJson({ out: resolve(opts.out), bytes: Buffer.byteLength(html) });
       else say(`Wrote the report to ${resolve(opts.out)} (open it in any browser; it needs no network).`);
@@ -38,7 +38,7 @@ Examples:
     .action(async (opts: OutputOpts & { format: string }) => {
       if (!['md', 'html', 'csv'].includes(opts.format)) throw new UserError(`--format is md, html or csv (got "${opts.format}")`);
       checkOut(opts);
-      const text = await withStudy(opts, (db) => renderCodebook(reportData(db, { studyDir: opts.study, quotes: 2, cautions: REPORT_CAUTIONS }), opts.format as CodebookFormat));
+      const text = await withStudy(opts, (db) => renderCodebook(reportData(db, { studyDir: opts.study, quotes: 2, cautions: reportCautions }), opts.format as CodebookFormat));
       writeOut(opts, text);
       if (opts.json) printJson({ out: resolve(opts.out), format: opts.format });
       else say(`Wrote the codebook to ${resolve(opts.out)}.`);

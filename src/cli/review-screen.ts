@@ -226,6 +226,7 @@ export function renderScreen(m: ScreenModel, st: Style): string {
     else {
       below.push(`${bold('Candidate themes')}  ${dim("(confidence; * at or above the theme's threshold)")}`);
       below.push(...candidateLines(m.showing, st, m.snippets));
+      below.push(dim('Suggestions are aids: you decide what each passage is about.'));
     }
     if (m.mode.kind === 'name') {
       below.push('');

@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { decodeText } from '../ingest/decode.js';
 import { readInputFile } from '../ingest/limits.js';
+import { DATA_CAUTION } from '../report/cautions.js';
 import { parseSheet, writeSheet } from '../sheet/sheet.js';
 import { importSheet, sheetRows } from '../study/sheet.js';
 import { requireTranscripts } from '../study/transcripts.js';
@@ -36,7 +37,7 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
       });
       writeOut(opts, writeSheet(rows));
       if (opts.json) printJson({ out: opts.out, rows: rows.length });
-      else say(`Wrote ${plural(rows.length, 'passage')} to ${opts.out}. Code the "themes" column, then: trellis sheet import ${opts.out} --coder NAME`);
+      else say(`Wrote ${plural(rows.length, 'passage')} to ${opts.out}. Code the "themes" column, then: trellis sheet import ${opts.out} --coder NAME\n${DATA_CAUTION}`);
     });
 
   sheet

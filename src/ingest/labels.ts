@@ -18,7 +18,7 @@ const HEAD = 240;
 const MAX_LABEL = 40;
 const MAX_WORDS = 4;
 
-/** Title abbreviations that may carry a full stop inside a label ("Dr. Okafor"). */
+/** Title abbreviations that may carry a full stop inside a label ("Dr. Quell"). */
 const TITLES = new Set(['dr.', 'mr.', 'mrs.', 'ms.', 'mx.', 'prof.', 'rev.', 'sr.', 'st.']);
 /** Lower-case particles allowed inside a name ("Ana de Souza"). */
 const PARTICLES = new Set(['de', 'da', 'das', 'do', 'dos', 'du', 'van', 'von', 'der', 'den', 'la', 'le', 'di', 'del', 'bin', 'ibn', 'al', 'el', 'ten', 'ter']);

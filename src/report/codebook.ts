@@ -5,6 +5,7 @@
  */
 
 import { writeCsv } from '../sheet/csv.js';
+import { DATA_CAUTION } from './cautions.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, int, oneLine, plural, when } from './escape.js';
 import type { ReportData, ReportTheme } from './types.js';
@@ -54,7 +55,7 @@ export function mdEscape(text: string): string {
 }
 
 function markdown(d: ReportData, examples: number): string {
-  const out: string[] = [`# Codebook: ${mdEscape(d.title)}`, '', mdEscape(intro(d)), ''];
+  const out: string[] = [`# Codebook: ${mdEscape(d.title)}`, '', mdEscape(intro(d)), '', `> ${mdEscape(DATA_CAUTION)}`, ''];
   if (!d.themes.length) return [...out, '_The template has no themes yet._', ''].join('\n');
 
   out.push('## Overview', '', '| No. | Theme | A priori | Passages (with sub-themes) |', '| --- | --- | --- | ---: |');
@@ -103,7 +104,7 @@ h2.entry-h { font-size: 1.25rem; }
 `;
 
 function html(d: ReportData, examples: number): string {
-  const parts: string[] = [`<header><p class="meta">Codebook</p><h1>${esc(d.title)}</h1><p class="meta">${esc(intro(d))}</p></header>`];
+  const parts: string[] = [`<header><p class="meta">Codebook</p><h1>${esc(d.title)}</h1><p class="meta">${esc(intro(d))}</p><p class="caution">${esc(DATA_CAUTION)}</p></header>`];
   if (!d.themes.length) {
     parts.push('<p class="empty">The template has no themes yet.</p>');
     return htmlDocument(`Codebook: ${d.title}`, BASE_CSS + CODEBOOK_CSS, parts.join('\n'));
@@ -181,7 +182,7 @@ function csv(d: ReportData, examples: number): string {
     }
     return row;
   });
-  return writeCsv(columns, rows);
+  return writeCsv(columns, rows, DATA_CAUTION);
 }
 
 /** The codebook in one of three formats; `examples` quotes per theme (default 2). */

@@ -29,6 +29,7 @@ h4 { font-size: 0.98rem; margin: 20px 0 6px; }
 p { margin: 8px 0; max-width: 75ch; }
 .meta { color: var(--muted); margin: 0; }
 .note { color: var(--muted); font-size: 0.9rem; }
+.caution { border-left: 4px solid currentColor; padding: 2px 10px; margin: 10px 0; font-size: 0.95rem; }
 .empty { color: var(--muted); font-style: italic; border: 1px dashed var(--rule); border-radius: 4px; padding: 10px 14px; max-width: none; }
 .callout { border-left: 4px solid var(--warn); background: #fbf4ee; padding: 10px 14px; margin: 14px 0; max-width: none; }
 table { border-collapse: collapse; width: 100%; font-size: 0.9rem; margin: 8px 0; }

@@ -19,8 +19,12 @@ export function unguardCell(v: string): string {
 /**
  * CSV text from rows of cells (arrays) or records (objects keyed by `columns`): UTF-8 with BOM so
  * spreadsheet programs detect the encoding, CRLF, quoted where needed, every string cell guarded.
+ * A `caution` becomes a first line starting with "#" (read such files with comment lines skipped:
+ * pandas `comment="#"`, R `comment.char = "#"`, csv-parse `comment: '#'`).
  */
-export function writeCsv(columns: readonly string[], rows: readonly (readonly unknown[] | object)[]): string {
+export function writeCsv(columns: readonly string[], rows: readonly (readonly unknown[] | object)[], caution?: string): string {
   const cells = rows.map((r) => (Array.isArray(r) ? r : columns.map((c) => (r as Record<string, unknown>)[c])).map(guardCell));
-  return '\ufeff' + stringify(cells, { header: true, columns: columns.map((c) => String(guardCell(c))), record_delimiter: '\r\n', quoted_match: /[\n",;]/ });
+  // A cell holding "#" is quoted, so that readers told to skip "#" comment lines keep it whole.
+  const body = stringify(cells, { header: true, columns: columns.map((c) => String(guardCell(c))), record_delimiter: '\r\n', quoted_match: /[\n",;#]/ });
+  return '\ufeff' + (caution ? `# ${caution.replace(/[\r\n]+/g, ' ')}\r\n` : '') + body;
 }

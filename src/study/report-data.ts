@@ -18,7 +18,8 @@ export interface ReportOptions {
   title?: string;
   /** Quotes per theme (the report takes 3, the codebook 2). */
   quotes?: number;
-  cautions: string[];
+  /** The cautions, given how many codings were accepted in bulk. */
+  cautions: (bulkCodings: number) => string[];
 }
 
 /** Gathers everything the report and the codebook show, from the study, in one pass. */
@@ -128,7 +129,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
             caution: agree.caution,
           }
         : null,
-    cautions: opts.cautions,
+    cautions: opts.cautions(codings.filter((c) => c.origin === 'bulk').length),
   };
 }
 

@@ -29,7 +29,7 @@ describe('trellis export', () => {
   it('exports every coding with its passage, and the theme x transcript matrix rolled up', () => {
     const dir = studyWithCodings();
     expect(trellis(['export', 'codings', '--out', 'c.csv'], dir).status).toBe(0);
-    const rows = parse(readFileSync(join(dir, 'c.csv'), 'utf8'), { bom: true, columns: true }) as Record<string, string>[];
+    const rows = parse(readFileSync(join(dir, 'c.csv'), 'utf8'), { bom: true, columns: true, comment: '#', comment_no_infix: true }) as Record<string, string>[];
     expect(rows).toHaveLength(86); // the demo sheet's codings
     expect(Object.keys(rows[0]!)).toEqual(['passage_id', 'transcript', 'speaker', 'time', 'theme', 'coder', 'origin', 'coded_at', 'text']);
     expect(new Set(rows.map((r) => r.origin))).toEqual(new Set(['sheet']));
@@ -37,7 +37,7 @@ describe('trellis export', () => {
     expect(json.codings).toHaveLength(86);
 
     expect(trellis(['export', 'matrix', '--out', 'm.csv'], dir).status).toBe(0);
-    const m = parse(readFileSync(join(dir, 'm.csv'), 'utf8'), { bom: true, columns: true }) as Record<string, string>[];
+    const m = parse(readFileSync(join(dir, 'm.csv'), 'utf8'), { bom: true, columns: true, comment: '#', comment_no_infix: true }) as Record<string, string>[];
     const show = JSON.parse(trellis(['template', 'show', '--json'], dir).stdout);
     const total = (name: string) => {
       const row = m.find((r) => r.theme === name)!;

@@ -14,7 +14,7 @@ describe('parseLabel', () => {
     ['P3: Three years.', 'P3', null, 'Three years.'],
     ['R1: yes', 'R1', null, 'yes'],
     ['Interviewer 2: Over to you.', 'Interviewer 2', null, 'Over to you.'],
-    ['Dr. Okafor: It varies.', 'Dr. Okafor', null, 'It varies.'],
+    ['Dr. Quell: It varies.', 'Dr. Quell', null, 'It varies.'],
     ['Ana de Souza: Sim.', 'Ana de Souza', null, 'Sim.'],
     ['MARGARET: No.', 'MARGARET', null, 'No.'],
     ['**Facilitator:** Welcome.', 'Facilitator', null, 'Welcome.'],

@@ -1,5 +1,6 @@
 import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
+import { DATA_CAUTION } from '../../src/report/cautions.js';
 import { CODEBOOK_COLUMNS, mdEscape, renderCodebook } from '../../src/report/codebook.js';
 import type { ReportData, ReportTheme } from '../../src/report/types.js';
 import { emptyReport, sampleReport } from './sample.js';
@@ -91,14 +92,15 @@ describe('renderCodebook: CSV', () => {
 
   it('is UTF-8 with a byte-order mark and CRLF line ends', () => {
     expect(csv.charCodeAt(0)).toBe(0xfeff);
-    // One line per theme plus the header, each ended by CRLF; no bare LF or CR anywhere.
-    expect(csv.split('\r\n')).toHaveLength(sampleReport().themes.length + 2);
+    // The caution line, the header and one line per theme, each ended by CRLF; no bare LF or CR.
+    expect(csv.split('\r\n')).toHaveLength(sampleReport().themes.length + 3);
+    expect(csv.split('\r\n')[0]).toBe(`\ufeff# ${DATA_CAUTION}`);
     expect(csv.replace(/\r\n/g, '')).not.toMatch(/[\r\n]/);
   });
 
   it('parses back to one row per theme with every field', () => {
     const d = sampleReport();
-    const rows = parse(csv, { bom: true, columns: true }) as Record<string, string>[];
+    const rows = parse(csv, { bom: true, columns: true, comment: '#', comment_no_infix: true }) as Record<string, string>[];
     expect(Object.keys(rows[0]!)).toEqual([...CODEBOOK_COLUMNS]);
     expect(rows).toHaveLength(d.themes.length);
     rows.forEach((r, i) => {
@@ -120,7 +122,7 @@ describe('renderCodebook: CSV', () => {
   });
 
   it('keeps quotes, commas and newlines intact, and defuses spreadsheet formulas', () => {
-    const rows = parse(renderCodebook(withHostile(), 'csv'), { bom: true, columns: true }) as Record<string, string>[];
+    const rows = parse(renderCodebook(withHostile(), 'csv'), { bom: true, columns: true, comment: '#', comment_no_infix: true }) as Record<string, string>[];
     // A leading apostrophe keeps a spreadsheet from running the cell as a formula.
     expect(rows[0]!.definition).toBe(`'${HOSTILE}`);
     expect(rows[1]!.example_1).toBe(`'- looks like a list, "quoted", with a comma and a newline`);
@@ -130,7 +132,7 @@ describe('renderCodebook: CSV', () => {
   it('writes only the header for an empty template', () => {
     const d = emptyReport();
     d.themes = [];
-    const rows = parse(renderCodebook(d, 'csv'), { bom: true, columns: true });
+    const rows = parse(renderCodebook(d, 'csv'), { bom: true, columns: true, comment: '#', comment_no_infix: true });
     expect(rows).toEqual([]);
     expect(renderCodebook(d, 'csv')).toContain('number,theme,path');
   });
