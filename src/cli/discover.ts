@@ -62,7 +62,7 @@ Examples:
         }
         const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
         const counts = run.pool.counts;
-        say(`Unclaimed pool: ${plural(pool.length, 'passage')} (left out: ${counts.coded} coded, ${counts.claimed} claimed by a theme, ${counts.short} short, ${counts['small-talk']} small talk, ${counts.interviewer} interviewer).`);
+        say(`Unclaimed pool: ${plural(pool.length, 'passage')} (left out: ${counts.coded} coded, ${counts['nothing-to-code']} nothing to code, ${counts.claimed} claimed by a theme, ${counts.short} short, ${counts['small-talk']} small talk, ${counts.interviewer} interviewer).`);
         const almost = new Map<string, number>();
         for (const p of pool) if (p.nearest) almost.set(p.nearest.themeId, (almost.get(p.nearest.themeId) ?? 0) + 1);
         if (almost.size) say(`Nearest themes of the unclaimed: ${[...almost].sort((a, b) => b[1] - a[1]).slice(0, 4).map(([t, n]) => `almost ${names.get(t) ?? t} (${n})`).join('; ')}`);
@@ -113,13 +113,14 @@ Examples:
       });
     });
 
-  studyCommand(program, 'triage', 'rank the uncoded transcripts by how much of each the template fails to claim')
+  studyCommand(program, 'triage', 'rank transcripts (uncoded or partly coded) by how much of their uncoded part the template fails to claim')
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
     .addHelpText(
       'after',
       `
 A transcript's unclaimed share is the words of its unclaimed passages over the words of its
-substantive participant passages. Read the most novel first: that is where the template will
+substantive participant passages, counting only its uncoded part: a partly coded transcript is
+ranked by the passages not yet coded (or judged nothing to code), and marked "partly coded". Read the most novel first: that is where the template will
 need revising. Cluster shares refer to the latest "trellis discover".
 
 Examples:
@@ -132,12 +133,12 @@ Examples:
         const { rows, clusters } = triageStudy(db, opts.transcript);
         if (opts.json) return printJson({ transcripts: rows });
         const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path.split(' > ').pop()!]));
-        if (!rows.length) return say('No uncoded transcripts to triage.');
+        if (!rows.length) return say('No transcript has passages left to code.');
         say(
           table(
             ['transcript', 'unclaimed', 'passages', 'dominant suggested themes', 'open clusters'],
             rows.map((r) => [
-              r.transcript,
+              r.partly_coded ? `${r.transcript} (partly coded)` : r.transcript,
               `${pct(r.unclaimedShare)} of words`,
               `${r.unclaimedPassages}/${r.substantivePassages}`,
               r.themes.map((t) => `${names.get(t.themeId) ?? t.themeId} (${t.passages})`).join(', '),

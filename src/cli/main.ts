@@ -46,7 +46,7 @@ Examples:
   trellis suggest --transcript t05           candidate themes with confidence and reasons
   trellis review --coder alex                decide them one passage at a time
   trellis discover                           what the template misses
-  trellis stats                              how often suggestions were right
+  trellis stats                              how often suggestions were accepted
   trellis report --out report.html           the study report
 ${CAUTIONS}`,
     );

@@ -98,7 +98,7 @@ function keyHints(m: ScreenModel): string {
       return 'any key returns to the passage';
     case 'main':
       if (!m.showing) return 'u undo the last decision · ? keys · q quit';
-      return '1-5 accept · x reject · r re-code · d defer · n note · u undo · ? keys · q quit';
+      return '1-5 accept · x reject · r re-code · d defer · 0 nothing to code · n note · u undo · ? keys · q quit';
   }
 }
 
@@ -182,6 +182,7 @@ const HELP = [
   ['x', 'reject a candidate: then 1-5 for that one, or x / Enter for the top one'],
   ['r', 're-code: search the template for another theme, or create a new sub-theme'],
   ['d', 'defer: leave the passage for later (skipped for the rest of this session)'],
+  ['0', 'reviewed, nothing to code: no theme applies (it leaves the queue and the unclaimed pool)'],
   ['n', 'write a note that is kept with your next decision'],
   ['u', 'undo your latest decision that still stands, and go back to its passage'],
   ['Enter', 'after a reject: go on to the next passage'],
@@ -216,7 +217,7 @@ export function renderScreen(m: ScreenModel, st: Style): string {
     lines.push('');
     lines.push(bold('Nothing left to review in this queue.'));
     lines.push('');
-    lines.push(`Decided this session: ${m.decided} (accepted or re-coded ${m.accepted}); deferred: ${m.deferred}.`);
+    lines.push(`Decided this session: ${m.decided} suggestions, ${m.accepted} of them accepted; deferred: ${m.deferred}.`);
     lines.push('Deferred passages come back in the next session. Press u to undo your latest decision,');
     lines.push('or q to quit.');
   } else {

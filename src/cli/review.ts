@@ -14,6 +14,7 @@ import {
   passageView,
   recodeToNewTheme,
   reviewDecide,
+  reviewNothingToCode,
   standingRejects,
   startReview,
   undoLatest,
@@ -242,11 +243,11 @@ class Session {
 
   private summary(): string {
     const t = this.tally;
-    const parts = [`${t.count('accept')} accepted`, `${t.count('recode')} re-coded`, `${t.count('reject')} rejected`, `${t.count('defer')} deferred`, `${t.undos} undone`];
+    const parts = [`${t.count('accept')} accepted`, `${t.count('recode')} re-coded`, `${t.count('reject')} rejected`, `${t.count('defer')} deferred`, `${t.count('nocode')} nothing to code`, `${t.undos} undone`];
     const pct = t.decided ? ` (${Math.round((100 * t.accepted) / t.decided)}%)` : '';
     return (
       `Review ended. This session: ${parts.join(', ')}.\n` +
-      `Acceptance ${t.accepted} of ${t.decided}${pct}. Every decision is in the log: trellis log --study ${this.studyDir}`
+      `Suggestions accepted: ${t.accepted} of ${t.decided} decided${pct} (a re-code is decided, not accepted). Every decision is in the log: trellis log --study ${this.studyDir}`
     );
   }
 
@@ -371,6 +372,7 @@ class Session {
     if (/^[1-9]$/.test(ch)) return this.accept(Number(ch));
     if (ch === 'x') return this.enter({ kind: 'reject' });
     if (ch === 'd') return this.defer();
+    if (ch === '0') return this.nothingToCode();
     if (ch === 'n') return this.enter({ kind: 'note', text: this.note ?? '' });
     if (ch === 'r') return this.enter({ kind: 'search', purpose: 'recode', query: '', sel: 0, entries: this.themeEntries() });
     if (key.name === 'enter' || ch === ' ') {
@@ -427,6 +429,20 @@ class Session {
     const pid = this.current!.item.passageId;
     if (this.decideOn(top, 'defer')) {
       this.queue.deferred.add(pid);
+      this.advance();
+    }
+  }
+
+  /** "Reviewed, nothing to code": the passage is judged, no theme applies. */
+  private nothingToCode(): void {
+    const cur = this.current!;
+    const pid = cur.item.passageId;
+    if (cur.decidedHere) {
+      this.message = 'You have decided on a candidate of this passage already: Enter goes on, u undoes that first.';
+      return;
+    }
+    if (this.commit(() => reviewNothingToCode(this.db, pid, this.coder, this.note, this.tally.ids))) {
+      this.queue.done.add(pid);
       this.advance();
     }
   }

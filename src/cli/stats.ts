@@ -23,13 +23,16 @@ function groupTable(title: string, rows: GroupAcceptance[], name: (k: string) =>
 }
 
 export function registerStats(program: Command): void {
-  studyCommand(program, 'stats', 'how often suggestions were right: acceptance, calibration, re-codes, coverage, saturation')
+  studyCommand(program, 'stats', 'how often suggestions were accepted: acceptance, calibration, re-codes, coverage, template growth')
     .option('--exclude-bulk', 'leave out decisions made in bulk (decide --all-above)')
     .addHelpText(
       'after',
       `
-Acceptance = accepted / decided (accepted + re-coded + rejected); deferred suggestions are
-not yet judged and are left out. The calibration table compares each confidence band with how
+Acceptance = accepted / decided, where decided = accepted + re-coded + rejected: a re-code is
+decided but not accepted. Deferred suggestions are not yet decided and are left out; passages
+marked "reviewed, nothing to code" are judged passages, not decided suggestions, and are counted
+apart. The review screen and the report count the same way. The unclaimed share is over every
+participant passage of the study, each judged by the latest suggestion run that scored it. The calibration table compares each confidence band with how
 often suggestions in it were accepted.
 
 Examples:
@@ -44,9 +47,11 @@ Examples:
         const a = s.acceptance;
         say(`Decisions: ${a.overall.decided} decided (${a.overall.accepted} accepted, ${a.overall.recoded} re-coded, ${a.overall.rejected} rejected), ${a.overall.deferred} deferred`);
         say(`Acceptance: ${pct(a.overall.rate)}${a.bulkCounted ? ` (${a.bulkCounted} bulk decisions counted)` : ''}`);
-        if (s.refined.count) say(`Refined:    ${s.refined.count} re-codes chose a sub-theme of the suggested theme; counting them as right, ${pct(s.refined.rate)}`);
+        if (s.refined.count) say(`Refined:    ${s.refined.count} re-codes chose a sub-theme of the suggested theme; counting those as accepted, ${pct(s.refined.rate)}`);
         say(`Coverage:   ${s.coverage.coded} of ${s.coverage.participant} participant passages coded (${pct(s.coverage.share)})`);
-        if (s.unclaimed.run !== null) say(`Unclaimed:  ${s.unclaimed.unclaimed} of ${s.unclaimed.passages} passages in the latest suggestion run (${pct(s.unclaimed.share)})`);
+        if (s.nothing_to_code.passages) say(`Nothing to code: ${s.coverage.nothing_to_code} more passages reviewed with no theme applying; ${s.coverage.reviewed} of ${s.coverage.participant} reviewed (${pct(s.coverage.reviewed_share)})`);
+        if (s.unclaimed.run !== null)
+          say(`Unclaimed:  ${s.unclaimed.unclaimed} of ${s.unclaimed.passages} participant passages in the study (${pct(s.unclaimed.share)})${s.unclaimed.not_scored ? `; ${s.unclaimed.not_scored} uncoded passages not yet scored` : ''}`);
         groupTable('Per theme', a.perTheme, name);
         if (a.calibration.some((b) => b.count)) {
           say('\nCalibration (confidence band against acceptance)');

@@ -451,7 +451,7 @@ export function unclaimedChart(data: ReportData): string | null {
   parts.push(rect(xu, 10, left + w - xu, 28, { fill: 'url(#chart-unclaimed-u)', stroke: OKABE_ITO.vermillion, strokeWidth: 1, title: `unclaimed: ${u.unclaimed} passages (${pct(u.share)})` }));
   parts.push(text(left, 58, `claimed by a theme: ${pct(1 - u.share)} (${claimed} passages)`, { size: 12, weight: 'bold' }));
   parts.push(text(left + w, 58, `unclaimed: ${pct(u.share)} (${u.unclaimed} passages)`, { size: 12, weight: 'bold', anchor: 'end', fill: '#9a3a00' }));
-  const desc = `Of ${u.passages} passages scored, ${claimed} (${pct(1 - u.share)}) were claimed by at least one theme and ${u.unclaimed} (${pct(u.share)}) by none.`;
+  const desc = `Of the study's ${u.passages} participant passages, ${u.unclaimed} (${pct(u.share)}) are unclaimed: neither coded, nor judged to need no code, nor claimed by any theme when last scored; the other ${claimed} are.`;
   return chart({
     id: 'chart-unclaimed',
     width: WIDTH,

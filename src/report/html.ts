@@ -100,6 +100,7 @@ function summary(d: ReportData): string {
     `This report covers ${plural(c.transcripts, 'transcript')} divided into ${plural(c.passages, 'passage')}, ` +
     `${int(c.coded)} of which carry at least one theme from a template of ${plural(c.themes, 'theme')}` +
     (c.revision === null ? '.' : ` (revision ${c.revision}).`) +
+    (c.nothingToCode ? ` Coders read ${plural(c.nothingToCode, 'more passage')} and judged that no theme applies ("reviewed, nothing to code").` : '') +
     (a.decided ? ` Coders have decided on ${plural(a.decided, 'suggestion')} and accepted ${pct(a.rate)} of them.` : ' No suggestion has been decided on yet.');
   return `<div class="stats">${cards.join('')}</div>\n<p>${esc(sentence)}</p>`;
 }
@@ -166,7 +167,7 @@ function acceptance(d: ReportData): string {
   parts.push(
     `<p>${esc(
       `Of ${plural(a.overall.decided, 'suggestion')} decided (accepted, rejected or re-coded to another theme), ${int(a.overall.accepted)} were accepted: ${pct(a.overall.rate)}. ` +
-        'Deferred suggestions are left out until they are decided. Acceptance shows how often coders took a suggestion, not whether a coding is right.',
+        'Deferred suggestions are left out until they are decided. Acceptance shows how often suggestions were accepted; it does not measure whether a coding is correct.',
     )}</p>`,
   );
   const bars = acceptanceChart(d);

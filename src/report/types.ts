@@ -67,7 +67,16 @@ export interface AgreementRow {
 export interface ReportData {
   title: string;
   generatedAt: string;
-  counts: { transcripts: number; passages: number; participant: number; coded: number; themes: number; revision: number | null };
+  counts: {
+    transcripts: number;
+    passages: number;
+    participant: number;
+    coded: number;
+    /** Participant passages not coded that a coder marked "reviewed, nothing to code". */
+    nothingToCode?: number;
+    themes: number;
+    revision: number | null;
+  };
   themes: ReportTheme[];
   revisions: ReportRevision[];
   /** Theme x transcript passage counts (rolled up over sub-themes), themes in template order. */

@@ -7,6 +7,7 @@ import { addTheme } from '../template/ops.js';
 import { findByPath } from '../template/paths.js';
 import type { PassageSuggestions } from '../suggest/types.js';
 import type { DB } from './db.js';
+import { nothingToCode } from './decisions.js';
 import { getPassage } from './passages.js';
 import { reviseTemplate } from './revise.js';
 import { fitModel } from './suggestions.js';
@@ -43,7 +44,7 @@ interface Scored {
   suggestions: PassageSuggestions[];
   pool: PoolResult;
   fingerprint: string;
-  codedTranscripts: Set<string>;
+  codedPassages: Set<string>;
   background: string[][];
 }
 
@@ -58,12 +59,11 @@ function scoreStudy(db: DB, poolOpts: PoolOptions = {}): Scored {
   const suggestions = model.predict(inputs.uncoded, { reasons: 0 });
   const thresholds = Object.fromEntries(model.themeReports().map((r) => [r.themeId, r.threshold]));
   const pool = unclaimedPool(
-    { passages, suggestions, themes: inputs.themes.map((t) => ({ id: t.id, parentId: t.parentId })), codings: inputs.codings, rejected: negatives, thresholds },
+    { passages, suggestions, themes: inputs.themes.map((t) => ({ id: t.id, parentId: t.parentId })), codings: inputs.codings, rejected: negatives, nothingToCode: nothingToCode(db), thresholds },
     poolOpts,
   );
-  const coded = new Set(inputs.codings.map((c) => c.passageId));
-  const codedTranscripts = new Set(inputs.passages.filter((p) => coded.has(p.id)).map((p) => p.transcript));
-  return { passages, suggestions, pool, fingerprint: model.fingerprint, codedTranscripts, background: inputs.passages.map((p) => p.terms) };
+  const codedPassages = new Set(inputs.codings.map((c) => c.passageId));
+  return { passages, suggestions, pool, fingerprint: model.fingerprint, codedPassages, background: inputs.passages.map((p) => p.terms) };
 }
 
 function dismissals(db: DB): Dismissal[] {
@@ -210,13 +210,14 @@ export function latestClusters(db: DB): StoredCluster[] {
   return (db.prepare('SELECT id FROM clusters WHERE run_id = ? ORDER BY id').all(run.id) as { id: number }[]).map((r) => getCluster(db, r.id));
 }
 
-/** `triage`: uncoded transcripts ranked by how much of each the template fails to claim. */
+/** `triage`: transcripts with passages left to code, ranked by how much of that part the template fails to claim. */
 export function triageStudy(db: DB, transcripts?: string[]): { rows: TranscriptTriage[]; clusters: StoredCluster[] } {
   const scored = scoreStudy(db);
   const clusters = latestClusters(db).filter((c) => c.status === 'open');
+  const done = new Set([...scored.codedPassages, ...nothingToCode(db)]);
   let rows = triage({
     passages: scored.passages,
-    codedTranscripts: scored.codedTranscripts,
+    done,
     suggestions: scored.suggestions,
     unclaimed: scored.pool.pool.map((p) => p.id),
     clusters: clusters.map((c) => ({ id: String(c.cluster_id), passageIds: c.passage_ids })),

@@ -3,7 +3,7 @@ import { agreementReport, type AgreementReport, type CodingRecord, type CodedRec
 import { saturationCurve, type SaturationReport } from '../measure/saturation.js';
 import { walk } from '../template/paths.js';
 import type { DB } from './db.js';
-import { effectiveDecisions } from './decisions.js';
+import { effectiveDecisions, nothingToCode } from './decisions.js';
 import { currentTemplate, revisionHistory } from './template.js';
 
 /** The pseudo-coder standing for trellis's above-threshold suggestions in agreement figures. */
@@ -11,10 +11,19 @@ export const TOOL_CODER = 'trellis';
 
 export interface StudyStats {
   acceptance: AcceptanceReport;
-  /** Participant passages with a coding, of all participant passages. */
-  coverage: { coded: number; participant: number; share: number | null };
-  /** The latest suggestion run: how many of its passages no theme claimed. */
-  unclaimed: { run: number | null; passages: number; unclaimed: number; share: number | null };
+  /**
+   * Participant passages with a coding, of all participant passages; and those a coder marked
+   * "reviewed, nothing to code" (not coded by anyone), which are judged too.
+   */
+  coverage: { coded: number; participant: number; share: number | null; nothing_to_code: number; reviewed: number; reviewed_share: number | null };
+  /**
+   * Over the whole study: participant passages that are neither coded nor judged nothing to code,
+   * whose latest scoring found no theme to claim them, of all participant passages. `run` is the
+   * latest suggestion run; `not_scored` passages were never scored (they count as neither).
+   */
+  unclaimed: { run: number | null; passages: number; unclaimed: number; share: number | null; not_scored: number; scope: 'study' };
+  /** "Reviewed, nothing to code" decisions that stand, and the passages they cover. */
+  nothing_to_code: { decisions: number; passages: number };
   saturation: SaturationReport;
   /**
    * Re-codes to a sub-theme of the suggested theme: the suggestion named the right area and the
@@ -47,9 +56,25 @@ export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyS
                 WHERE c.removed_at IS NULL AND p.role = 'participant') AS coded`,
     )
     .get() as { participant: number; coded: number };
-  const run = db.prepare('SELECT id, passages, unclaimed FROM suggestion_runs ORDER BY id DESC LIMIT 1').get() as
-    | { id: number; passages: number; unclaimed: number }
+  const run = db.prepare(`SELECT id FROM suggestion_runs WHERE options NOT LIKE '%"source":"promote"%' ORDER BY id DESC LIMIT 1`).get() as
+    | { id: number }
     | undefined;
+  const judged = nothingToCode(db);
+  const nocodeDecisions = effectiveDecisions(db).filter((d) => d.action === 'nocode').length;
+  const codedIds = new Set(
+    (db.prepare(`SELECT DISTINCT c.passage_id AS id FROM codings c WHERE c.removed_at IS NULL`).all() as { id: string }[]).map((r) => r.id),
+  );
+  const participantIds = (db.prepare("SELECT id FROM passages WHERE role = 'participant'").all() as { id: string }[]).map((r) => r.id);
+  const open = participantIds.filter((id) => !codedIds.has(id) && !judged.has(id));
+  const judgedOnly = participantIds.filter((id) => !codedIds.has(id) && judged.has(id)).length;
+  const claimedNow = latestClaims(db);
+  let unclaimedN = 0;
+  let notScored = 0;
+  for (const id of open) {
+    const c = claimedNow.get(id);
+    if (c === undefined) notScored++;
+    else if (!c) unclaimedN++;
+  }
   const firsts = db
     .prepare(
       `SELECT t.name AS transcript, MIN(c.created_at) AS firstCodedAt FROM codings c
@@ -69,12 +94,42 @@ export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyS
   return {
     acceptance,
     refined: { count: refined, rate: decided ? (accepted + refined) / decided : null },
-    coverage: { ...cov, share: cov.participant ? cov.coded / cov.participant : null },
-    unclaimed: run
-      ? { run: run.id, passages: run.passages, unclaimed: run.unclaimed, share: run.passages ? run.unclaimed / run.passages : null }
-      : { run: null, passages: 0, unclaimed: 0, share: null },
+    coverage: {
+      ...cov,
+      share: cov.participant ? cov.coded / cov.participant : null,
+      nothing_to_code: judgedOnly,
+      reviewed: cov.coded + judgedOnly,
+      reviewed_share: cov.participant ? (cov.coded + judgedOnly) / cov.participant : null,
+    },
+    unclaimed: {
+      run: run?.id ?? null,
+      passages: cov.participant,
+      unclaimed: unclaimedN,
+      share: run && cov.participant ? unclaimedN / cov.participant : null,
+      not_scored: notScored,
+      scope: 'study',
+    },
+    nothing_to_code: { decisions: nocodeDecisions, passages: judged.size },
     saturation: saturationCurve(revisionHistory(db), firsts),
   };
+}
+
+/**
+ * For every passage any suggestion run scored: whether the latest run that scored it found a
+ * theme to claim it (a chosen candidate). Runs made by promoting a cluster are not scorings.
+ */
+export function latestClaims(db: DB): Map<string, boolean> {
+  const rows = db
+    .prepare(
+      `WITH latest AS (
+         SELECT s.passage_id, MAX(s.run_id) AS run_id FROM suggestions s
+         WHERE s.run_id IN (SELECT id FROM suggestion_runs WHERE options NOT LIKE '%"source":"promote"%')
+         GROUP BY s.passage_id)
+       SELECT l.passage_id AS id, EXISTS (SELECT 1 FROM suggestions x WHERE x.run_id = l.run_id AND x.passage_id = l.passage_id AND x.chosen = 1) AS claimed
+       FROM latest l`,
+    )
+    .all() as { id: string; claimed: number }[];
+  return new Map(rows.map((r) => [r.id, r.claimed === 1]));
 }
 
 export interface AgreementOptions {

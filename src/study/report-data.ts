@@ -89,6 +89,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
       passages: status.passages.total,
       participant: status.passages.participant,
       coded: status.coded,
+      nothingToCode: stats.coverage.nothing_to_code,
       themes: status.themes,
       revision: status.revision,
     },

@@ -89,10 +89,14 @@ describe('discover, promote, dismiss and triage', () => {
     expect(snapshot(dir)).toBe(before);
   });
 
-  it('triages the uncoded transcripts, most unclaimed first', () => {
-    const t = json(dir, ['triage']).transcripts as { transcript: string; unclaimedShare: number }[];
-    expect(t.map((r) => r.transcript)).not.toContain('t01-larch-staff-nurse'); // coded
-    expect(t.length).toBe(8);
+  it('triages the uncoded and the partly coded transcripts, most unclaimed first', () => {
+    const t = json(dir, ['triage']).transcripts as { transcript: string; unclaimedShare: number; partly_coded: boolean; coded_passages: number; substantivePassages: number }[];
+    // The first batch (t01-t04) is coded but for a few passages: each is ranked by what is left.
+    const partly = t.filter((r) => r.partly_coded).map((r) => r.transcript).sort();
+    expect(partly).toEqual(['t01-larch-staff-nurse', 't02-kestrel-fy1', 't03-harbour-hca', 't04-orchard-staff-nurse']);
+    for (const r of t) expect(r.partly_coded).toBe(r.coded_passages > 0);
+    expect(t.find((r) => r.transcript === 't01-larch-staff-nurse')!.substantivePassages).toBeLessThan(t.find((r) => r.transcript === 't01-larch-staff-nurse')!.coded_passages);
+    expect(t.length).toBe(12);
     const shares = t.map((r) => r.unclaimedShare);
     expect(shares).toEqual([...shares].sort((a, b) => b - a));
   });

@@ -189,10 +189,18 @@ describe('trellis review', () => {
     expect(s5[1]).toBe(`accepted ${top4} for ${p4}`);
     expect(t.screen).toContain('accepted 2 of 3 decided (67%)');
 
+    // 0: reviewed, nothing to code. A decision on the passage, not on a suggestion.
+    const p6 = passageOn(t);
+    t.send('0');
+    const s6 = await step(t, SAVED);
+    expect(s6[1]).toBe(`reviewed ${p6}, nothing to code`);
+    expect(passageOn(t)).not.toBe(p6);
+    expect(t.screen).toContain('accepted 2 of 3 decided (67%)');
+
     expect(await t.quit()).toBe(0);
     // The undone re-code no longer counts; the undo does.
-    await t.waitFor('This session: 2 accepted, 0 re-coded, 1 rejected, 1 deferred, 1 undone.');
-    await t.waitFor('Acceptance 2 of 3 (67%).');
+    await t.waitFor('This session: 2 accepted, 0 re-coded, 1 rejected, 1 deferred, 1 nothing to code, 1 undone.');
+    await t.waitFor('Suggestions accepted: 2 of 3 decided (67%)');
 
     const mine = log(dir).filter((d) => d.coder === 'ana');
     expect(mine.map((d) => [d.action, d.passage_id])).toEqual([
@@ -202,13 +210,14 @@ describe('trellis review', () => {
       ['recode', p4],
       ['undo', p4],
       ['accept', p4],
+      ['nocode', p6],
     ]);
     expect(mine[0]!.chosen_path).toBe(top1);
     expect(mine[1]!.theme_path).toBe(second);
     expect(mine[2]!.note).toBe('ask the team about this one');
     expect(mine[3]!.chosen_path).toBe(allergies);
     expect(mine[4]!.undoes).toBe(mine[3]!.id);
-    expect(mine.map((d) => d.id)).toEqual([s1, s2, s3, s4].map((s) => Number(s[2])).concat([mine[4]!.id, Number(s5[2])]));
+    expect(mine.map((d) => d.id)).toEqual([s1, s2, s3, s4].map((s) => Number(s[2])).concat([mine[4]!.id, Number(s5[2]), Number(s6[2])]));
 
     // Codings: the two accepts stand; the undone re-code left none behind.
     expect(codingsOf(dir, 'ana')).toEqual([
