@@ -45,7 +45,16 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     .requiredOption('--coder <name>', 'who coded the sheet')
     .option('--study <dir>', 'the study folder', '.')
     .option('--json', 'machine-readable output on stdout')
-    .addHelpText('after', '\nExample:\n  trellis sheet import batch1.csv --coder alex')
+    .addHelpText(
+      'after',
+      `
+Themes cell: theme paths separated by ";", levels by " > ". Write "nothing to code" alone in the
+cell for a passage you read and judged to need no theme: it is logged as a decision and counts
+as reviewed for agreement. An empty cell means not coded (or not yet read).
+
+Example:
+  trellis sheet import batch1.csv --coder alex`,
+    )
     .action(async (file: string, opts: StudyOpts & { coder: string }) => {
       let bytes: Buffer;
       try {
@@ -59,7 +68,8 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
       else
         say(
           `Imported ${plural(report.rows, 'row')} for ${opts.coder}: ${plural(report.coded, 'passage')} coded, ` +
-            `${plural(report.added, 'coding')} added, ${report.removed} removed.`,
+            `${plural(report.added, 'coding')} added, ${report.removed} removed` +
+            (report.nothing_to_code ? `; ${plural(report.nothing_to_code, 'passage')} marked nothing to code.` : '.'),
         );
     });
 }

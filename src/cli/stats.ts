@@ -6,7 +6,8 @@ import { currentTemplate } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { walk } from '../template/paths.js';
 import { collect, studyCommand, withStudy, type StudyOpts } from './common.js';
-import { printJson, say, table } from './output.js';
+import { plural, printJson, say, table } from './output.js';
+import { getPassage } from '../study/passages.js';
 
 const pct = (x: number | null) => (x === null ? '-' : `${(100 * x).toFixed(0)}%`);
 const fix = (x: number | null, d = 2) => (x === null ? '-' : x.toFixed(d));
@@ -79,38 +80,76 @@ export function registerAgree(program: Command): void {
   studyCommand(program, 'agree', "inter-coder agreement: percent agreement, Cohen's kappa, Krippendorff's alpha")
     .requiredOption('--coders <names>', `the coders, comma-separated (two or more; "${TOOL_CODER}" stands for the suggestions above threshold)`, collect)
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
+    .option('--list', 'also list the passages where the coders differ, theme by theme, for the team to discuss')
     .addHelpText(
       'after',
       `
-For each theme, each passage counts as "theme present" or "absent" for each coder who looked
-at it (a coding sheet row or a decision); a coder who never saw a passage is missing there.
-Cohen's kappa needs exactly two coders; Krippendorff's alpha (nominal) takes any number and
-allows missing values.
+Units are participant passages that two or more of the coders actually reviewed: a coder
+reviewed a passage when they coded it, decided on a suggestion for it (not a defer), or marked
+it "reviewed, nothing to code" (trellis nocode, or "nothing to code" in a coding sheet's themes
+cell). An empty sheet row is not a review, and interviewer turns are never units. For each
+theme, each unit is "present" or "absent" for each coder who reviewed it.
+
+Cohen's kappa needs exactly two coders and is banded after Landis & Koch; Krippendorff's alpha
+(nominal) takes any number of coders and missing values, and is labelled with Krippendorff's
+own guidance: rely on at least 0.800, draw tentative conclusions only from 0.667 to 0.800.
+Agreement with "${TOOL_CODER}" is partly circular where the coder accepted its suggestions.
 
 Examples:
   trellis agree --coders priya,tom
+  trellis agree --coders priya,tom --list
   trellis agree --coders priya,trellis --transcript t05-ward9-fy2`,
     )
-    .action(async (opts: StudyOpts & { coders: string[]; transcript?: string[] }) => {
+    .action(async (opts: StudyOpts & { coders: string[]; transcript?: string[]; list?: boolean }) => {
       if (opts.coders.length < 2) throw new UserError('agreement needs two or more coders: --coders A,B');
       await withStudy(opts, (db) => {
         requireTranscripts(db, opts.transcript);
         const r = agreement(db, { coders: opts.coders, transcripts: opts.transcript });
         if (opts.json) return printJson(r);
         const name = themeNames(db);
-        say(`Coders: ${r.coders.join(', ')}; ${r.pairablePassages} passages looked at by two or more of them.`);
+        say(`Coders: ${r.coders.join(', ')}. Units: ${plural(r.pairablePassages, 'participant passage')} reviewed by two or more of them (coded, decided on, or marked nothing to code).`);
+        if (!r.pairablePassages) {
+          say('No passage was reviewed by two of these coders, so there is no agreement to measure.');
+          return;
+        }
         say(
           table(
-            ['theme', 'units', 'agreement', 'kappa', 'alpha', 'band (alpha)'],
+            ['theme', 'units', 'agreement', 'kappa', 'kappa band', 'alpha', 'alpha guidance'],
             [
-              ...r.themes.filter((t) => t.units).map((t) => [name(t.themeId), t.units, pct(t.percentAgreement), fix(t.kappa.value), fix(t.alpha.value), t.alpha.band ?? '-']),
-              ['all themes, pooled', r.pooled.units, pct(r.pooled.percentAgreement), fix(r.pooled.kappa.value), fix(r.pooled.alpha.value), r.pooled.alpha.band ?? '-'],
-              ['mean of themes', '', pct(r.meanOfThemes.percentAgreement), fix(r.meanOfThemes.kappa), fix(r.meanOfThemes.alpha), ''],
+              ...r.themes.filter((t) => t.units).map((t) => [name(t.themeId), t.units, pct(t.percentAgreement), fix(t.kappa.value), t.kappa.band ?? '-', fix(t.alpha.value), t.alpha.guidance ?? '-']),
+              ['all themes, pooled', r.pooled.units, pct(r.pooled.percentAgreement), fix(r.pooled.kappa.value), r.pooled.kappa.band ?? '-', fix(r.pooled.alpha.value), r.pooled.alpha.guidance ?? '-'],
+              [`mean of themes (alpha over ${r.meanOfThemes.themesInAlpha})`, '', pct(r.meanOfThemes.percentAgreement), fix(r.meanOfThemes.kappa), '', fix(r.meanOfThemes.alpha), ''],
             ] as (string | number)[][],
           ),
         );
-        say(`\nBands: ${r.bandsSource}`);
-        say(r.caution);
+        say('\nUnits: per theme, the passages compared; pooled, every passage-theme pair of those passages.');
+        say(`Kappa bands: ${r.bandsSource}`);
+        say(`Alpha guidance: ${r.guidance_source}`);
+        const accepted = r.accepted_codings.filter((a) => a.accepted);
+        if (r.circularity) {
+          say(`\n${r.circularity}`);
+          for (const a of accepted) say(`  ${a.coder}: ${a.accepted} of ${plural(a.codings, 'coding')} on these units made by accepting a suggestion`);
+        }
+        say(`\n${r.caution}`);
+        if (opts.list) {
+          say(`\nPassages where the coders differ (${plural(r.disagreements.length, 'passage-theme pair')}):`);
+          if (!r.disagreements.length) say('  none: the coders agree on every unit.');
+          let theme = '';
+          for (const d of r.disagreements) {
+            if (d.theme_id !== theme) {
+              theme = d.theme_id;
+              say(`\n${name(theme)}`);
+            }
+            const text = getPassage(db, d.passage_id)?.text ?? '';
+            say(`  ${d.passage_id}  applied by ${d.applied_by.join(', ')}; not by ${d.not_by.join(', ')}`);
+            say(`      "${clipText(text, 100)}"`);
+          }
+        }
       });
     });
+}
+
+function clipText(text: string, n: number): string {
+  const flat = text.replace(/\s+/g, ' ').trim();
+  return flat.length > n ? flat.slice(0, n - 1).trimEnd() + '…' : flat;
 }

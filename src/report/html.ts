@@ -3,7 +3,7 @@
  * fetched) for a supervisor, a funder or the team's own audit trail. Pure: ReportData in, text out.
  */
 
-import { AGREEMENT_CAUTION, LANDIS_KOCH_BANDS, agreementBand } from '../measure/bands.js';
+import { AGREEMENT_CAUTION, KRIPPENDORFF_GUIDANCE, LANDIS_KOCH_BANDS } from '../measure/bands.js';
 import { FEW_DECISIONS, acceptanceChart, calibrationChart, heatmapChart, overTimeChart, saturationChart, themeLabeller, unclaimedChart } from './charts.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, fixed, int, oneLine, pct, plural, when } from './escape.js';
@@ -93,9 +93,7 @@ function summary(d: ReportData): string {
     stat(a.decided ? pct(a.rate) : '–', 'suggestions accepted', a.decided ? `${int(a.accepted)} of ${int(a.decided)} decided` : 'no decisions yet'),
     stat(d.unclaimed.share === null ? '–' : pct(d.unclaimed.share), 'passages unclaimed', d.unclaimed.share === null ? 'not yet measured' : `${int(d.unclaimed.unclaimed)} of ${int(d.unclaimed.passages)}; ${plural(d.unclaimed.clusters.length, 'cluster')}`),
   ];
-  const ag = d.agreement?.rows.find((r) => /pooled/i.test(r.theme)) ?? null;
-  // The row's band may belong to another coefficient: the card names the band of its own value.
-  if (ag) cards.push(stat(fixed(ag.kappa), "Cohen's κ, pooled", `${agreementBand(ag.kappa) ?? 'undefined'}; ${d.agreement!.coders.join(' and ')}`));
+  // Agreement is a section of its own, with its units and caveats, not a headline figure.
   const sentence =
     `This report covers ${plural(c.transcripts, 'transcript')} divided into ${plural(c.passages, 'passage')}, ` +
     `${int(c.coded)} of which carry at least one theme from a template of ${plural(c.themes, 'theme')}` +
@@ -268,7 +266,7 @@ function unclaimed(d: ReportData): string {
 function agreement(d: ReportData): string {
   const ag = d.agreement;
   if (!ag || !ag.rows.length) {
-    return empty('No two coders have coded the same passages yet, so inter-coder agreement cannot be reported. Agreement needs a second coder to code a shared set of transcripts independently.');
+    return empty('No two coders have reviewed the same passages yet, so inter-coder agreement cannot be reported. Agreement needs a second coder to code a shared set of transcripts independently.');
   }
   const label = themeLabeller(d.themes);
   const rows = ag.rows
@@ -277,15 +275,22 @@ function agreement(d: ReportData): string {
       const l = label(r.theme);
       return (
         `<tr${pooled ? ' class="pooled"' : ''}><td>${esc(pooled ? r.theme : l.label)}</td><td class="num">${int(r.units)}</td>` +
-        `<td class="num">${pct(r.percentAgreement, 1)}</td><td class="num">${fixed(r.kappa)}</td><td class="num">${fixed(r.alpha)}</td><td>${r.band ? esc(r.band) : '–'}</td></tr>`
+        `<td class="num">${pct(r.percentAgreement, 1)}</td><td class="num">${fixed(r.kappa)}</td><td>${r.kappaBand ? esc(r.kappaBand) : '–'}</td>` +
+        `<td class="num">${fixed(r.alpha)}</td><td>${r.alphaGuidance ? esc(r.alphaGuidance) : '–'}</td></tr>`
       );
     })
     .join('\n');
   const key = LANDIS_KOCH_BANDS.map((b) => `${b.label} ${b.range}`).join('; ');
+  const guide = KRIPPENDORFF_GUIDANCE.map((g) => `${g.label}: ${g.rule}`).join('; ');
   return (
-    `<p>${esc(`Coders compared: ${ag.coders.join(', ')}. For each theme, every passage both coders coded is a unit, and they agree on it when both applied the theme or neither did. Themes are compared as coded: a coding to a sub-theme does not count for its parent.`)}</p>` +
-    `<table class="agreement"><thead><tr><th scope="col">Theme</th><th scope="col" class="num">Passages compared</th><th scope="col" class="num">Percent agreement</th><th scope="col" class="num">Cohen's κ</th><th scope="col" class="num">Krippendorff's α</th><th scope="col">Band (of α)</th></tr></thead><tbody>${rows}</tbody></table>` +
-    `<p class="note">${esc(`Bands (${key}) follow ${ag.bandsSource}`)}</p>` +
+    `<p>${esc(
+      `Coders compared: ${ag.coders.join(', ')}. The units are the ${plural(ag.units, 'participant passage')} that two or more of them reviewed: coded, decided on a suggestion for, or marked "reviewed, nothing to code". Interviewer turns and sheet rows left empty are not units. ` +
+        'For each theme, coders agree on a unit when all applied the theme or none did. Themes are compared as coded: a coding to a sub-theme does not count for its parent. Each figure rests on the units in its row.',
+    )}</p>` +
+    `<table class="agreement"><thead><tr><th scope="col">Theme</th><th scope="col" class="num">Units</th><th scope="col" class="num">Percent agreement</th><th scope="col" class="num">Cohen's κ</th><th scope="col">Band of κ</th><th scope="col" class="num">Krippendorff's α</th><th scope="col">Guidance for α</th></tr></thead><tbody>${rows}</tbody></table>` +
+    `<p class="note">${esc(`The pooled row counts every passage-theme pair of the units. Bands of κ (${key}) follow ${ag.bandsSource} Guidance for α (${guide}) follows ${ag.guidanceSource}`)}</p>` +
+    (ag.disagreements ? `<p>${esc(`The coders differ on ${plural(ag.disagreements, 'passage-theme pair')}; "trellis agree --coders ${ag.coders.join(',')} --list" lists them, theme by theme, for the team to discuss.`)}</p>` : '') +
+    (ag.circularity ? `<p class="callout">${esc(ag.circularity)}</p>` : '') +
     `<p class="callout">${esc(ag.caution || AGREEMENT_CAUTION)}</p>`
   );
 }

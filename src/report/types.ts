@@ -60,8 +60,10 @@ export interface AgreementRow {
   percentAgreement: number | null;
   kappa: number | null;
   alpha: number | null;
-  /** Landis & Koch band of alpha. */
-  band: string | null;
+  /** Landis & Koch band of kappa. */
+  kappaBand: string | null;
+  /** Krippendorff's guidance for alpha: reliable, tentative, unreliable. */
+  alphaGuidance: string | null;
 }
 
 export interface ReportData {
@@ -86,6 +88,18 @@ export interface ReportData {
     overTime: { index: number; at: string; rate: number }[]; calibration: CalibrationRow[] };
   saturation: { transcript: string; order: number; newThemes: number; newSubThemes: number; cumulative: number }[];
   unclaimed: { share: number | null; passages: number; unclaimed: number; clusters: ReportCluster[] };
-  agreement: { coders: string[]; rows: AgreementRow[]; bandsSource: string; caution: string } | null;
+  agreement: {
+    coders: string[];
+    /** Participant passages reviewed by two or more of the coders: the units. */
+    units: number;
+    rows: AgreementRow[];
+    /** Passage-theme pairs on which the coders differ (listed by "trellis agree --list"). */
+    disagreements: number;
+    bandsSource: string;
+    guidanceSource: string;
+    /** Said when a coder's codings include accepted suggestions. */
+    circularity: string | null;
+    caution: string;
+  } | null;
   cautions: string[];
 }

@@ -17,6 +17,12 @@ export interface SheetRow {
   themes: string[];
 }
 
+/**
+ * Written in the themes cell, alone, for a passage the coder read and judged to need no theme
+ * ("reviewed, nothing to code"); an empty cell means the passage was not coded (or not yet read).
+ */
+export const NOTHING_TO_CODE = 'nothing to code';
+
 /** A parsed row of an imported sheet; `row` is the spreadsheet row number (the header is row 1). */
 export interface ImportedRow {
   row: number;
@@ -24,6 +30,8 @@ export interface ImportedRow {
   /** null when the sheet has no text column (the text check is then skipped). */
   text: string | null;
   themes: string[];
+  /** The themes cell says NOTHING_TO_CODE. */
+  nothing: boolean;
 }
 
 // A cell starting with one of these is read as a formula by spreadsheet programs; a leading
@@ -62,12 +70,16 @@ export function parseSheet(text: string, file: string): ImportedRow[] {
     if (!cols.includes(need)) throw new UserError(`the coding sheet has no "${need}" column (found: ${cols.join(', ')})`, file, 1);
   }
   const hasText = cols.includes('text');
-  return records.map(({ record }, i) => ({
-    row: i + 2,
-    passageId: (record.passage_id ?? '').trim(),
-    text: hasText ? uncell(record.text ?? '') : null,
-    themes: [...new Set(splitPathList(record.themes ?? ''))],
-  }));
+  return records.map(({ record }, i) => {
+    const nothing = (record.themes ?? '').trim().toLowerCase() === NOTHING_TO_CODE;
+    return {
+      row: i + 2,
+      passageId: (record.passage_id ?? '').trim(),
+      text: hasText ? uncell(record.text ?? '') : null,
+      themes: nothing ? [] : [...new Set(splitPathList(record.themes ?? ''))],
+      nothing,
+    };
+  });
 }
 
 /** Seconds as h:mm:ss for the sheet's time column. */

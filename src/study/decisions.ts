@@ -210,7 +210,7 @@ export function markNothingToCode(db: DB, passageIds: readonly string[], coder: 
 }
 
 /** Passage id -> decision id of this coder's standing "nothing to code" marks. */
-function nothingToCodeBy(db: DB, coder: string): Map<string, number> {
+export function nothingToCodeBy(db: DB, coder: string): Map<string, number> {
   const rows = db
     .prepare(
       `SELECT d.id, d.passage_id FROM decisions d WHERE d.action = 'nocode' AND d.coder = ?

@@ -1,5 +1,5 @@
 import { acceptanceReport, type AcceptanceReport, type DecisionRecord } from '../measure/acceptance.js';
-import { agreementReport, type AgreementReport, type CodingRecord, type CodedRecord } from '../measure/agreement.js';
+import { CIRCULARITY_NOTE, agreementReport, type AgreementReport, type CodingRecord, type CodedRecord } from '../measure/agreement.js';
 import { saturationCurve, type SaturationReport } from '../measure/saturation.js';
 import { walk } from '../template/paths.js';
 import type { DB } from './db.js';
@@ -137,32 +137,62 @@ export interface AgreementOptions {
   transcripts?: string[];
 }
 
+export interface StudyAgreement extends AgreementReport {
+  /**
+   * For each human coder: their codings on the units, and how many of them were made by accepting
+   * a suggestion (one by one or in bulk). Such codings agree with the suggestions by construction.
+   */
+  accepted_codings: { coder: string; codings: number; accepted: number }[];
+  /** The circularity note, when the suggestions are among the coders or a coder accepted suggestions. */
+  circularity: string | null;
+}
+
 /**
- * Inter-coder agreement over the passages the named coders looked at. The name `trellis` stands
- * for the tool: its above-threshold suggestions from the latest run that covered each passage.
+ * Inter-coder agreement. Units are participant passages that the coders actually reviewed: a
+ * coder reviewed a passage when they coded it, decided on a suggestion for it (a defer is not a
+ * decision), or marked it "reviewed, nothing to code". An empty sheet row is not a review, and
+ * interviewer turns are never units. The name `trellis` stands for the tool: its above-threshold
+ * suggestions from the latest run that scored each passage.
  */
-export function agreement(db: DB, opts: AgreementOptions): AgreementReport {
+export function agreement(db: DB, opts: AgreementOptions): StudyAgreement {
   const inTranscripts = <R extends { transcript: string }>(rows: R[]): R[] =>
     opts.transcripts?.length ? rows.filter((r) => opts.transcripts!.includes(r.transcript)) : rows;
   const humans = opts.coders.filter((c) => c !== TOOL_CODER);
-  const q = (sql: string, ...args: unknown[]) => db.prepare(sql).all(...args) as { coder: string; passage_id: string; transcript: string; theme_id?: string }[];
+  const q = (sql: string, ...args: unknown[]) =>
+    db.prepare(sql).all(...args) as { coder: string; passage_id: string; transcript: string; theme_id?: string; origin?: string }[];
   const marks = humans.map(() => '?').join(',');
-  const seen = humans.length
-    ? inTranscripts(q(`SELECT s.coder, s.passage_id, t.name AS transcript FROM seen s JOIN passages p ON p.id = s.passage_id JOIN transcripts t ON t.id = p.transcript_id WHERE s.coder IN (${marks})`, ...humans))
+  const JOIN = `JOIN passages p ON p.id = x.passage_id JOIN transcripts t ON t.id = p.transcript_id`;
+  const decided = humans.length
+    ? inTranscripts(
+        q(
+          `SELECT DISTINCT x.coder, x.passage_id, t.name AS transcript FROM decisions x ${JOIN}
+           WHERE x.coder IN (${marks}) AND p.role = 'participant' AND x.action IN ('accept', 'reject', 'recode', 'nocode')
+           AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = x.id)`,
+          ...humans,
+        ),
+      )
     : [];
   const codings = humans.length
-    ? inTranscripts(q(`SELECT c.coder, c.passage_id, c.theme_id, t.name AS transcript FROM codings c JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id WHERE c.removed_at IS NULL AND c.coder IN (${marks})`, ...humans))
+    ? inTranscripts(
+        q(
+          `SELECT x.coder, x.passage_id, x.theme_id, x.origin, t.name AS transcript FROM codings x ${JOIN}
+           WHERE x.removed_at IS NULL AND p.role = 'participant' AND x.coder IN (${marks})`,
+          ...humans,
+        ),
+      )
     : [];
-  const coded: CodedRecord[] = seen.map((s) => ({ coder: s.coder, passageId: s.passage_id }));
+  const coded: CodedRecord[] = decided.map((s) => ({ coder: s.coder, passageId: s.passage_id }));
   const records: CodingRecord[] = codings.map((c) => ({ coder: c.coder, passageId: c.passage_id, themeId: c.theme_id! }));
   for (const c of codings) coded.push({ coder: c.coder, passageId: c.passage_id });
   if (opts.coders.includes(TOOL_CODER)) {
-    // The latest run that covered each passage, and its chosen (above-threshold) themes.
+    // The latest scoring run of each passage, and its chosen (above-threshold) themes.
     const latest = inTranscripts(
       db
         .prepare(
           `SELECT s.passage_id, t.name AS transcript, MAX(s.run_id) AS run_id FROM suggestions s
-           JOIN passages p ON p.id = s.passage_id JOIN transcripts t ON t.id = p.transcript_id GROUP BY s.passage_id`,
+           JOIN passages p ON p.id = s.passage_id JOIN transcripts t ON t.id = p.transcript_id
+           WHERE p.role = 'participant' AND s.run_id IN (SELECT id FROM suggestion_runs WHERE options NOT LIKE '%"source":"promote"%')
+           GROUP BY s.passage_id`,
         )
         .all() as { passage_id: string; transcript: string; run_id: number }[],
     );
@@ -174,5 +204,15 @@ export function agreement(db: DB, opts: AgreementOptions): AgreementReport {
   }
   const passages = [...new Set(coded.map((c) => c.passageId))].sort();
   const themes = [...walk(currentTemplate(db))].map((e) => e.node.id);
-  return agreementReport({ passages, coders: opts.coders, themes, codings: records, coded });
+  const report = agreementReport({ passages, coders: opts.coders, themes, codings: records, coded });
+  // Codings on passages that are units (reviewed by two or more of the coders).
+  const reviewers = new Map<string, Set<string>>();
+  for (const c of coded) (reviewers.get(c.passageId) ?? reviewers.set(c.passageId, new Set()).get(c.passageId)!).add(c.coder);
+  const onUnits = codings.filter((c) => (reviewers.get(c.passage_id)?.size ?? 0) >= 2);
+  const accepted_codings = humans.map((coder) => {
+    const mine = onUnits.filter((c) => c.coder === coder);
+    return { coder, codings: mine.length, accepted: mine.filter((c) => c.origin === 'accepted' || c.origin === 'bulk').length };
+  });
+  const circular = opts.coders.includes(TOOL_CODER) || accepted_codings.some((a) => a.accepted > 0);
+  return { ...report, accepted_codings, circularity: circular ? CIRCULARITY_NOTE : null };
 }

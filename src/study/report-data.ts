@@ -119,13 +119,25 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
       agree && agree.pairablePassages
         ? {
             coders: agree.coders,
+            units: agree.pairablePassages,
             rows: [
               ...agree.themes
                 .filter((t) => t.present > 0)
-                .map((t) => ({ theme: paths.get(t.themeId) ?? t.themeId, units: t.units, percentAgreement: t.percentAgreement, kappa: t.kappa.value, alpha: t.alpha.value, band: t.alpha.band })),
-              { theme: 'all themes, pooled', units: agree.pooled.units, percentAgreement: agree.pooled.percentAgreement, kappa: agree.pooled.kappa.value, alpha: agree.pooled.alpha.value, band: agree.pooled.alpha.band },
+                .map((t) => ({ theme: paths.get(t.themeId) ?? t.themeId, units: t.units, percentAgreement: t.percentAgreement, kappa: t.kappa.value, alpha: t.alpha.value, kappaBand: t.kappa.band, alphaGuidance: t.alpha.guidance })),
+              {
+                theme: 'all themes, pooled',
+                units: agree.pooled.units,
+                percentAgreement: agree.pooled.percentAgreement,
+                kappa: agree.pooled.kappa.value,
+                alpha: agree.pooled.alpha.value,
+                kappaBand: agree.pooled.kappa.band,
+                alphaGuidance: agree.pooled.alpha.guidance,
+              },
             ],
+            disagreements: agree.disagreements.length,
             bandsSource: agree.bandsSource,
+            guidanceSource: agree.guidance_source,
+            circularity: agree.circularity,
             caution: agree.caution,
           }
         : null,

@@ -1,5 +1,6 @@
 import { UserError } from '../errors.js';
-import { clock, type ImportedRow, type SheetRow } from '../sheet/sheet.js';
+import { NOTHING_TO_CODE, clock, type ImportedRow, type SheetRow } from '../sheet/sheet.js';
+import { markNothingToCode, nothingToCodeBy, undo } from './decisions.js';
 import { findByPath, pathOf } from '../template/paths.js';
 import { codingSetter, currentCodings } from './codings.js';
 import type { DB } from './db.js';
@@ -11,6 +12,7 @@ export function sheetRows(db: DB, opts: { transcripts?: string[]; coder?: string
   const template = currentTemplate(db);
   const byPassage = new Map<string, string[]>();
   if (opts.coder) {
+    for (const id of nothingToCodeBy(db, opts.coder).keys()) byPassage.set(id, [NOTHING_TO_CODE]);
     for (const c of currentCodings(db, opts.coder)) {
       const path = safePath(template, c.theme_id);
       if (path) byPassage.set(c.passage_id, [...(byPassage.get(c.passage_id) ?? []), path]);
@@ -42,6 +44,8 @@ export interface SheetImportReport {
   coded: number;
   added: number;
   removed: number;
+  /** Rows marked "nothing to code". */
+  nothing_to_code: number;
 }
 
 /**
@@ -51,7 +55,7 @@ export interface SheetImportReport {
 export function importSheet(db: DB, rows: ImportedRow[], file: string, coder: string): SheetImportReport {
   const rev = currentRevision(db);
   const problems: string[] = [];
-  const resolved: { passageId: string; themeIds: string[] }[] = [];
+  const resolved: { passageId: string; themeIds: string[]; nothing: boolean; row: number }[] = [];
   const seen = new Map<string, number>();
   for (const r of rows) {
     if (!r.passageId) {
@@ -81,24 +85,33 @@ export function importSheet(db: DB, rows: ImportedRow[], file: string, coder: st
         problems.push(`row ${r.row}: theme "${path}": ${e.message}`);
       }
     }
-    resolved.push({ passageId: r.passageId, themeIds: [...new Set(ids)] });
+    if (r.nothing && p.role !== 'participant') problems.push(`row ${r.row}: passage "${r.passageId}" is an interviewer turn: there is nothing to mark`);
+    resolved.push({ passageId: r.passageId, themeIds: [...new Set(ids)], nothing: r.nothing, row: r.row });
   }
   if (problems.length) {
     const shown = problems.slice(0, 20);
     if (problems.length > shown.length) shown.push(`... and ${problems.length - shown.length} more`);
     throw new UserError(`nothing was imported; ${problems.length === 1 ? 'one problem' : problems.length + ' problems'}:\n  ${shown.join('\n  ')}`, file);
   }
-  const report: SheetImportReport = { rows: rows.length, coded: 0, added: 0, removed: 0 };
+  const report: SheetImportReport = { rows: rows.length, coded: 0, added: 0, removed: 0, nothing_to_code: 0 };
   db.transaction(() => {
     const set = codingSetter(db);
     const seen = db.prepare('INSERT OR IGNORE INTO seen (coder, passage_id) VALUES (?, ?)');
+    const marked = nothingToCodeBy(db, coder);
+    const marks: string[] = [];
     for (const r of resolved) {
       seen.run(coder, r.passageId);
       const { added, removed } = set(r.passageId, coder, r.themeIds, 'sheet', rev?.rev ?? 0);
       report.added += added;
       report.removed += removed;
       if (r.themeIds.length) report.coded++;
+      const mark = marked.get(r.passageId);
+      if (r.nothing && mark === undefined) marks.push(r.passageId);
+      // The sheet now codes a passage this coder had marked nothing to code: the mark is withdrawn (logged).
+      if (!r.nothing && r.themeIds.length && mark !== undefined) undo(db, coder, mark, `coded in ${file}`);
+      if (r.nothing) report.nothing_to_code++;
     }
+    if (marks.length) markNothingToCode(db, marks, coder, `marked in ${file}`);
   })();
   return report;
 }

@@ -75,6 +75,16 @@ describe('trellis nocode', () => {
     const back: Suggested = json(dir, ['suggest', '--transcript', 't05-ward9-fy2']);
     expect(back.passages.map((p) => p.passage_id)).toContain(marked[1]);
     expect(json(dir, ['stats']).nothing_to_code).toEqual({ decisions: 1, passages: 1 });
+
+    // Agreement with the suggestions: units are the passages ana reviewed (her mark, her accept),
+    // and the figure is flagged as partly circular, with her accepted codings counted.
+    const top = back.passages.find((p) => p.candidates.length && p.passage_id !== marked[1])!;
+    json(dir, ['decide', String(top.candidates[0]!.suggestion_id), 'accept', '--coder', 'ana']);
+    const ag = json(dir, ['agree', '--coders', 'ana,trellis']);
+    expect(ag.pairablePassages).toBe(2);
+    expect(ag.circularity).toMatch(/partly circular/);
+    expect(ag.accepted_codings).toEqual([{ coder: 'ana', codings: 1, accepted: 1 }]);
+    expect(trellis(['agree', '--coders', 'ana,trellis'], dir).stdout).toMatch(/ana: 1 of 1 coding on these units made by accepting a suggestion/);
   });
 
   it('refuses an unknown passage, an interviewer turn, a coded passage, a second mark and no passage at all, leaving the study unchanged', () => {

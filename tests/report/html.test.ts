@@ -185,7 +185,7 @@ describe('renderReport for a study just begun', () => {
       'No transcript has been coded yet, so there is no saturation curve.',
       'The unclaimed share has not been measured yet',
       'No clusters have been formed from the unclaimed passages yet.',
-      'No two coders have coded the same passages yet, so inter-coder agreement cannot be reported.',
+      'No two coders have reviewed the same passages yet, so inter-coder agreement cannot be reported.',
       'No passages have been coded yet, so there are no quotes to show.',
       'No cautions were recorded with this report.',
     ]) {

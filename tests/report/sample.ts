@@ -4,7 +4,7 @@
  * figures are made up for the tests; counts come from a seeded generator so every run is equal.
  */
 
-import { AGREEMENT_CAUTION, LANDIS_KOCH_SOURCE, agreementBand } from '../../src/measure/bands.js';
+import { AGREEMENT_CAUTION, KRIPPENDORFF_SOURCE, LANDIS_KOCH_SOURCE, agreementBand, alphaGuidance } from '../../src/measure/bands.js';
 import type { AcceptanceRow, CalibrationRow, ReportCluster, ReportData, ReportTheme } from '../../src/report/types.js';
 import { seededRandom } from '../../src/measure/random.js';
 
@@ -362,9 +362,10 @@ export function sampleReport(): ReportData {
     percentAgreement: pa as number,
     kappa: k as number,
     alpha: a as number,
-    band: agreementBand(a as number),
+    kappaBand: agreementBand(k as number),
+    alphaGuidance: alphaGuidance(a as number),
   }));
-  agreementRows.push({ theme: 'all themes, pooled', units: 708, percentAgreement: 0.891, kappa: 0.64, alpha: 0.641, band: agreementBand(0.641) });
+  agreementRows.push({ theme: 'all themes, pooled', units: 708, percentAgreement: 0.891, kappa: 0.64, alpha: 0.641, kappaBand: agreementBand(0.64), alphaGuidance: alphaGuidance(0.641) });
 
   return {
     title: 'Electronic handover on four wards: template analysis',
@@ -440,7 +441,16 @@ export function sampleReport(): ReportData {
     },
     saturation,
     unclaimed: { share: unclaimedCount / scored, passages: scored, unclaimed: unclaimedCount, clusters },
-    agreement: { coders: ['alex', 'sam'], rows: agreementRows, bandsSource: LANDIS_KOCH_SOURCE, caution: AGREEMENT_CAUTION },
+    agreement: {
+      coders: ['alex', 'sam'],
+      units: 118,
+      rows: agreementRows,
+      disagreements: 41,
+      bandsSource: LANDIS_KOCH_SOURCE,
+      guidanceSource: KRIPPENDORFF_SOURCE,
+      circularity: null,
+      caution: AGREEMENT_CAUTION,
+    },
     cautions: [
       'Suggestions are aids, not codings: every coding in this report was made or confirmed by a researcher.',
       'Acceptance measures how often coders took suggestions; a high rate can also mean coders deferred to the tool. Read it together with the agreement figures.',
