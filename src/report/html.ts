@@ -103,8 +103,10 @@ function summary(d: ReportData): string {
   return `<div class="stats">${cards.join('')}</div>\n<p>${esc(sentence)}</p>`;
 }
 
-function templateTree(themes: readonly ReportTheme[]): string {
-  if (!themes.length) return empty('The template has no themes yet.');
+function templateTree(all: readonly ReportTheme[], d?: ReportData): string {
+  if (!all.length) return empty('The template has no themes yet.');
+  const themes = all.filter((t) => !t.integrative);
+  const across = all.filter((t) => t.integrative);
   const rows = themes.map((t) => {
     const level = t.number.split('.').length - 1;
     const def = t.definition ? `<span class="def">${esc(oneLine(t.definition))}</span>` : '';
@@ -117,7 +119,27 @@ function templateTree(themes: readonly ReportTheme[]): string {
   return (
     `<table class="tree"><caption>Themes in template order. "Coded to it": passages coded to the theme itself; "with sub-themes": to it or any theme below it (a passage counts once). Themes marked a priori were defined before coding began.</caption>` +
     `<thead><tr><th scope="col">No.</th><th scope="col">Theme</th><th scope="col" class="num">Coded to it</th><th scope="col" class="num">With sub-themes</th></tr></thead>` +
-    `<tbody>${rows.join('\n')}</tbody></table>`
+    `<tbody>${rows.join('\n')}</tbody></table>` +
+    (across.length && d ? integrativeTable(across, d) : '')
+  );
+}
+
+/** Integrative themes, apart from the hierarchy, with the top-level themes each runs across. */
+function integrativeTable(themes: readonly ReportTheme[], d: ReportData): string {
+  const tops = d.integrative?.[0]?.across.map((a) => a.name) ?? [];
+  const rows = themes.map((t) => {
+    const x = d.integrative?.find((i) => i.themeId === t.id);
+    const cells = tops.map((name) => `<td class="num">${x ? int(x.across.find((a) => a.name === name)?.passages ?? 0) : ''}</td>`).join('');
+    const level = t.number.split('.').length - 1;
+    return (
+      `<tr class="${level === 0 ? 'top' : 'sub'}"><td class="nowrap">${esc(t.number)}</td><td class="theme" style="padding-left:${(8 + level * 22).toFixed(0)}px"><span class="name">${esc(t.name)}</span>${t.apriori ? '<span class="tag">a priori</span>' : ''}</td>` +
+      `<td class="num">${int(t.total)}</td>${cells}</tr>`
+    );
+  });
+  return (
+    `<h3>Integrative themes</h3><p>${esc('Integrative themes run across the themes above rather than sitting under one; a passage carries them alongside any other theme. Each column counts the theme\'s passages that also carry that top-level theme (or a theme under it).')}</p>` +
+    `<div class="scroll"><table class="tree integrative"><thead><tr><th scope="col">No.</th><th scope="col">Theme</th><th scope="col" class="num">Passages</th>${tops.map((n) => `<th scope="col" class="num">${esc(n)}</th>`).join('')}</tr></thead>` +
+    `<tbody>${rows.join('\n')}</tbody></table></div>`
   );
 }
 
@@ -329,7 +351,7 @@ export function renderReport(data: ReportData): string {
   const body = [
     header,
     section('summary', summary(data)),
-    section('template', `<h3>The template</h3>\n${templateTree(data.themes)}\n<h3>Revision history</h3>\n${revisionHistory(data)}`),
+    section('template', `<h3>The template</h3>\n${templateTree(data.themes, data)}\n<h3>Revision history</h3>\n${revisionHistory(data)}`),
     section('coverage', coverage(data)),
     section('acceptance', acceptance(data)),
     section('saturation', saturation(data)),

@@ -7,6 +7,8 @@ export interface ReportTheme {
   path: string;
   depth: number;
   apriori: boolean;
+  /** An integrative theme, or under one: listed apart from the hierarchy. */
+  integrative?: boolean;
   definition: string;
   include: string;
   exclude: string;
@@ -102,4 +104,9 @@ export interface ReportData {
     caution: string;
   } | null;
   cautions: string[];
+  /**
+   * Each integrative theme: its passages, and how many of them carry each top-level theme.
+   * Absent or empty when the template has none.
+   */
+  integrative?: { themeId: string; name: string; passages: number; touches: number; across: { name: string; passages: number }[] }[];
 }

@@ -1,4 +1,5 @@
 import { basename, resolve } from 'node:path';
+import { integrativeCoverage } from '../measure/integrative.js';
 import type { ReportCluster, ReportData, ReportTheme } from '../report/types.js';
 import { clock } from '../sheet/sheet.js';
 import { describeChange } from '../template/describe.js';
@@ -52,6 +53,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
     path: e.path,
     depth: e.depth,
     apriori: e.node.apriori,
+    integrative: e.integrative,
     definition: e.node.definition,
     include: e.node.include,
     exclude: e.node.exclude,
@@ -142,6 +144,13 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
           }
         : null,
     cautions: opts.cautions,
+    integrative: integrativeCoverage(template, codings.map((c) => ({ passageId: c.passage_id, themeId: c.theme_id }))).map((x) => ({
+      themeId: x.theme_id,
+      name: x.name,
+      passages: x.passages,
+      touches: x.touches,
+      across: x.across.map((a) => ({ name: a.name, passages: a.passages })),
+    })),
   };
 }
 
