@@ -14,6 +14,7 @@ import { registerExport } from './export.js';
 import { registerReport } from './report.js';
 import { registerDiscover } from './discover.js';
 import { registerTemplate } from './template.js';
+import { registerMemo } from './memo.js';
 
 /** The cautions every report carries, one paragraph each. */
 export const REPORT_CAUTIONS = [
@@ -47,6 +48,7 @@ Examples:
   trellis review --coder alex                decide them one passage at a time
   trellis discover                           what the template misses
   trellis stats                              how often suggestions were accepted
+  trellis memo add "..." --theme Workload    a memo on a theme, transcript, passage or the study
   trellis report --out report.html           the study report
 ${CAUTIONS}`,
     );
@@ -65,6 +67,7 @@ ${CAUTIONS}`,
   registerExport(program);
   registerDiscover(program);
   registerReport(program);
+  registerMemo(program);
   return program;
 }
 

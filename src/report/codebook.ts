@@ -7,7 +7,7 @@
 import { stringify } from 'csv-stringify/sync';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, int, oneLine, plural, when } from './escape.js';
-import type { ReportData, ReportTheme } from './types.js';
+import type { ReportData, ReportMemo, ReportTheme } from './types.js';
 
 export type CodebookFormat = 'md' | 'html' | 'csv';
 
@@ -69,8 +69,15 @@ export function acrossText(d: ReportData, themeId: string): string | null {
 
 export const INTEGRATIVE_INTRO = 'Integrative themes run across the themes of the hierarchy rather than sitting under one; a passage carries them alongside any other theme.';
 
+/** Memos on the study as a whole: the codebook's preface. */
+function studyMemos(d: ReportData): ReportMemo[] {
+  return (d.memos ?? []).filter((m) => m.kind === 'study');
+}
+
 function markdown(d: ReportData, examples: number): string {
   const out: string[] = [`# Codebook: ${mdEscape(d.title)}`, '', mdEscape(intro(d)), ''];
+  const notes = studyMemos(d);
+  if (notes.length) out.push('## Memos on the study', '', ...notes.map((m) => `- ${mdEscape(m.text)} _(${mdEscape(m.author)}, ${when(m.at)})_`), '');
   if (!d.themes.length) return [...out, '_The template has no themes yet._', ''].join('\n');
 
   out.push('## Overview', '', '| No. | Theme | A priori | Passages (with sub-themes) |', '| --- | --- | --- | ---: |');
@@ -103,6 +110,7 @@ function markdown(d: ReportData, examples: number): string {
     field('Passages', mdEscape(counts(t)));
     const runs = acrossText(d, t.id);
     if (runs) field('Runs across', mdEscape(runs));
+    for (const m of t.memos ?? []) field('Memo', `${mdEscape(m.text)} _(${mdEscape(m.author)}, ${when(m.at)})_`);
     const qs = t.quotes.slice(0, examples);
     if (qs.length) {
       out.push('', qs.length === 1 ? 'Example:' : 'Examples:', '');
@@ -132,6 +140,8 @@ h2.entry-h { font-size: 1.25rem; }
 
 function html(d: ReportData, examples: number): string {
   const parts: string[] = [`<header><p class="meta">Codebook</p><h1>${esc(d.title)}</h1><p class="meta">${esc(intro(d))}</p></header>`];
+  const notes = studyMemos(d);
+  if (notes.length) parts.push(`<h2>Memos on the study</h2><ul>${notes.map((m) => `<li>${esc(oneLine(m.text))} <span class="note">(${esc(m.author)}, ${esc(when(m.at))})</span></li>`).join('')}</ul>`);
   if (!d.themes.length) {
     parts.push('<p class="empty">The template has no themes yet.</p>');
     return htmlDocument(`Codebook: ${d.title}`, BASE_CSS + CODEBOOK_CSS, parts.join('\n'));
@@ -155,6 +165,7 @@ function html(d: ReportData, examples: number): string {
     rows.push(['Passages', esc(counts(t))]);
     const runs = acrossText(d, t.id);
     if (runs) rows.push(['Runs across', esc(runs)]);
+    for (const m of t.memos ?? []) rows.push(['Memo', `${esc(oneLine(m.text))} <span class="note">(${esc(m.author)}, ${esc(when(m.at))})</span>`]);
     const qs = t.quotes.slice(0, examples);
     parts.push(
       `<section class="entry${level(t) === 0 ? ' top' : ''}"><h${h} class="entry-h">${esc(`${t.number} ${t.name}`)}${t.apriori ? '<span class="tag">a priori</span>' : ''}</h${h}>` +

@@ -7,7 +7,7 @@ import { AGREEMENT_CAUTION, KRIPPENDORFF_GUIDANCE, LANDIS_KOCH_BANDS } from '../
 import { FEW_DECISIONS, acceptanceChart, calibrationChart, heatmapChart, overTimeChart, saturationChart, themeLabeller, unclaimedChart } from './charts.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, fixed, int, oneLine, pct, plural, when } from './escape.js';
-import type { ReportCluster, ReportData, ReportTheme } from './types.js';
+import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from './types.js';
 
 const REPORT_CSS = `
 header.doc { border-bottom: 1px solid var(--rule); padding-bottom: 16px; }
@@ -45,6 +45,8 @@ table.agreement tr.pooled td { font-weight: 700; border-top: 2px solid var(--rul
 .terms { display: flex; flex-wrap: wrap; gap: 6px; list-style: none; padding: 0; margin: 6px 0; }
 .terms li { border: 1px solid var(--rule); border-radius: 3px; padding: 0 7px; font-size: 0.85rem; background: var(--tint); }
 .theme-quotes { margin: 18px 0 26px; }
+.memo { border-left: 3px solid var(--rule); padding: 0 0 0 12px; margin: 10px 0; }
+.memo p { margin: 2px 0; max-width: 80ch; }
 ul.cautions li { margin: 6px 0; max-width: 80ch; }
 @media print { nav.toc { display: none; } .scroll { overflow: visible; } .scroll svg.chart { max-width: 100%; } }
 `;
@@ -57,6 +59,7 @@ const SECTIONS = [
   ['saturation', 'Saturation'],
   ['unclaimed', 'Unclaimed passages and clusters'],
   ['agreement', 'Inter-coder agreement'],
+  ['memos', 'Memos'],
   ['quotes', 'Representative quotes'],
   ['cautions', 'Cautions'],
 ] as const;
@@ -317,6 +320,33 @@ function agreement(d: ReportData): string {
   );
 }
 
+const MEMO_GROUPS: [ReportMemo['kind'], string][] = [
+  ['study', 'On the study'],
+  ['theme', 'On themes'],
+  ['transcript', 'On transcripts'],
+  ['passage', 'On passages'],
+];
+
+function memosSection(d: ReportData): string {
+  const all = d.memos ?? [];
+  if (!all.length) return empty('No memos have been written yet ("trellis memo add", or the coding sheet\'s note column).');
+  const parts = [`<p>${esc(`${plural(all.length, 'memo')}: the analysts' notes on the study, its themes, transcripts and passages, oldest first in each group.`)}</p>`];
+  for (const [kind, title] of MEMO_GROUPS) {
+    const ms = all.filter((m) => m.kind === kind);
+    if (!ms.length) continue;
+    parts.push(
+      `<h3>${esc(title)}</h3>` +
+        ms
+          .map(
+            (m) =>
+              `<article class="memo"><p class="meta">${esc(`${kind === 'study' ? '' : `${m.label} · `}${m.author} · ${when(m.at)} · memo #${m.id}`)}</p><p>${esc(m.text)}</p></article>`,
+          )
+          .join(''),
+    );
+  }
+  return parts.join('\n');
+}
+
 function quotes(d: ReportData): string {
   const withQuotes = d.themes.filter((t) => t.quotes.length);
   if (!withQuotes.length) return empty('No passages have been coded yet, so there are no quotes to show.');
@@ -357,6 +387,7 @@ export function renderReport(data: ReportData): string {
     section('saturation', saturation(data)),
     section('unclaimed', unclaimed(data)),
     section('agreement', agreement(data)),
+    section('memos', memosSection(data)),
     section('quotes', quotes(data)),
     section('cautions', cautions(data)),
     `<footer class="doc">${esc(`Made by trellis from the study's own records, on this computer. ${when(data.generatedAt)}.`)}</footer>`,

@@ -16,8 +16,22 @@ export interface ReportTheme {
   /** Passages coded to this theme itself / to it or any sub-theme. */
   direct: number;
   total: number;
+  /** Memos on this theme, oldest first. */
+  memos?: ReportMemo[];
   /** Most representative coded quotes (closest to the theme's centroid first). */
   quotes: { passageId: string; transcript: string; speaker: string | null; time: string; text: string }[];
+}
+
+export interface ReportMemo {
+  id: number;
+  at: string;
+  author: string;
+  kind: 'study' | 'theme' | 'transcript' | 'passage';
+  /** Theme id, transcript name or passage id; null for the study. */
+  target: string | null;
+  /** The theme's current path, the transcript name or passage id, or "the study". */
+  label: string;
+  text: string;
 }
 
 export interface ReportRevision {
@@ -104,6 +118,8 @@ export interface ReportData {
     caution: string;
   } | null;
   cautions: string[];
+  /** Every memo, oldest first; theme memos also sit on their theme (ReportTheme.memos). */
+  memos?: ReportMemo[];
   /**
    * Each integrative theme: its passages, and how many of them carry each top-level theme.
    * Absent or empty when the template has none.

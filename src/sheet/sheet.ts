@@ -4,7 +4,7 @@ import { UserError } from '../errors.js';
 import { splitPathList } from '../template/paths.js';
 
 /** The coding sheet: one row a passage, opened in a spreadsheet, coded, and imported back. */
-export const SHEET_COLUMNS = ['passage_id', 'transcript', 'speaker', 'role', 'time', 'text', 'themes'] as const;
+export const SHEET_COLUMNS = ['passage_id', 'transcript', 'speaker', 'role', 'time', 'text', 'themes', 'note'] as const;
 
 export interface SheetRow {
   passage_id: string;
@@ -15,6 +15,8 @@ export interface SheetRow {
   text: string;
   /** Theme paths, levels joined by " > ". */
   themes: string[];
+  /** The coder's latest memo on the passage ('' when none): the note column. */
+  note: string;
 }
 
 /**
@@ -32,6 +34,8 @@ export interface ImportedRow {
   themes: string[];
   /** The themes cell says NOTHING_TO_CODE. */
   nothing: boolean;
+  /** The note cell; null when the sheet has no note column. */
+  note: string | null;
 }
 
 // A cell starting with one of these is read as a formula by spreadsheet programs; a leading
@@ -49,7 +53,7 @@ function uncell(v: string): string {
 /** CSV text: UTF-8 with BOM (so spreadsheet programs detect the encoding), CRLF, quoted where needed. */
 export function writeSheet(rows: SheetRow[]): string {
   const body = stringify(
-    rows.map((r) => [r.passage_id, r.transcript, cell(r.speaker), r.role, r.time, cell(r.text), r.themes.join('; ')]),
+    rows.map((r) => [r.passage_id, r.transcript, cell(r.speaker), r.role, r.time, cell(r.text), r.themes.join('; '), cell(r.note)]),
     { header: true, columns: [...SHEET_COLUMNS], record_delimiter: '\r\n', quoted_match: /[\n",;]/ },
   );
   return '\ufeff' + body;
@@ -70,6 +74,7 @@ export function parseSheet(text: string, file: string): ImportedRow[] {
     if (!cols.includes(need)) throw new UserError(`the coding sheet has no "${need}" column (found: ${cols.join(', ')})`, file, 1);
   }
   const hasText = cols.includes('text');
+  const hasNote = cols.includes('note');
   return records.map(({ record }, i) => {
     const nothing = (record.themes ?? '').trim().toLowerCase() === NOTHING_TO_CODE;
     return {
@@ -78,6 +83,7 @@ export function parseSheet(text: string, file: string): ImportedRow[] {
       text: hasText ? uncell(record.text ?? '') : null,
       themes: nothing ? [] : [...new Set(splitPathList(record.themes ?? ''))],
       nothing,
+      note: hasNote ? uncell(record.note ?? '').trim() : null,
     };
   });
 }

@@ -1,6 +1,7 @@
 import { basename, resolve } from 'node:path';
 import { integrativeCoverage } from '../measure/integrative.js';
-import type { ReportCluster, ReportData, ReportTheme } from '../report/types.js';
+import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from '../report/types.js';
+import { listMemos } from './memos.js';
 import { clock } from '../sheet/sheet.js';
 import { describeChange } from '../template/describe.js';
 import { walk } from '../template/paths.js';
@@ -45,6 +46,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
     rolled.set(e.node.id, s);
   }
 
+  const memos: ReportMemo[] = listMemos(db).map((m) => ({ id: m.memo_id, at: m.at, author: m.author, kind: m.target_kind, target: m.target, label: m.target_label, text: m.text }));
   const quotes = representativeQuotes(db, entries.map((e) => e.node.id), direct, rolled, opts.quotes ?? 3);
   const themes: ReportTheme[] = entries.map((e) => ({
     id: e.node.id,
@@ -54,6 +56,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
     depth: e.depth,
     apriori: e.node.apriori,
     integrative: e.integrative,
+    memos: memos.filter((m) => m.kind === 'theme' && m.target === e.node.id),
     definition: e.node.definition,
     include: e.node.include,
     exclude: e.node.exclude,
@@ -144,6 +147,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
           }
         : null,
     cautions: opts.cautions,
+    memos,
     integrative: integrativeCoverage(template, codings.map((c) => ({ passageId: c.passage_id, themeId: c.theme_id }))).map((x) => ({
       themeId: x.theme_id,
       name: x.name,

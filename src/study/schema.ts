@@ -203,6 +203,24 @@ export const MIGRATIONS: string[] = [
   CREATE TRIGGER decisions_append_only_delete BEFORE DELETE ON decisions
     BEGIN SELECT RAISE(ABORT, 'the decision log is append-only'); END;
   `,
+  // 6: memos: dated, attributed notes on a theme, a transcript, a passage or the study. Kept like
+  // the decision log: a memo is added, never rewritten (a later memo can revise an earlier one).
+  `
+  CREATE TABLE memos (
+    id          INTEGER PRIMARY KEY,
+    at          TEXT NOT NULL,
+    author      TEXT NOT NULL,
+    target_kind TEXT NOT NULL CHECK (target_kind IN ('study', 'theme', 'transcript', 'passage')),
+    target      TEXT,              -- theme id, transcript name or passage id; NULL for the study
+    text        TEXT NOT NULL,
+    rev         INTEGER            -- the template revision current when it was written
+  );
+  CREATE INDEX memos_target ON memos (target_kind, target);
+  CREATE TRIGGER memos_append_only_update BEFORE UPDATE ON memos
+    BEGIN SELECT RAISE(ABORT, 'memos are kept as written: add a new memo instead'); END;
+  CREATE TRIGGER memos_append_only_delete BEFORE DELETE ON memos
+    BEGIN SELECT RAISE(ABORT, 'memos are kept as written: add a new memo instead'); END;
+  `,
 ];
 
 export const SCHEMA_VERSION = MIGRATIONS.length;

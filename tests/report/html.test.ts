@@ -49,6 +49,7 @@ describe('renderReport', () => {
       ['saturation', 'Saturation'],
       ['unclaimed', 'Unclaimed passages and clusters'],
       ['agreement', 'Inter-coder agreement'],
+      ['memos', 'Memos'],
       ['quotes', 'Representative quotes'],
       ['cautions', 'Cautions'],
     ]) {
@@ -187,12 +188,13 @@ describe('renderReport for a study just begun', () => {
       'No clusters have been formed from the unclaimed passages yet.',
       'No two coders have reviewed the same passages yet, so inter-coder agreement cannot be reported.',
       'No passages have been coded yet, so there are no quotes to show.',
+      'No memos have been written yet',
       'No cautions were recorded with this report.',
     ]) {
       expect(html).toContain(`<p class="empty">${sentence}`);
     }
     // Every section is still there, so the report's shape does not depend on progress.
-    expect(html.match(/<section id=/g)).toHaveLength(9);
+    expect(html.match(/<section id=/g)).toHaveLength(10);
   });
 
   it('handles a template with no themes', () => {
