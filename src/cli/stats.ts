@@ -69,9 +69,13 @@ Examples:
           say('\nRe-codes (suggested -> chosen)');
           say(table(['suggested', 'chosen', 'count'], a.recodes.map((r) => [name(r.themeId), name(r.chosenThemeId), r.count])));
         }
-        const sat = s.saturation;
-        say(`\nSaturation: ${sat.beforeCoding.themes + sat.beforeCoding.subThemes} themes before coding began; new themes and sub-themes per transcript in coding order:`);
-        say(table(['#', 'transcript', 'new themes', 'new sub-themes', 'total new'], sat.curve.map((p) => [p.order, p.transcript, p.newThemes, p.newSubThemes, p.cumulative])));
+        const g = s.template_growth;
+        if (g.curve.length) {
+          say('\nTemplate growth: themes first coded or added in each transcript, in coding order (the first batch introduces the initial template):');
+          say(table(['#', 'transcript', 'new themes', 'new sub-themes', 'template so far'], g.curve.map((p) => [p.order, p.transcript, p.new_themes, p.new_sub_themes, p.cumulative])));
+          if (g.not_yet_coded.length) say(`${plural(g.not_yet_coded.length, 'theme')} of the template ${g.not_yet_coded.length === 1 ? 'is' : 'are'} not coded yet: ${g.not_yet_coded.map((t) => t.path).join('; ')}`);
+          say(g.note);
+        }
       });
     });
 }

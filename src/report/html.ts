@@ -4,7 +4,7 @@
  */
 
 import { AGREEMENT_CAUTION, KRIPPENDORFF_GUIDANCE, LANDIS_KOCH_BANDS } from '../measure/bands.js';
-import { FEW_DECISIONS, acceptanceChart, calibrationChart, heatmapChart, overTimeChart, saturationChart, themeLabeller, unclaimedChart } from './charts.js';
+import { FEW_DECISIONS, acceptanceChart, calibrationChart, growthChart, heatmapChart, overTimeChart, themeLabeller, unclaimedChart } from './charts.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, fixed, int, oneLine, pct, plural, when } from './escape.js';
 import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from './types.js';
@@ -56,7 +56,7 @@ const SECTIONS = [
   ['template', 'The template and its revisions'],
   ['coverage', 'Themes across transcripts'],
   ['acceptance', 'Acceptance of suggestions'],
-  ['saturation', 'Saturation'],
+  ['growth', 'Template growth'],
   ['unclaimed', 'Unclaimed passages and clusters'],
   ['agreement', 'Inter-coder agreement'],
   ['memos', 'Memos'],
@@ -235,16 +235,18 @@ function acceptance(d: ReportData): string {
   return parts.join('\n');
 }
 
-function saturation(d: ReportData): string {
-  const svg = saturationChart(d);
-  if (!svg) return empty('No transcript has been coded yet, so there is no saturation curve.');
-  const last = [...d.saturation].sort((a, b) => a.order - b.order).slice(-3);
+function growth(d: ReportData): string {
+  const svg = growthChart(d);
+  if (!svg) return empty('No transcript has been coded yet, so the template has not grown yet.');
+  const last = [...d.growth].sort((a, b) => a.order - b.order).slice(-3);
   const quiet = last.length === 3 && last.every((p) => p.newThemes + p.newSubThemes === 0);
   return figure(
-    'New themes and sub-themes by transcript',
+    'Themes first coded or added, by transcript',
     svg,
-    'Themes added to the template while each transcript was being coded, credited to that transcript, in coding order; themes of the template before coding began (such as the a priori themes) are not counted. A curve that flattens suggests that further transcripts are adding little that is new; it is not proof of saturation.' +
-      (quiet ? ' The last three transcripts coded added no new theme.' : ''),
+    'For each transcript in the order it was coded: the themes first coded there, or added to the template while it was being coded. The initial template\'s themes (a priori ones included) count at the transcripts of the first batch that introduced them, so the curve shows how the template grew. ' +
+      (d.notYetCoded ? `${plural(d.notYetCoded, 'theme')} of the template ${d.notYetCoded === 1 ? 'is' : 'are'} not coded yet and not on the curve. ` : '') +
+      'A flattening curve means recent transcripts added little to the template; it is not proof that the template is complete: the next transcript may still differ, and the curve depends on the order of coding.' +
+      (quiet ? ' The last three transcripts coded added no theme.' : ''),
   );
 }
 
@@ -384,7 +386,7 @@ export function renderReport(data: ReportData): string {
     section('template', `<h3>The template</h3>\n${templateTree(data.themes, data)}\n<h3>Revision history</h3>\n${revisionHistory(data)}`),
     section('coverage', coverage(data)),
     section('acceptance', acceptance(data)),
-    section('saturation', saturation(data)),
+    section('growth', growth(data)),
     section('unclaimed', unclaimed(data)),
     section('agreement', agreement(data)),
     section('memos', memosSection(data)),

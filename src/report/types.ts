@@ -102,7 +102,10 @@ export interface ReportData {
   heatmap: { transcripts: string[]; themes: string[]; counts: number[][] };
   acceptance: { overall: AcceptanceRow; perTheme: AcceptanceRow[]; /** Cumulative acceptance rate after each decided suggestion. */
     overTime: { index: number; at: string; rate: number }[]; calibration: CalibrationRow[] };
-  saturation: { transcript: string; order: number; newThemes: number; newSubThemes: number; cumulative: number }[];
+  /** Template growth: themes first coded or added in each transcript, in coding order. */
+  growth: { transcript: string; order: number; newThemes: number; newSubThemes: number; cumulative: number }[];
+  /** Themes of the template no passage carries yet (not on the growth curve). */
+  notYetCoded?: number;
   unclaimed: { share: number | null; passages: number; unclaimed: number; clusters: ReportCluster[] };
   agreement: {
     coders: string[];

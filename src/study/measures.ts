@@ -1,6 +1,6 @@
 import { acceptanceReport, type AcceptanceReport, type DecisionRecord } from '../measure/acceptance.js';
 import { CIRCULARITY_NOTE, agreementReport, type AgreementReport, type CodingRecord, type CodedRecord } from '../measure/agreement.js';
-import { saturationCurve, type SaturationReport } from '../measure/saturation.js';
+import { templateGrowth, type GrowthReport } from '../measure/growth.js';
 import { walk } from '../template/paths.js';
 import type { DB } from './db.js';
 import { effectiveDecisions, nothingToCode } from './decisions.js';
@@ -24,7 +24,8 @@ export interface StudyStats {
   unclaimed: { run: number | null; passages: number; unclaimed: number; share: number | null; not_scored: number; scope: 'study' };
   /** "Reviewed, nothing to code" decisions that stand, and the passages they cover. */
   nothing_to_code: { decisions: number; passages: number };
-  saturation: SaturationReport;
+  /** Template growth by transcript, in coding order (replaces the old "saturation" figure). */
+  template_growth: GrowthReport;
   /**
    * Re-codes to a sub-theme of the suggested theme: the suggestion named the right area and the
    * coder chose a finer theme. Counted apart, and in a second rate that takes them as right.
@@ -110,7 +111,7 @@ export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyS
       scope: 'study',
     },
     nothing_to_code: { decisions: nocodeDecisions, passages: judged.size },
-    saturation: saturationCurve(revisionHistory(db), firsts),
+    template_growth: growth(db, firsts),
   };
 }
 
@@ -130,6 +131,21 @@ export function latestClaims(db: DB): Map<string, boolean> {
     )
     .all() as { id: string; claimed: number }[];
   return new Map(rows.map((r) => [r.id, r.claimed === 1]));
+}
+
+/**
+ * The current template's themes with the time each was added (its creating revision), and the
+ * transcripts each theme has been coded in (codings later withdrawn included: it was coded there).
+ */
+function growth(db: DB, firsts: { transcript: string; firstCodedAt: string }[]): GrowthReport {
+  const added = new Map(
+    (db.prepare('SELECT t.id, r.created_at FROM themes t JOIN revisions r ON r.rev = t.created_rev').all() as { id: string; created_at: string }[]).map((r) => [r.id, r.created_at]),
+  );
+  const themes = [...walk(currentTemplate(db))].map((e) => ({ id: e.node.id, path: e.path, topLevel: e.depth === 0, addedAt: added.get(e.node.id) ?? new Date(0).toISOString() }));
+  const coded = db
+    .prepare('SELECT DISTINCT c.theme_id AS themeId, t.name AS transcript FROM codings c JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id')
+    .all() as { themeId: string; transcript: string }[];
+  return templateGrowth({ themes, transcripts: firsts, coded });
 }
 
 export interface AgreementOptions {

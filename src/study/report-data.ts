@@ -118,7 +118,8 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
       overTime: a.cumulative.map((c) => ({ index: c.index, at: c.at, rate: c.rate })),
       calibration: a.calibration.map((b) => ({ band: b.band, lower: b.lower, upper: b.upper, count: b.count, meanConfidence: b.meanConfidence, acceptance: b.rate })),
     },
-    saturation: stats.saturation.curve.map((p) => ({ transcript: p.transcript, order: p.order, newThemes: p.newThemes, newSubThemes: p.newSubThemes, cumulative: p.cumulative })),
+    growth: stats.template_growth.curve.map((p) => ({ transcript: p.transcript, order: p.order, newThemes: p.new_themes, newSubThemes: p.new_sub_themes, cumulative: p.cumulative })),
+    notYetCoded: stats.template_growth.not_yet_coded.length,
     unclaimed: { share: stats.unclaimed.share, passages: stats.unclaimed.passages, unclaimed: stats.unclaimed.unclaimed, clusters: currentClusters(db) },
     agreement:
       agree && agree.pairablePassages

@@ -58,13 +58,13 @@ describe('trellis agree', () => {
     // The sheet's "nothing to code" rows are logged as decisions and go back out on export.
     expect(json(dir, ['stats']).nothing_to_code.decisions).toBe(10 - 5 + 10 - 5);
     expect(trellis(['sheet', 'export', '--coder', 'ben', '--out', 'ben.csv'], dir).status).toBe(0);
-    expect(readFileSync(join(dir, 'ben.csv'), 'utf8')).toMatch(/notes#5,.*,nothing to code\r\n/);
+    expect(readFileSync(join(dir, 'ben.csv'), 'utf8')).toMatch(/notes#5,.*,nothing to code,\r\n/);
     expect(trellis(['agree', '--coders', 'ann'], dir).status).toBe(1);
   });
 });
 
 describe('trellis stats', () => {
-  it('counts acceptance overall, by confidence band and by theme, with coverage and saturation', () => {
+  it('counts acceptance overall, by confidence band and by theme, with coverage and template growth', () => {
     const dir = freshStudy();
     expect(trellis(['template', 'set', join(CORPUS, 'template.txt')], dir).status).toBe(0);
     const files = ['t01-larch-staff-nurse.txt', 't02-kestrel-fy1.txt', 't03-harbour-hca.md', 't04-orchard-staff-nurse.vtt', 't05-ward9-fy2.txt'];
@@ -78,7 +78,7 @@ describe('trellis stats', () => {
     json(dir, ['decide', String(tops[2].suggestion_id), 'reject', '--coder', 'tom']);
     json(dir, ['decide', String(tops[3].suggestion_id), 'defer', '--coder', 'tom']);
     json(dir, ['decide', String(tops[4].suggestion_id), 'reject', '--theme', other, '--coder', 'tom']);
-    // A new theme added while coding t05 shows on the saturation curve.
+    // A new theme added while coding t05 shows on the growth curve.
     expect(trellis(['template', 'add', 'Paper workarounds'], dir).status).toBe(0);
     const s = json(dir, ['stats']);
     expect(s.acceptance.overall).toMatchObject({ decided: 4, accepted: 2, rejected: 1, recoded: 1, deferred: 1, rate: 0.5 });
@@ -88,8 +88,18 @@ describe('trellis stats', () => {
     expect(inBand(tops[0].confidence)).toBeDefined();
     expect(s.coverage.coded).toBe(52 + 3);
     expect(s.acceptance.recodes).toHaveLength(1);
-    const last = s.saturation.curve.at(-1);
+    // Template growth: t05 (coded last) brings the theme added while it was coded; the first
+    // batch introduces the initial template's themes; every theme is on the curve or not coded yet.
+    const g = s.template_growth;
+    const last = g.curve.at(-1);
     expect(last.transcript).toBe('t05-ward9-fy2');
-    expect(last.newThemes).toBe(1);
+    expect(last.entered).toContainEqual({ id: expect.any(String), path: 'Paper workarounds', topLevel: true, how: 'added' });
+    expect(g.curve.slice(0, 4).map((p: { transcript: string }) => p.transcript)).toEqual(files.slice(0, 4).map((f) => f.replace(/\.\w+$/, '')));
+    expect(g.curve[0].entered.length).toBeGreaterThan(0);
+    expect(g.curve[0].entered.every((e: { how: string }) => e.how === 'coded')).toBe(true);
+    const size = json(dir, ['status']).themes;
+    expect(last.cumulative + g.not_yet_coded.length).toBe(size);
+    expect(g.note).toMatch(/not proof that the template is complete/);
+    expect(trellis(['stats'], dir).stdout).toMatch(/Template growth: themes first coded or added in each transcript/);
   });
 });

@@ -46,7 +46,7 @@ describe('renderReport', () => {
       ['template', 'The template and its revisions'],
       ['coverage', 'Themes across transcripts'],
       ['acceptance', 'Acceptance of suggestions'],
-      ['saturation', 'Saturation'],
+      ['growth', 'Template growth'],
       ['unclaimed', 'Unclaimed passages and clusters'],
       ['agreement', 'Inter-coder agreement'],
       ['memos', 'Memos'],
@@ -61,7 +61,7 @@ describe('renderReport', () => {
 
   it('draws every chart, each with an accessible name and description and a visible heading', () => {
     const ids = [...html.matchAll(/<svg class="chart" id="([\w-]+)" role="img" aria-labelledby="([\w-]+)-t \1-d"/g)].map((m) => m[1]);
-    expect(ids).toEqual(['chart-heatmap', 'chart-acceptance', 'chart-calibration', 'chart-overtime', 'chart-saturation', 'chart-unclaimed']);
+    expect(ids).toEqual(['chart-heatmap', 'chart-acceptance', 'chart-calibration', 'chart-overtime', 'chart-growth', 'chart-unclaimed']);
     for (const id of ids) {
       expect(html).toMatch(new RegExp(`<title id="${id}-t">[^<]+</title><desc id="${id}-d">[^<]{40,}</desc>`));
     }
@@ -183,7 +183,7 @@ describe('renderReport for a study just begun', () => {
       'No template revisions have been recorded yet.',
       'No transcripts have been coded yet, so there is nothing to map.',
       'No suggestions have been decided on yet, so acceptance and calibration cannot be measured.',
-      'No transcript has been coded yet, so there is no saturation curve.',
+      'No transcript has been coded yet, so the template has not grown yet.',
       'The unclaimed share has not been measured yet',
       'No clusters have been formed from the unclaimed passages yet.',
       'No two coders have reviewed the same passages yet, so inter-coder agreement cannot be reported.',
@@ -205,7 +205,7 @@ describe('renderReport for a study just begun', () => {
   });
 
   it('draws the charts that have data and describes the rest', () => {
-    // Decisions but none in a drawable band; saturation but no decisions over time.
+    // Decisions but none in a drawable band; growth but no decisions over time.
     const d = sampleReport();
     d.acceptance.calibration = d.acceptance.calibration.map((c) => ({ ...c, count: 0, acceptance: null, meanConfidence: null }));
     d.acceptance.overTime = [];

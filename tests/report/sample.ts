@@ -299,7 +299,7 @@ export function sampleReport(): ReportData {
   const newThemes = [0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 0];
   const newSubs = [2, 1, 3, 2, 2, 1, 2, 1, 1, 0, 0, 0];
   let cum = 0;
-  const saturation = TRANSCRIPTS.map((t, i) => ({ transcript: t, order: i + 1, newThemes: newThemes[i]!, newSubThemes: newSubs[i]!, cumulative: (cum += newThemes[i]! + newSubs[i]!) }));
+  const growth = TRANSCRIPTS.map((t, i) => ({ transcript: t, order: i + 1, newThemes: newThemes[i]!, newSubThemes: newSubs[i]!, cumulative: (cum += newThemes[i]! + newSubs[i]!) }));
 
   const clusters: ReportCluster[] = [
     {
@@ -439,7 +439,7 @@ export function sampleReport(): ReportData {
       overTime,
       calibration,
     },
-    saturation,
+    growth,
     unclaimed: { share: unclaimedCount / scored, passages: scored, unclaimed: unclaimedCount, clusters },
     agreement: {
       coders: ['alex', 'sam'],
@@ -486,7 +486,7 @@ export function emptyReport(): ReportData {
       overTime: [],
       calibration: full.acceptance.calibration.map((c) => ({ ...c, count: 0, meanConfidence: null, acceptance: null })),
     },
-    saturation: [],
+    growth: [],
     unclaimed: { share: null, passages: 0, unclaimed: 0, clusters: [] },
     agreement: null,
     cautions: [],
@@ -500,7 +500,7 @@ export function largeReport(): ReportData {
   const names = Array.from({ length: n }, (_, i) => `p${String(i + 1).padStart(2, '0')}-${['larch', 'heron', 'quay', 'maple'][i % 4]}-${['staff-nurse', 'healthcare-assistant', 'foundation-doctor'][i % 3]}`);
   const counts = d.heatmap.counts.map((row) => names.map((_, j) => (row[j % row.length]! * (j + 3)) % 23));
   let cum = 0;
-  const saturation = names.map((t, i) => {
+  const growth = names.map((t, i) => {
     const newThemes = i % 9 === 0 ? 1 : 0;
     const newSubThemes = i < 30 ? (i * 7) % 3 : 0;
     return { transcript: t, order: i + 1, newThemes, newSubThemes, cumulative: (cum += newThemes + newSubThemes) };
@@ -510,7 +510,7 @@ export function largeReport(): ReportData {
     ...d,
     counts: { ...d.counts, transcripts: n },
     heatmap: { transcripts: names, themes: d.heatmap.themes, counts },
-    saturation,
+    growth,
     acceptance: { ...d.acceptance, overTime },
   };
 }
