@@ -44,8 +44,10 @@ export function describeDecision(d: DecisionRow, t: Template): string {
     case 'nocode':
       return `decision #${d.id}: reviewed ${d.passage_id}, nothing to code`;
     default: {
-      const row = d as DecisionRow & { action: string; cluster_id?: number | null };
-      return `decision #${row.id}: ${row.action}${row.cluster_id ? ` cluster ${row.cluster_id}` : ''}${row.chosen_theme ? ` as ${path(row.chosen_theme)}` : ''}`;
+      const row = d as Omit<DecisionRow, 'action'> & { action: string; cluster_id?: number | string | null };
+      if (row.action === 'promote') return `decision #${row.id}: promoted cluster ${row.cluster_id} into ${path(row.chosen_theme)}`;
+      if (row.action === 'dismiss') return `decision #${row.id}: dismissed cluster ${row.cluster_id}`;
+      return `decision #${row.id}: ${row.action}`;
     }
   }
 }

@@ -277,7 +277,7 @@ function unclaimed(d: ReportData): string {
     return parts.join('\n');
   }
   parts.push(`<p>${esc(`${plural(u.clusters.length, 'cluster')} from the latest discovery run. Each is a possible new theme, named by its most characteristic terms; the examples are the passages nearest its centre.`)}</p>`);
-  const ordered = [...u.clusters].sort((a, b) => STATUS_ORDER.indexOf(a.status) - STATUS_ORDER.indexOf(b.status) || b.size - a.size || a.id - b.id);
+  const ordered = [...u.clusters].sort((a, b) => STATUS_ORDER.indexOf(a.status) - STATUS_ORDER.indexOf(b.status) || b.size - a.size || a.id.localeCompare(b.id));
   for (const c of ordered) {
     parts.push(
       `<article class="cluster"><h4>Cluster ${c.id}: ${esc(c.label)}</h4>` +

@@ -60,7 +60,9 @@ export interface CalibrationRow {
 }
 
 export interface ReportCluster {
-  id: number;
+  /** The stable cluster id, as commands print and accept it ("c3f9a1"). */
+  id: string;
+  /** Its top terms. */
   label: string;
   size: number;
   terms: string[];

@@ -2,6 +2,7 @@ import { basename, resolve } from 'node:path';
 import { integrativeCoverage } from '../measure/integrative.js';
 import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from '../report/types.js';
 import { listMemos } from './memos.js';
+import { latestClusters } from './discovery.js';
 import { clock } from '../sheet/sheet.js';
 import { describeChange } from '../template/describe.js';
 import { walk } from '../template/paths.js';
@@ -192,29 +193,16 @@ function representativeQuotes(
   return out;
 }
 
-/** The clusters of the latest discovery run, if there has been one. */
+/** The clusters of the latest discovery run, if there has been one, named by their top terms. */
 function currentClusters(db: DB): ReportCluster[] {
-  const run = db.prepare('SELECT MAX(id) AS id FROM discovery_runs').get() as { id: number | null };
-  if (run.id === null) return [];
-  const rows = db.prepare('SELECT id, label, size, cohesion, detail, status FROM clusters WHERE run_id = ? ORDER BY id').all(run.id) as {
-    id: number;
-    label: string;
-    size: number;
-    cohesion: number;
-    detail: string;
-    status: ReportCluster['status'];
-  }[];
-  return rows.map((r) => {
-    const d = JSON.parse(r.detail) as { terms: { term: string }[]; transcripts: string[]; central: { text: string }[] };
-    return {
-      id: r.id,
-      label: r.label,
-      size: r.size,
-      cohesion: r.cohesion,
-      status: r.status,
-      terms: d.terms.map((t) => t.term),
-      transcripts: d.transcripts.length,
-      examples: d.central.map((c) => c.text),
-    };
-  });
+  return latestClusters(db).map((c) => ({
+    id: c.cluster_id,
+    label: c.label,
+    size: c.size,
+    cohesion: c.cohesion,
+    status: c.status,
+    terms: c.detail.terms.map((t) => t.term),
+    transcripts: c.detail.transcripts.length,
+    examples: c.detail.central.map((x) => x.text),
+  }));
 }

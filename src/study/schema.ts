@@ -190,7 +190,7 @@ export const MIGRATIONS: string[] = [
     fingerprint   TEXT,
     bulk          INTEGER NOT NULL DEFAULT 0,
     undoes        INTEGER REFERENCES decisions(id),
-    cluster_id    INTEGER
+    cluster_id    TEXT  -- the cluster's stable id, as printed (entries before schema 7: its row number)
   );
   INSERT INTO decisions_v5 SELECT id, at, coder, action, suggestion_id, passage_id, transcript, theme_id, confidence, rank,
     chosen_theme, note, rev, fingerprint, bulk, undoes, cluster_id FROM decisions;
@@ -220,6 +220,12 @@ export const MIGRATIONS: string[] = [
     BEGIN SELECT RAISE(ABORT, 'memos are kept as written: add a new memo instead'); END;
   CREATE TRIGGER memos_append_only_delete BEFORE DELETE ON memos
     BEGIN SELECT RAISE(ABORT, 'memos are kept as written: add a new memo instead'); END;
+  `,
+  // 7: a cluster's stable id, the same in every run that finds the same members (src/discover/key.ts).
+  // Clusters of older runs have none; the next "trellis discover" gives its clusters theirs.
+  `
+  ALTER TABLE clusters ADD COLUMN key TEXT;
+  CREATE INDEX clusters_key ON clusters (key);
   `,
 ];
 

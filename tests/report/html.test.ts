@@ -128,7 +128,7 @@ describe('renderReport', () => {
   });
 
   it('shows the clusters with terms, size and examples', () => {
-    expect(html).toContain('Cluster 4: discharge · pharmacy · TTOs');
+    expect(html).toContain('Cluster c4e1d2: discharge · pharmacy · TTOs');
     expect(html).toContain('17 passages from 6 transcripts');
     expect(html).toContain('<li>TTOs</li>');
     expect(html).toContain('promoted into the template');

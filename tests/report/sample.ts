@@ -303,7 +303,7 @@ export function sampleReport(): ReportData {
 
   const clusters: ReportCluster[] = [
     {
-      id: 4,
+      id: 'c4e1d2',
       label: 'discharge · pharmacy · TTOs',
       size: 17,
       terms: ['discharge', 'pharmacy', 'TTOs', 'waiting', 'transport'],
@@ -316,7 +316,7 @@ export function sampleReport(): ReportData {
       ],
     },
     {
-      id: 5,
+      id: 'c5a0b9',
       label: 'relatives · phone calls',
       size: 9,
       terms: ['relatives', 'phone', 'daughter', 'ring', 'update'],
@@ -326,7 +326,7 @@ export function sampleReport(): ReportData {
       examples: ['The daughter rings every morning at eight. Who spoke to her last night? It\'s not on there.'],
     },
     {
-      id: 2,
+      id: 'c2f7c3',
       label: 'paper · notes · print',
       size: 21,
       terms: ['paper', 'notes', 'print', 'pocket', 'sheet'],
@@ -336,7 +336,7 @@ export function sampleReport(): ReportData {
       examples: ['We print the list at the start and scribble on it all day.'],
     },
     {
-      id: 3,
+      id: 'c3d8e6',
       label: 'car park · parking',
       size: 6,
       terms: ['parking', 'car', 'permit'],
