@@ -30,7 +30,7 @@ import { coderOf, describeDecision } from './decide.js';
 import { useColour } from './marks.js';
 import type { Snippets } from './reasons.js';
 import { decodeKeys, type Key } from './review-keys.js';
-import { MAX_MATCHES, renderScreen, type Mode, type ScreenModel, type Showing, type Style } from './review-screen.js';
+import { MAX_MATCHES, layoutScreen, type Mode, type ScreenModel, type Showing, type Style } from './review-screen.js';
 import { matchThemes, type ThemeEntry } from './review-search.js';
 
 interface ReviewOpts extends StudyOpts {
@@ -129,6 +129,9 @@ class Session {
   private message = '';
   private note: string | undefined;
   private readonly tally = new Tally();
+  /** Lines of the current passage scrolled past, and how far it can go on this screen. */
+  private scroll = 0;
+  private maxScroll = 0;
   private finish = false;
   private readonly snippets: Snippets;
 
@@ -235,8 +238,11 @@ class Session {
       mode: this.mode,
       matches: this.matches(),
       snippets: this.snippets,
+      scroll: this.scroll,
     };
-    const screen = renderScreen(m, this.style());
+    const { screen, maxScroll } = layoutScreen(m, this.style());
+    this.maxScroll = maxScroll;
+    this.scroll = Math.min(this.scroll, maxScroll);
     // Clear and draw in one write; a dumb terminal gets the screens one after another.
     process.stdout.write(this.look.dumb ? '\n\n' + screen + '\n' : '\x1b[H\x1b[2J' + screen);
   }
@@ -256,6 +262,7 @@ class Session {
   /** Shows the next open passage; passages decided or coded elsewhere meanwhile are passed over. */
   private advance(): void {
     this.mode = { kind: 'main' };
+    this.scroll = 0;
     for (;;) {
       const item = this.queue.next();
       if (!item) {
@@ -367,6 +374,11 @@ class Session {
     const cur = this.current;
     if (!cur) {
       this.message = 'The queue is done: u undoes your latest decision, q quits.';
+      return;
+    }
+    if (key.name === 'up' || key.name === 'down') {
+      if (!this.maxScroll) this.message = 'The whole passage is on the screen.';
+      else this.scroll = Math.max(0, Math.min(this.maxScroll, this.scroll + (key.name === 'down' ? 1 : -1)));
       return;
     }
     if (/^[1-9]$/.test(ch)) return this.accept(Number(ch));
