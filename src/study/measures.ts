@@ -33,9 +33,18 @@ export interface StudyStats {
   refined: { count: number; rate: number | null };
 }
 
+/**
+ * Decisions on suggestions that still stand, as the acceptance measures count them. A defer is
+ * counted only while nothing was decided after it on the same passage and theme: a suggestion
+ * deferred and then accepted is one accepted suggestion, in stats as in the review footer.
+ */
 export function decisionRecords(db: DB): DecisionRecord[] {
-  return effectiveDecisions(db)
+  const standing = effectiveDecisions(db);
+  const lastVerdict = new Map<string, number>();
+  for (const d of standing) if (d.action !== 'defer' && d.theme_id && d.passage_id) lastVerdict.set(`${d.passage_id}\u0000${d.theme_id}`, d.id);
+  return standing
     .filter((d) => d.theme_id && d.confidence !== null)
+    .filter((d) => d.action !== 'defer' || (lastVerdict.get(`${d.passage_id}\u0000${d.theme_id}`) ?? -1) < d.id)
     .map((d) => ({
       action: d.action as DecisionRecord['action'],
       themeId: d.theme_id!,

@@ -101,5 +101,9 @@ describe('trellis stats', () => {
     expect(last.cumulative + g.not_yet_coded.length).toBe(size);
     expect(g.note).toMatch(/not proof that the template is complete/);
     expect(trellis(['stats'], dir).stdout).toMatch(/Template growth: themes first coded or added in each transcript/);
+
+    // A deferred suggestion decided later counts once, as decided, no longer as deferred.
+    json(dir, ['decide', String(tops[3].suggestion_id), 'accept', '--coder', 'tom']);
+    expect(json(dir, ['stats']).acceptance.overall).toMatchObject({ decided: 5, accepted: 3, rejected: 1, recoded: 1, deferred: 0, rate: 0.6 });
   });
 });
