@@ -3,7 +3,7 @@
 import Database from 'better-sqlite3';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { CORPUS, freshStudy, snapshot, trellis } from './run.js';
+import { CORPUS, freshStudy, snapshot, trellis, write } from './run.js';
 
 const FILES = ['t01-larch-staff-nurse.txt', 't02-kestrel-fy1.txt', 't03-harbour-hca.md', 't04-orchard-staff-nurse.vtt', 't05-ward9-fy2.txt', 't06-kestrel-night-nurse.md'];
 
@@ -109,5 +109,17 @@ describe('trellis nocode', () => {
     }
     // The first case named a good passage before the bad one: nothing of it landed.
     expect(snapshot(dir)).toBe(before);
+  });
+
+  it('withdraws a mark, logged, when the coder later codes the passage in a sheet', () => {
+    const db = new Database(join(dir, 'study.db'), { readonly: true });
+    const marked = (db.prepare("SELECT d.passage_id AS pid FROM decisions d WHERE d.action = 'nocode' AND d.coder = 'ana' AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)").get() as { pid: string }).pid;
+    db.close();
+    write(dir, 'ana.csv', `passage_id,themes\n${marked},Workload\n`);
+    const r = trellis(['sheet', 'import', 'ana.csv', '--coder', 'ana'], dir);
+    expect(r.status, r.stderr).toBe(0);
+    const last = json(dir, ['log']).decisions.at(-1);
+    expect(last).toMatchObject({ action: 'undo', passage_id: marked, coder: 'ana', note: 'coded in ana.csv' });
+    expect(json(dir, ['stats']).nothing_to_code.passages).toBe(0);
   });
 });
