@@ -161,7 +161,7 @@ Examples:
               `${pct(r.unclaimedShare)} of words`,
               `${r.unclaimedPassages}/${r.substantivePassages}`,
               r.themes.map((t) => `${names.get(t.themeId) ?? t.themeId} (${t.passages})`).join(', '),
-              r.clusters.map((c) => `${c.clusterId} (${labels.get(c.clusterId) ?? ''}): ${c.passages}`).join(', '),
+              r.clusters.slice(0, 3).map((c) => `${c.clusterId} (${labels.get(c.clusterId) ?? ''}): ${c.passages}`).join(', ') + (r.clusters.length > 3 ? `, +${r.clusters.length - 3} more` : ''),
             ]),
           ),
         );

@@ -61,16 +61,19 @@ Starts with a fresh suggestion run, so the queue reflects the latest codings and
 then shows one passage at a time: where it is, the turns before and after it, the passage with
 the matched terms in [brackets], and up to five candidate themes with their confidence, a * when
 at or above the theme's threshold, and a reason. The queue holds the passages of the run that
-are not coded and have no standing decision.
+are not coded and have no standing decision. The footer counts as trellis stats does: accepted
+out of decided, where a re-code is decided but not accepted and a defer is not yet decided.
 
 Keys (single keys, no Enter):
   1-5    accept that candidate
   x      reject: then 1-5 for that candidate, or x again for the top one
   r      re-code: search the template by typing, or create a new sub-theme there and then
   d      defer: the passage is skipped for the rest of this session
+  0      reviewed, nothing to code: no theme applies (logged; it leaves the queue)
   n      a note, kept with your next decision
   u      undo your latest standing decision, and go back to its passage
   Enter  after a reject: on to the next passage
+  ↑ ↓    scroll a passage longer than the screen
   ?      the keys;   q or Ctrl-C quit;   Esc cancels a prompt
 
 Orders:
@@ -392,7 +395,7 @@ class Session {
         this.queue.done.add(cur.item.passageId);
         this.advance();
         this.message = '';
-      } else this.message = 'Decide first (1-5 accept, x reject, r re-code), or d to defer it.';
+      } else this.message = 'Decide first (1-5 accept, x reject, r re-code, 0 nothing to code), or d to defer it.';
       return;
     }
     this.message = `"${ch || key.name}" is not a key here: press ? for the keys.`;
@@ -447,12 +450,8 @@ class Session {
 
   /** "Reviewed, nothing to code": the passage is judged, no theme applies. */
   private nothingToCode(): void {
-    const cur = this.current!;
-    const pid = cur.item.passageId;
-    if (cur.decidedHere) {
-      this.message = 'You have decided on a candidate of this passage already: Enter goes on, u undoes that first.';
-      return;
-    }
+    // After rejecting candidates, the coder may judge that no theme applies at all.
+    const pid = this.current!.item.passageId;
     if (this.commit(() => reviewNothingToCode(this.db, pid, this.coder, this.note, this.tally.ids))) {
       this.queue.done.add(pid);
       this.advance();
