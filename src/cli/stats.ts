@@ -33,7 +33,12 @@ Acceptance = accepted / decided, where decided = accepted + re-coded + rejected:
 decided but not accepted. Deferred suggestions are not yet decided and are left out; passages
 marked "reviewed, nothing to code" are judged passages, not decided suggestions, and are counted
 apart. The review screen and the report count the same way. The unclaimed share is over every
-participant passage of the study, each judged by the latest suggestion run that scored it. The calibration table compares each confidence band with how
+participant passage of the study, each judged by the latest suggestion run that scored it.
+
+Template growth: for each transcript in coding order, the themes first coded there or added to
+the template while it was being coded; the initial template's themes count at the first-batch
+transcripts that introduced them. A flattening curve means recent transcripts added little to
+the template; it is not proof that the template is complete. The calibration table compares each confidence band with how
 often suggestions in it were accepted.
 
 Examples:
