@@ -4,7 +4,7 @@ import { templateGrowth, type GrowthReport } from '../measure/growth.js';
 import { walk } from '../template/paths.js';
 import type { DB } from './db.js';
 import { effectiveDecisions, nothingToCode } from './decisions.js';
-import { currentTemplate, revisionHistory } from './template.js';
+import { currentTemplate } from './template.js';
 
 /** The pseudo-coder standing for trellis's above-threshold suggestions in agreement figures. */
 export const TOOL_CODER = 'trellis';

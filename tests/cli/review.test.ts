@@ -229,6 +229,21 @@ describe('trellis review', () => {
     expect(after.perCoder.find((c) => c.coder === 'ana')).toEqual({ coder: 'ana', codings: 2, passages: 2 });
   });
 
+  it('scrolls a passage that does not fit a short terminal with the arrow keys', async () => {
+    const dir = copyStudy();
+    const t = new ReviewTerminal(['--study', dir, '--coder', 'ana', '--transcript', T05, '--no-colour'], dir, {}, { rows: 16, cols: 100 });
+    const first = await step(t, /↓\s+(\d+)\s+lines?\s+more/);
+    const below = Number(first[1]);
+    expect(t.screen).toContain('(start of the passage)');
+    t.send('\x1b[B'); // down
+    const moved = await step(t, /↑\s+1\s+line\s+above/);
+    expect(moved).toBeTruthy();
+    if (below > 1) expect(t.screen).toMatch(new RegExp(`↓\\s+${below - 1}\\s+lines?\\s+more`));
+    t.send('\x1b[A'); // up: back to the start
+    await step(t, '(start of the passage)');
+    expect(await t.quit()).toBe(0);
+  });
+
   it('creates a new sub-theme on the spot: a template revision, and the passage coded to it', async () => {
     const dir = copyStudy();
     // Without colour this time: the screen must read the same in plain text.
