@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { UserError } from '../errors.js';
-import { acceptAllAbove, decide, undo, type Action, type DecisionRow } from '../study/decisions.js';
+import { acceptAllAbove, decide, markNothingToCode, undo, type Action, type DecisionRow } from '../study/decisions.js';
 import { currentTemplate } from '../study/template.js';
 import { pathOf } from '../template/paths.js';
 import type { Template } from '../template/types.js';
@@ -41,6 +41,14 @@ export function describeDecision(d: DecisionRow, t: Template): string {
       return `decision #${d.id}: deferred ${path(d.theme_id)} for ${d.passage_id}`;
     case 'undo':
       return `decision #${d.id}: undid decision #${d.undoes}`;
+    case 'nocode':
+      return `decision #${d.id}: reviewed ${d.passage_id}, nothing to code`;
+    default: {
+      const row = d as Omit<DecisionRow, 'action'> & { action: string; cluster_id?: number | string | null };
+      if (row.action === 'promote') return `decision #${row.id}: promoted cluster ${row.cluster_id} into ${path(row.chosen_theme)}`;
+      if (row.action === 'dismiss') return `decision #${row.id}: dismissed cluster ${row.cluster_id}`;
+      return `decision #${row.id}: ${row.action}`;
+    }
   }
 }
 
@@ -83,6 +91,31 @@ Examples:
         const d = decide(db, { suggestionId: n, action: action as Action, themePath: opts.theme, note: opts.note, coder });
         if (opts.json) return printJson(d);
         say(describeDecision(d, currentTemplate(db)));
+      });
+    });
+
+  studyCommand(program, 'nocode', 'mark passages "reviewed, nothing to code": they leave the review queue and the unclaimed pool')
+    .argument('<passage-id...>', 'the passages (ids as in trellis suggest or the coding sheet)')
+    .option('--coder <name>', 'who reviewed them (default: $TRELLIS_CODER)')
+    .option('--note <text>', 'why nothing applies (kept with each decision)')
+    .addHelpText(
+      'after',
+      `
+A passage read and judged to need no theme is a decision like any other: it is logged, counted
+in trellis stats, leaves the review queue and the unclaimed pool, and undo withdraws it. For
+agreement it counts as the coder having looked at the passage and applied no theme.
+
+Examples:
+  trellis nocode t05-ward9-fy2-p014 --coder alex
+  trellis nocode t05-ward9-fy2-p014 t05-ward9-fy2-p015 --note "arranging the next interview" --coder alex`,
+    )
+    .action(async (ids: string[], opts: StudyOpts & { coder?: string; note?: string }) => {
+      const coder = coderOf(opts);
+      await withStudy(opts, (db) => {
+        const done = markNothingToCode(db, ids, coder, opts.note);
+        if (opts.json) return printJson({ decisions: done });
+        const t = currentTemplate(db);
+        for (const d of done) say(describeDecision(d, t));
       });
     });
 

@@ -62,7 +62,7 @@ Examples:
         }
         const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
         const counts = run.pool.counts;
-        say(`Unclaimed pool: ${plural(pool.length, 'passage')} (left out: ${counts.coded} coded, ${counts.claimed} claimed by a theme, ${counts.short} short, ${counts['small-talk']} small talk, ${counts.interviewer} interviewer).`);
+        say(`Unclaimed pool: ${plural(pool.length, 'passage')} (left out: ${counts.coded} coded, ${counts['nothing-to-code']} nothing to code, ${counts.claimed} claimed by a theme, ${counts.short} short, ${counts['small-talk']} small talk, ${counts.interviewer} interviewer).`);
         const almost = new Map<string, number>();
         for (const p of pool) if (p.nearest) almost.set(p.nearest.themeId, (almost.get(p.nearest.themeId) ?? 0) + 1);
         if (almost.size) say(`Nearest themes of the unclaimed: ${[...almost].sort((a, b) => b[1] - a[1]).slice(0, 4).map(([t, n]) => `almost ${names.get(t) ?? t} (${n})`).join('; ')}`);
@@ -75,51 +75,67 @@ Examples:
           for (const x of c.detail.central) say(wrap(`${x.passage_id}: "${clip(x.text, 220)}"`, 96, '    '));
         }
         if (run.result.suppressed.length) say(`\n${plural(run.result.suppressed.length, 'cluster')} held back: mostly passages dismissed before, with too little new material.`);
-        if (run.clusters.length) say('\nPromote one into the template: trellis promote CLUSTER --name NAME [--parent PATH] --coder NAME\nor set it aside: trellis dismiss CLUSTER --note TEXT --coder NAME');
+        if (run.clusters.length)
+          say('\nPromote one into the template: trellis promote CLUSTER --name NAME [--parent PATH] --coder NAME\nor into an existing theme: trellis promote CLUSTER --into PATH --coder NAME\nor set it aside: trellis dismiss CLUSTER --note TEXT --coder NAME');
       });
     });
 
-  studyCommand(program, 'promote', "make a cluster a theme: a template revision, and its passages suggestions for review")
-    .argument('<cluster>', 'the cluster id (from trellis discover)')
-    .requiredOption('--name <name>', 'the new theme name')
-    .option('--parent <path>', 'the parent theme (default: a top-level theme)')
+  studyCommand(program, 'promote', 'send a cluster into the template, as a new theme or into an existing one: its passages become suggestions for review')
+    .argument('<cluster>', 'the cluster id as printed by trellis discover (like c3f9a1)')
+    .option('--name <name>', 'a new theme with this name (a template revision that records the cluster)')
+    .option('--parent <path>', 'with --name: the parent theme (default: a top-level theme)')
+    .option('--into <path>', 'an existing theme instead: the passages become suggestions of it')
     .option('--note <text>', 'why, kept in the log and the revision history')
     .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
-    .addHelpText('after', '\nExample:\n  trellis promote 7 --name "Paper workarounds" --coder priya --note "informal printed lists"\n\nThe passages are not coded: they become suggestions of the new theme, for review.')
-    .action(async (cluster: string, opts: StudyOpts & { name: string; parent?: string; note?: string; coder?: string }) => {
+    .addHelpText(
+      'after',
+      `
+The passages are not coded: they become suggestions of the theme, for review. A new theme gets
+the cluster's distinctive terms as seed terms and no definition yet ("not yet written" in the
+codebook): write one in template.txt once you have read its passages.
+
+Examples:
+  trellis promote c3f9a1 --name "Paper workarounds" --coder priya --note "informal printed lists"
+  trellis promote c07b2e --into "Workload > Interruptions" --coder priya`,
+    )
+    .action(async (cluster: string, opts: StudyOpts & { name?: string; parent?: string; into?: string; note?: string; coder?: string }) => {
       const coder = coderOf(opts);
-      const id = Number(cluster);
-      if (!Number.isInteger(id) || id < 1) throw new UserError(`"${cluster}" is not a cluster id`);
+      if (opts.into !== undefined && (opts.name !== undefined || opts.parent !== undefined)) throw new UserError('give either --name (a new theme) or --into (an existing theme), not both');
+      if (opts.into === undefined && opts.name === undefined) throw new UserError('say where the cluster goes: --name NAME for a new theme, or --into PATH for an existing one');
+      const target = opts.into !== undefined ? { into: opts.into } : { name: opts.name!, parentPath: opts.parent };
       await withStudy(opts, (db) => {
-        const p = promoteCluster(db, resolve(opts.study), id, opts.name, opts.parent, coder, opts.note);
+        const p = promoteCluster(db, resolve(opts.study), cluster, target, coder, opts.note);
         if (opts.json) return printJson(p);
-        say(`Cluster ${id} is now the theme "${opts.name}" (template revision ${p.rev}); its ${plural(p.suggestions, 'passage')} are suggestions of it, for review (trellis review --coder ${coder}).`);
+        say(
+          p.into_existing
+            ? `Cluster ${p.cluster_id}: its ${plural(p.suggestions, 'passage')} are now suggestions of "${p.path}", for review (trellis review --coder ${coder}).`
+            : `Cluster ${p.cluster_id} is now the theme "${p.path}" (template revision ${p.rev}; its definition is not yet written); its ${plural(p.suggestions, 'passage')} are suggestions of it, for review (trellis review --coder ${coder}).`,
+        );
       });
     });
 
   studyCommand(program, 'dismiss', 'set a cluster aside as noise or out of scope (logged; it does not come back unless new material joins it)')
-    .argument('<cluster>', 'the cluster id (from trellis discover)')
+    .argument('<cluster>', 'the cluster id as printed by trellis discover (like c3f9a1)')
     .requiredOption('--note <text>', 'why it was dismissed')
     .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
-    .addHelpText('after', '\nExample:\n  trellis dismiss 8 --note "car park and canteen small talk" --coder priya')
+    .addHelpText('after', '\nExample:\n  trellis dismiss c5d0e4 --note "car park and canteen small talk" --coder priya')
     .action(async (cluster: string, opts: StudyOpts & { note: string; coder?: string }) => {
       const coder = coderOf(opts);
-      const id = Number(cluster);
-      if (!Number.isInteger(id) || id < 1) throw new UserError(`"${cluster}" is not a cluster id`);
       await withStudy(opts, (db) => {
-        const decision = dismissCluster(db, id, coder, opts.note);
-        if (opts.json) return printJson({ cluster_id: id, decision_id: decision });
-        say(`Cluster ${id} dismissed (decision #${decision}).`);
+        const d = dismissCluster(db, cluster, coder, opts.note);
+        if (opts.json) return printJson(d);
+        say(`Cluster ${d.cluster_id} dismissed (decision #${d.decision_id}).`);
       });
     });
 
-  studyCommand(program, 'triage', 'rank the uncoded transcripts by how much of each the template fails to claim')
+  studyCommand(program, 'triage', 'rank transcripts (uncoded or partly coded) by how much of their uncoded part the template fails to claim')
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
     .addHelpText(
       'after',
       `
 A transcript's unclaimed share is the words of its unclaimed passages over the words of its
-substantive participant passages. Read the most novel first: that is where the template will
+substantive participant passages, counting only its uncoded part: a partly coded transcript is
+ranked by the passages not yet coded (or judged nothing to code), and marked "partly coded". Read the most novel first: that is where the template will
 need revising. Cluster shares refer to the latest "trellis discover".
 
 Examples:
@@ -130,18 +146,22 @@ Examples:
       await withStudy(opts, (db) => {
         requireTranscripts(db, opts.transcript);
         const { rows, clusters } = triageStudy(db, opts.transcript);
-        if (opts.json) return printJson({ transcripts: rows });
+        if (opts.json) {
+          const labels = new Map(clusters.map((c) => [c.cluster_id, c.label]));
+          return printJson({ transcripts: rows.map((r) => ({ ...r, clusters: r.clusters.map((c) => ({ ...c, label: labels.get(c.clusterId) ?? null })) })) });
+        }
         const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path.split(' > ').pop()!]));
-        if (!rows.length) return say('No uncoded transcripts to triage.');
+        if (!rows.length) return say('No transcript has passages left to code.');
+        const labels = new Map(clusters.map((c) => [c.cluster_id, c.label]));
         say(
           table(
             ['transcript', 'unclaimed', 'passages', 'dominant suggested themes', 'open clusters'],
             rows.map((r) => [
-              r.transcript,
+              r.partly_coded ? `${r.transcript} (partly coded)` : r.transcript,
               `${pct(r.unclaimedShare)} of words`,
               `${r.unclaimedPassages}/${r.substantivePassages}`,
               r.themes.map((t) => `${names.get(t.themeId) ?? t.themeId} (${t.passages})`).join(', '),
-              r.clusters.map((c) => `${c.clusterId}: ${c.passages}`).join(', '),
+              r.clusters.slice(0, 3).map((c) => `${c.clusterId} (${labels.get(c.clusterId) ?? ''}): ${c.passages}`).join(', ') + (r.clusters.length > 3 ? `, +${r.clusters.length - 3} more` : ''),
             ]),
           ),
         );

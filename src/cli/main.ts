@@ -16,6 +16,7 @@ import { registerExport } from './export.js';
 import { registerReport } from './report.js';
 import { registerDiscover } from './discover.js';
 import { registerTemplate } from './template.js';
+import { registerMemo } from './memo.js';
 
 export const CAUTIONS = `
 Your data: trellis never opens a network connection; the study (study.db and template.txt)
@@ -41,7 +42,8 @@ Examples:
   trellis suggest --transcript t05           candidate themes with confidence and reasons
   trellis review --coder alex                decide them one passage at a time
   trellis discover                           what the template misses
-  trellis stats                              how often suggestions were right
+  trellis stats                              how often suggestions were accepted
+  trellis memo add "..." --theme Workload    a memo on a theme, transcript, passage or the study
   trellis report --out report.html           the study report
 ${CAUTIONS}`,
     );
@@ -61,6 +63,7 @@ ${CAUTIONS}`,
   registerDiscover(program);
   registerReport(program);
   registerCheck(program);
+  registerMemo(program);
   return program;
 }
 

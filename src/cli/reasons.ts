@@ -3,7 +3,7 @@ import type { Reason as ModelReason } from '../suggest/types.js';
 /** A suggestion made by promoting a cluster of unclaimed passages into a theme. */
 export interface ClusterReason {
   kind: 'cluster';
-  clusterId: number;
+  clusterId: number | string;
   label: string;
   similarity: number;
 }

@@ -15,7 +15,7 @@ export function registerReport(program: Command): void {
       'after',
       `
 The report holds the template with counts and its revision history, a theme x transcript heat
-map, acceptance per theme and over time, the calibration chart, the saturation curve, the
+map, acceptance per theme and over time, the calibration chart, template growth by transcript, the
 unclaimed share and clusters, the agreement table, and representative quotes per theme. It
 contains passages of your transcripts: store and share it as you would the transcripts.
 

@@ -50,6 +50,8 @@ export interface ScreenModel {
   /** The search results on screen (computed by the session, which also acts on them). */
   matches: ThemeEntry[];
   snippets: Snippets;
+  /** Lines of the passage scrolled past (up and down arrows), when it does not fit the screen. */
+  scroll?: number;
 }
 
 export const MAX_MATCHES = 9;
@@ -98,7 +100,7 @@ function keyHints(m: ScreenModel): string {
       return 'any key returns to the passage';
     case 'main':
       if (!m.showing) return 'u undo the last decision · ? keys · q quit';
-      return '1-5 accept · x reject · r re-code · d defer · n note · u undo · ? keys · q quit';
+      return '1-5 accept · x reject · r re-code · d defer · 0 nothing to code · n note · u undo · ? keys · q quit';
   }
 }
 
@@ -144,18 +146,28 @@ function passageParts(s: Showing, st: Style): { head: string[]; body: string[]; 
  * Fits the passage into the rows left: the blank lines around it go first, and only then is
  * the passage itself cut, with a line saying how much is hidden.
  */
-function fitPassage(parts: { head: string[]; body: string[]; foot: string[] }, room: number | undefined, st: Style): string[] {
+function fitPassage(parts: { head: string[]; body: string[]; foot: string[] }, room: number | undefined, st: Style, scroll = 0): { lines: string[]; maxScroll: number; scroll: number } {
   const { dim } = styler(st);
   let { head, body, foot } = parts;
-  if (room === undefined || head.length + body.length + foot.length <= room) return [...head, ...body, ...foot];
+  if (room === undefined || head.length + body.length + foot.length <= room) return { lines: [...head, ...body, ...foot], maxScroll: 0, scroll: 0 };
   head = head.filter((l) => l !== '');
   foot = foot.filter((l) => l !== '');
   const left = Math.max(3, room - head.length - foot.length);
-  if (body.length > left) {
-    const more = body.length - left + 1;
-    body = [...body.slice(0, left - 1), dim(`    … ${more} more line${more === 1 ? '' : 's'}: a taller terminal shows the whole passage`)];
-  }
-  return [...head, ...body, ...foot];
+  if (body.length <= left) return { lines: [...head, ...body, ...foot], maxScroll: 0, scroll: 0 };
+  // A window of the passage, with a line above and below saying what is out of view. The window
+  // holds left - 2 lines; the last window reaches the passage's end.
+  const shown = Math.max(1, left - 2);
+  const maxScroll = body.length - shown;
+  const at = Math.max(0, Math.min(scroll, maxScroll));
+  const above = at;
+  const below = body.length - at - shown;
+  const plural = (n: number) => `${n} line${n === 1 ? '' : 's'}`;
+  body = [
+    dim(above ? `    ↑ ${plural(above)} above (up arrow)` : '    (start of the passage)'),
+    ...body.slice(at, at + shown),
+    dim(below ? `    ↓ ${plural(below)} more (down arrow scrolls)` : '    (end of the passage)'),
+  ];
+  return { lines: [...head, ...body, ...foot], maxScroll, scroll: at };
 }
 
 function searchLines(m: ScreenModel, st: Style): string[] {
@@ -182,9 +194,11 @@ const HELP = [
   ['x', 'reject a candidate: then 1-5 for that one, or x / Enter for the top one'],
   ['r', 're-code: search the template for another theme, or create a new sub-theme'],
   ['d', 'defer: leave the passage for later (skipped for the rest of this session)'],
+  ['0', 'reviewed, nothing to code: no theme applies (it leaves the queue and the unclaimed pool)'],
   ['n', 'write a note that is kept with your next decision'],
   ['u', 'undo your latest decision that still stands, and go back to its passage'],
   ['Enter', 'after a reject: go on to the next passage'],
+  ['↑ ↓', 'scroll a passage longer than the screen'],
   ['?', 'this list'],
   ['q', 'quit (Ctrl-C too); every decision is already saved'],
 ];
@@ -204,6 +218,11 @@ function helpLines(st: Style): string[] {
 
 /** The whole screen as text (no clearing codes: the caller adds those). */
 export function renderScreen(m: ScreenModel, st: Style): string {
+  return layoutScreen(m, st).screen;
+}
+
+/** The screen, and how far the passage can scroll on it (0 when it fits). */
+export function layoutScreen(m: ScreenModel, st: Style): { screen: string; maxScroll: number } {
   const { bold, dim } = styler(st);
   const rule = (st.dumb ? '-' : '─').repeat(st.width);
   const lines: string[] = [];
@@ -216,7 +235,7 @@ export function renderScreen(m: ScreenModel, st: Style): string {
     lines.push('');
     lines.push(bold('Nothing left to review in this queue.'));
     lines.push('');
-    lines.push(`Decided this session: ${m.decided} (accepted or re-coded ${m.accepted}); deferred: ${m.deferred}.`);
+    lines.push(`Decided this session: ${m.decided} suggestions, ${m.accepted} of them accepted; deferred: ${m.deferred}.`);
     lines.push('Deferred passages come back in the next session. Press u to undo your latest decision,');
     lines.push('or q to quit.');
   } else {
@@ -234,11 +253,12 @@ export function renderScreen(m: ScreenModel, st: Style): string {
     }
     const footer = footerLines(m, st);
     const room = st.rows ? st.rows - lines.length - below.length - footer.length : undefined;
-    lines.push(...fitPassage(parts, room, st), ...below, ...footer);
-    return finish(lines, st);
+    const fitted = fitPassage(parts, room, st, m.scroll ?? 0);
+    lines.push(...fitted.lines, ...below, ...footer);
+    return { screen: finish(lines, st), maxScroll: fitted.maxScroll };
   }
   lines.push(...footerLines(m, st));
-  return finish(lines, st);
+  return { screen: finish(lines, st), maxScroll: 0 };
 }
 
 /** The rule, the status line, a pending note, the last outcome and the keys. */

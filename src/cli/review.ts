@@ -14,6 +14,7 @@ import {
   passageView,
   recodeToNewTheme,
   reviewDecide,
+  reviewNothingToCode,
   standingRejects,
   startReview,
   undoLatest,
@@ -30,7 +31,7 @@ import { useColour } from './marks.js';
 import type { Snippets } from './reasons.js';
 import { plain, plainDeep } from './output.js';
 import { decodeKeys, type Key } from './review-keys.js';
-import { MAX_MATCHES, renderScreen, type Mode, type ScreenModel, type Showing, type Style } from './review-screen.js';
+import { MAX_MATCHES, layoutScreen, type Mode, type ScreenModel, type Showing, type Style } from './review-screen.js';
 import { matchThemes, type ThemeEntry } from './review-search.js';
 
 interface ReviewOpts extends StudyOpts {
@@ -61,16 +62,19 @@ Starts with a fresh suggestion run, so the queue reflects the latest codings and
 then shows one passage at a time: where it is, the turns before and after it, the passage with
 the matched terms in [brackets], and up to five candidate themes with their confidence, a * when
 at or above the theme's threshold, and a reason. The queue holds the passages of the run that
-are not coded and have no standing decision.
+are not coded and have no standing decision. The footer counts as trellis stats does: accepted
+out of decided, where a re-code is decided but not accepted and a defer is not yet decided.
 
 Keys (single keys, no Enter):
   1-5    accept that candidate
   x      reject: then 1-5 for that candidate, or x again for the top one
   r      re-code: search the template by typing, or create a new sub-theme there and then
   d      defer: the passage is skipped for the rest of this session
+  0      reviewed, nothing to code: no theme applies (logged; it leaves the queue)
   n      a note, kept with your next decision
   u      undo your latest standing decision, and go back to its passage
   Enter  after a reject: on to the next passage
+  ↑ ↓    scroll a passage longer than the screen
   ?      the keys;   q or Ctrl-C quit;   Esc cancels a prompt
 
 Orders:
@@ -129,6 +133,9 @@ class Session {
   private message = '';
   private note: string | undefined;
   private readonly tally = new Tally();
+  /** Lines of the current passage scrolled past, and how far it can go on this screen. */
+  private scroll = 0;
+  private maxScroll = 0;
   private finish = false;
   private readonly snippets: Snippets;
 
@@ -235,20 +242,23 @@ class Session {
       mode: this.mode,
       matches: this.matches(),
       snippets: this.snippets,
+      scroll: this.scroll,
     };
     // Passage text, names and reasons come from files: shown as text, never as terminal commands.
-    const screen = renderScreen({ ...plainDeep(m), snippets: this.snippets }, this.style());
+    const { screen, maxScroll } = layoutScreen({ ...plainDeep(m), snippets: this.snippets }, this.style());
+    this.maxScroll = maxScroll;
+    this.scroll = Math.min(this.scroll, maxScroll);
     // Clear and draw in one write; a dumb terminal gets the screens one after another.
     process.stdout.write(this.look.dumb ? '\n\n' + screen + '\n' : '\x1b[H\x1b[2J' + screen);
   }
 
   private summary(): string {
     const t = this.tally;
-    const parts = [`${t.count('accept')} accepted`, `${t.count('recode')} re-coded`, `${t.count('reject')} rejected`, `${t.count('defer')} deferred`, `${t.undos} undone`];
+    const parts = [`${t.count('accept')} accepted`, `${t.count('recode')} re-coded`, `${t.count('reject')} rejected`, `${t.count('defer')} deferred`, `${t.count('nocode')} nothing to code`, `${t.undos} undone`];
     const pct = t.decided ? ` (${Math.round((100 * t.accepted) / t.decided)}%)` : '';
     return (
       `Review ended. This session: ${parts.join(', ')}.\n` +
-      `Acceptance ${t.accepted} of ${t.decided}${pct}. Every decision is in the log: trellis log --study ${this.studyDir}`
+      `Suggestions accepted: ${t.accepted} of ${t.decided} decided${pct} (a re-code is decided, not accepted). Every decision is in the log: trellis log --study ${this.studyDir}`
     );
   }
 
@@ -257,6 +267,7 @@ class Session {
   /** Shows the next open passage; passages decided or coded elsewhere meanwhile are passed over. */
   private advance(): void {
     this.mode = { kind: 'main' };
+    this.scroll = 0;
     for (;;) {
       const item = this.queue.next();
       if (!item) {
@@ -370,9 +381,15 @@ class Session {
       this.message = 'The queue is done: u undoes your latest decision, q quits.';
       return;
     }
+    if (key.name === 'up' || key.name === 'down') {
+      if (!this.maxScroll) this.message = 'The whole passage is on the screen.';
+      else this.scroll = Math.max(0, Math.min(this.maxScroll, this.scroll + (key.name === 'down' ? 1 : -1)));
+      return;
+    }
     if (/^[1-9]$/.test(ch)) return this.accept(Number(ch));
     if (ch === 'x') return this.enter({ kind: 'reject' });
     if (ch === 'd') return this.defer();
+    if (ch === '0') return this.nothingToCode();
     if (ch === 'n') return this.enter({ kind: 'note', text: this.note ?? '' });
     if (ch === 'r') return this.enter({ kind: 'search', purpose: 'recode', query: '', sel: 0, entries: this.themeEntries() });
     if (key.name === 'enter' || ch === ' ') {
@@ -380,7 +397,7 @@ class Session {
         this.queue.done.add(cur.item.passageId);
         this.advance();
         this.message = '';
-      } else this.message = 'Decide first (1-5 accept, x reject, r re-code), or d to defer it.';
+      } else this.message = 'Decide first (1-5 accept, x reject, r re-code, 0 nothing to code), or d to defer it.';
       return;
     }
     this.message = `"${ch || key.name}" is not a key here: press ? for the keys.`;
@@ -429,6 +446,16 @@ class Session {
     const pid = this.current!.item.passageId;
     if (this.decideOn(top, 'defer')) {
       this.queue.deferred.add(pid);
+      this.advance();
+    }
+  }
+
+  /** "Reviewed, nothing to code": the passage is judged, no theme applies. */
+  private nothingToCode(): void {
+    // After rejecting candidates, the coder may judge that no theme applies at all.
+    const pid = this.current!.item.passageId;
+    if (this.commit(() => reviewNothingToCode(this.db, pid, this.coder, this.note, this.tally.ids))) {
+      this.queue.done.add(pid);
       this.advance();
     }
   }

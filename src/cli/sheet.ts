@@ -46,7 +46,18 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     .requiredOption('--coder <name>', 'who coded the sheet')
     .option('--study <dir>', 'the study folder', '.')
     .option('--json', 'machine-readable output on stdout')
-    .addHelpText('after', '\nExample:\n  trellis sheet import batch1.csv --coder alex')
+    .addHelpText(
+      'after',
+      `
+Themes cell: theme paths separated by ";", levels by " > ". Write "nothing to code" alone in the
+cell for a passage you read and judged to need no theme: it is logged as a decision and counts
+as reviewed for agreement. An empty cell means not coded (or not yet read).
+The optional "note" column holds a memo on the passage: a new or changed note becomes a memo by
+the coder (trellis memo list --passage ID); export with --coder writes each passage's latest.
+
+Example:
+  trellis sheet import batch1.csv --coder alex`,
+    )
     .action(async (file: string, opts: StudyOpts & { coder: string }) => {
       const bytes = readInputFile(file);
       const rows = parseSheet(decodeText(bytes, file).text, file);
@@ -55,7 +66,9 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
       else
         say(
           `Imported ${plural(report.rows, 'row')} for ${opts.coder}: ${plural(report.coded, 'passage')} coded, ` +
-            `${plural(report.added, 'coding')} added, ${report.removed} removed.`,
+            `${plural(report.added, 'coding')} added, ${report.removed} removed` +
+            (report.nothing_to_code ? `; ${plural(report.nothing_to_code, 'passage')} marked nothing to code` : '') +
+            (report.memos ? `; ${plural(report.memos, 'note')} kept as passage memos.` : '.'),
         );
     });
 }

@@ -60,7 +60,8 @@ trellis learns a profile for every theme from the coded passages (and from the d
 and seed terms of an a priori theme not yet coded), checks it by leaving out one transcript
 at a time, and turns scores into confidences: the estimated chance that the coder would give
 this theme. A candidate is above threshold when its confidence reaches the theme's threshold,
-set so that the theme's suggestions were right at least --target-precision of the time.
+set so that at least --target-precision of the theme's suggestions matched the coders' own
+codings when their transcript was left out.
 A passage with no candidate above threshold is unclaimed. Suggestions are aids: nothing is
 coded until a researcher decides.
 

@@ -4,9 +4,11 @@ import { UserError } from '../errors.js';
 import { decodeText } from '../ingest/decode.js';
 import { readInputFile } from '../ingest/limits.js';
 import { addTheme, mergeThemes, moveTheme, renameTheme, retireTheme, splitTheme } from '../template/ops.js';
-import { findByPath, splitPathList, walk } from '../template/paths.js';
+import { findByPath, splitPathList, walk, type WalkEntry } from '../template/paths.js';
 import { describeChange } from '../template/describe.js';
 import type { Revised, Template, ThemeNode } from '../template/types.js';
+import { currentCodings } from '../study/codings.js';
+import { integrativeCoverage } from '../measure/integrative.js';
 import { themeCounts } from '../study/status.js';
 import { reviseTemplate, setTemplate, type RevisionResult } from '../study/revise.js';
 import { currentRevision, revisionHistory } from '../study/template.js';
@@ -94,6 +96,7 @@ Examples:
             id: n.id,
             name: n.name,
             apriori: n.apriori,
+            integrative: !!n.integrative,
             definition: n.definition,
             include: n.include,
             exclude: n.exclude,
@@ -103,13 +106,24 @@ Examples:
             children,
           });
         }
-        return printJson({ revision: rev.rev, themes });
+        return printJson({ revision: rev.rev, themes, integrative: integrativeCoverage(rev.template, currentCodings(db).map((c) => ({ passageId: c.passage_id, themeId: c.theme_id }))) });
       }
       say(`Template revision ${rev.rev} (${rev.created_at.slice(0, 16).replace('T', ' ')}, ${rev.action})`);
-      for (const e of walk(rev.template)) {
+      const line = (e: WalkEntry) => {
         const c = counts.get(e.node.id)!;
         const n = c.total === c.direct ? `${c.direct}` : `${c.direct}, ${c.total} with sub-themes`;
         say(`${'  '.repeat(e.depth)}${e.number}  ${e.node.name}${e.node.apriori ? '  [a priori]' : ''}  (${n})`);
+      };
+      const entries = [...walk(rev.template)];
+      entries.filter((e) => !e.integrative).forEach(line);
+      const across = integrativeCoverage(rev.template, currentCodings(db).map((c) => ({ passageId: c.passage_id, themeId: c.theme_id })));
+      if (across.length) {
+        say('\nIntegrative themes (they run across the themes above and are coded alongside any of them):');
+        entries.filter((e) => e.integrative).forEach(line);
+        for (const x of across) {
+          const touched = x.across.filter((a) => a.passages > 0).map((a) => `${a.name} ${a.passages}`);
+          say(`  ${x.name}: ${x.passages ? `touches ${x.touches} of ${x.across.length} top-level themes${touched.length ? ` (${touched.join(', ')})` : ''}` : 'not coded yet'}`);
+        }
       }
     });
   });

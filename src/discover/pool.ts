@@ -58,6 +58,8 @@ export interface PoolInput {
   codings: readonly Coding[];
   /** Rejected suggestions: a theme the coder rejected for a passage does not claim it. */
   rejected?: readonly Coding[];
+  /** Passages a coder marked "reviewed, nothing to code": judged, so not material for a new theme. */
+  nothingToCode?: Iterable<string>;
   /** Each theme's threshold (ThemeReport.threshold), shown beside the nearest theme's confidence. */
   thresholds?: Readonly<Record<string, number>>;
   /** Novelty of passages (NoveltyModel.predict) and the threshold: when given, the pool rule. */
@@ -98,11 +100,12 @@ export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolRes
   const claimAt = opts.claimAt ?? 'leaf';
   const claiming = claimingThemes(input.themes, input.codings);
   const coded = new Set(input.codings.map((c) => c.passageId));
+  const judged = new Set(input.nothingToCode ?? []);
   const rejected = new Set((input.rejected ?? []).map((c) => `${c.passageId}\u0000${c.themeId}`));
   const byId = new Map(input.suggestions.map((s) => [s.passageId, s]));
   const pool: PoolEntry[] = [];
   const excluded: PoolResult['excluded'] = [];
-  const counts: PoolResult['counts'] = { interviewer: 0, short: 0, 'small-talk': 0, coded: 0, claimed: 0, 'not-scored': 0, unclaimed: 0 };
+  const counts: PoolResult['counts'] = { interviewer: 0, short: 0, 'small-talk': 0, coded: 0, 'nothing-to-code': 0, claimed: 0, 'not-scored': 0, unclaimed: 0 };
   const out = (id: string, reason: PoolExclusion) => {
     excluded.push({ id, reason });
     counts[reason]++;
@@ -115,6 +118,10 @@ export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolRes
     }
     if (coded.has(p.id)) {
       out(p.id, 'coded');
+      continue;
+    }
+    if (judged.has(p.id)) {
+      out(p.id, 'nothing-to-code');
       continue;
     }
     const s = byId.get(p.id);

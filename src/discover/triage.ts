@@ -1,5 +1,8 @@
 /**
- * Which uncoded transcript to read next: the ones the template claims least of come first.
+ * Which transcript to read next: the ones the template claims least of come first. A transcript
+ * counts by its uncoded part: passages already coded, or judged "nothing to code", are left out
+ * of both shares, so a partly coded transcript is ranked by what is left to code in it, and a
+ * transcript with nothing left is not ranked.
  *
  * A transcript's unclaimed share is the words of its pool passages over the words of its
  * substantive participant passages (the passages that could be in the pool), so small talk and
@@ -14,8 +17,8 @@ import type { PoolCandidate } from './types.js';
 export interface TriageInput {
   /** Every passage of the study (or at least of the transcripts to rank). */
   passages: readonly PoolCandidate[];
-  /** Transcripts with at least one coding: they are not ranked. */
-  codedTranscripts: Iterable<string>;
+  /** Passages coded, or judged nothing to code: not part of any transcript's uncoded part. */
+  done: Iterable<string>;
   suggestions: readonly PassageSuggestions[];
   /** The unclaimed pool (ids of PoolResult.pool). */
   unclaimed: Iterable<string>;
@@ -31,6 +34,10 @@ export interface TranscriptTriage {
   substantiveWords: number;
   unclaimedPassages: number;
   substantivePassages: number;
+  /** Substantive participant passages already coded or judged nothing to code (not in the shares). */
+  coded_passages: number;
+  /** Some of its passages are done, so the shares are of its uncoded part. */
+  partly_coded: boolean;
   /** Chosen themes of its passages with how many passages each, most first (at most `top`). */
   themes: { themeId: string; passages: number }[];
   /** For every open cluster holding some of its passages: how many, their share of the cluster and of the transcript's substantive words. */
@@ -39,7 +46,7 @@ export interface TranscriptTriage {
 
 export function triage(input: TriageInput, opts: PoolOptions & { top?: number } = {}): TranscriptTriage[] {
   const top = opts.top ?? 3;
-  const coded = new Set(input.codedTranscripts);
+  const done = new Set(input.done);
   const unclaimed = new Set(input.unclaimed);
   const sugg = new Map(input.suggestions.map((s) => [s.passageId, s]));
   const clusterOf = new Map<string, string>();
@@ -49,7 +56,7 @@ export function triage(input: TriageInput, opts: PoolOptions & { top?: number } 
     for (const p of c.passageIds) clusterOf.set(p, c.id);
   }
   const by = new Map<string, PoolCandidate[]>();
-  for (const p of input.passages) if (!coded.has(p.transcript)) (by.get(p.transcript) ?? by.set(p.transcript, []).get(p.transcript)!).push(p);
+  for (const p of input.passages) (by.get(p.transcript) ?? by.set(p.transcript, []).get(p.transcript)!).push(p);
 
   const out: TranscriptTriage[] = [];
   for (const [transcript, ps] of by) {
@@ -57,10 +64,15 @@ export function triage(input: TriageInput, opts: PoolOptions & { top?: number } 
     let uw = 0;
     let sp = 0;
     let up = 0;
+    let dp = 0;
     const themes = new Map<string, number>();
     const inCluster = new Map<string, { passages: number; words: number }>();
     for (const p of ps) {
       const words = p.words ?? p.terms.length;
+      if (done.has(p.id)) {
+        if (isSubstantive(p, opts)) dp++;
+        continue;
+      }
       for (const c of sugg.get(p.id)?.candidates ?? []) if (c.chosen) themes.set(c.themeId, (themes.get(c.themeId) ?? 0) + 1);
       if (!isSubstantive(p, opts)) continue;
       sw += words;
@@ -76,8 +88,11 @@ export function triage(input: TriageInput, opts: PoolOptions & { top?: number } 
         e.words += words;
       }
     }
+    if (sp === 0) continue; // nothing left to code in it
     out.push({
       transcript,
+      coded_passages: dp,
+      partly_coded: dp > 0,
       unclaimedShare: sw > 0 ? uw / sw : 0,
       unclaimedWords: uw,
       substantiveWords: sw,

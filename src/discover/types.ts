@@ -14,7 +14,7 @@ export interface PoolCandidate {
 }
 
 /** Why a passage is not in the pool. */
-export type PoolExclusion = 'interviewer' | 'short' | 'small-talk' | 'coded' | 'claimed' | 'not-scored';
+export type PoolExclusion = 'interviewer' | 'short' | 'small-talk' | 'coded' | 'nothing-to-code' | 'claimed' | 'not-scored';
 
 /** The theme that came nearest to claiming an unclaimed passage ("almost X"). */
 export interface NearestTheme {

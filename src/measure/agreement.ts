@@ -10,13 +10,24 @@
  */
 
 import { krippendorffAlpha } from './alpha.js';
-import { AGREEMENT_CAUTION, LANDIS_KOCH_SOURCE, agreementBand, type Band } from './bands.js';
+import { AGREEMENT_CAUTION, KRIPPENDORFF_SOURCE, LANDIS_KOCH_SOURCE, agreementBand, alphaGuidance, type AlphaGuidance, type Band } from './bands.js';
 import { undefinedBecause, type Coefficient } from './coefficient.js';
 import { cohensKappa } from './kappa.js';
 
 export { percentAgreement, cohensKappa, type KappaResult } from './kappa.js';
 export { krippendorffAlpha, type AlphaLevel, type AlphaResult } from './alpha.js';
-export { AGREEMENT_CAUTION, LANDIS_KOCH_BANDS, LANDIS_KOCH_SOURCE, agreementBand, type Band } from './bands.js';
+export {
+  AGREEMENT_CAUTION,
+  CIRCULARITY_NOTE,
+  KRIPPENDORFF_GUIDANCE,
+  KRIPPENDORFF_SOURCE,
+  LANDIS_KOCH_BANDS,
+  LANDIS_KOCH_SOURCE,
+  agreementBand,
+  alphaGuidance,
+  type AlphaGuidance,
+  type Band,
+} from './bands.js';
 export type { Coefficient, Label } from './coefficient.js';
 
 export interface CodingRecord {
@@ -40,8 +51,23 @@ export interface AgreementInput {
   coded: readonly CodedRecord[];
 }
 
+/** Kappa with its Landis and Koch band. */
 export interface BandedCoefficient extends Coefficient {
   band: Band['label'] | null;
+}
+
+/** Alpha with Krippendorff's own guidance (at least 0.800; 0.667 for tentative conclusions). */
+export interface GuidedCoefficient extends Coefficient {
+  guidance: AlphaGuidance['label'] | null;
+}
+
+/** A passage on which the coders who reviewed it differ about one theme. */
+export interface Disagreement {
+  theme_id: string;
+  passage_id: string;
+  /** Coders who applied the theme, and coders who reviewed the passage without applying it. */
+  applied_by: string[];
+  not_by: string[];
 }
 
 export interface AgreementFigures {
@@ -55,7 +81,7 @@ export interface AgreementFigures {
   /** Cohen's kappa on the units both coders looked at; null unless there are exactly two coders. */
   kappa: BandedCoefficient;
   /** Krippendorff's alpha, nominal, any number of coders, missing values allowed. */
-  alpha: BandedCoefficient;
+  alpha: GuidedCoefficient;
 }
 
 export interface ThemeAgreement extends AgreementFigures {
@@ -92,7 +118,12 @@ export interface AgreementReport {
   meanOfThemes: MeanOfThemes;
   /** Codings naming a passage, coder or theme outside the input lists; they are left out. */
   ignoredCodings: number;
+  /** Every passage and theme on which the coders differ: what the team discusses. */
+  disagreements: Disagreement[];
+  /** Landis and Koch, for kappa's bands. */
   bandsSource: string;
+  /** Krippendorff, for alpha's guidance. */
+  guidance_source: string;
   caution: string;
 }
 
@@ -100,6 +131,10 @@ type Binary = 0 | 1 | null;
 
 function banded(c: Coefficient): BandedCoefficient {
   return { value: c.value, reason: c.reason, band: agreementBand(c.value) };
+}
+
+function guided(c: Coefficient): GuidedCoefficient {
+  return { value: c.value, reason: c.reason, guidance: alphaGuidance(c.value) };
 }
 
 /** Figures for one binary variable given as rows[coder][unit]. */
@@ -141,7 +176,7 @@ function figures(rows: Binary[][]): AgreementFigures {
     units,
     percentAgreement: pairs > 0 ? agreeing / pairs : null,
     kappa: banded(kappa),
-    alpha: banded(krippendorffAlpha(rows, 'nominal')),
+    alpha: guided(krippendorffAlpha(rows, 'nominal')),
   };
 }
 
@@ -189,8 +224,18 @@ export function agreementReport(input: AgreementInput): AgreementReport {
 
   const value = (c: number, p: number, t: number): Binary => (looked[c]![p] ? (has[c]!.has(p * T + t) ? 1 : 0) : null);
 
+  const disagreements: Disagreement[] = [];
   const themes: ThemeAgreement[] = input.themes.map((themeId, t) => {
     const rows = input.coders.map((_, c) => pairable.map((p) => value(c, p, t)));
+    pairable.forEach((p, u) => {
+      const applied: string[] = [];
+      const not: string[] = [];
+      rows.forEach((row, c) => {
+        if (row[u] === 1) applied.push(input.coders[c]!);
+        else if (row[u] === 0) not.push(input.coders[c]!);
+      });
+      if (applied.length && not.length) disagreements.push({ theme_id: themeId, passage_id: input.passages[p]!, applied_by: applied, not_by: not });
+    });
     let present = 0;
     for (const row of rows) for (const v of row) if (v === 1) present++;
     return { themeId, present, ...figures(rows) };
@@ -221,7 +266,9 @@ export function agreementReport(input: AgreementInput): AgreementReport {
       themesInAlpha: nAl,
     },
     ignoredCodings,
+    disagreements,
     bandsSource: LANDIS_KOCH_SOURCE,
+    guidance_source: KRIPPENDORFF_SOURCE,
     caution: AGREEMENT_CAUTION,
   };
 }

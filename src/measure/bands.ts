@@ -34,6 +34,41 @@ export function agreementBand(value: number | null): Band['label'] | null {
   return 'almost perfect'; // above 1 only through rounding
 }
 
+/** Krippendorff's own guidance for alpha: which values to rely on. */
+export interface AlphaGuidance {
+  label: 'reliable' | 'tentative' | 'unreliable';
+  /** The rule as Krippendorff states it. */
+  rule: string;
+  /** Lower bound, inclusive. */
+  from: number;
+}
+
+export const KRIPPENDORFF_GUIDANCE: readonly AlphaGuidance[] = [
+  { label: 'reliable', rule: 'at least 0.800: rely on the theme', from: 0.8 },
+  { label: 'tentative', rule: '0.667 to below 0.800: tentative conclusions only', from: 0.667 },
+  { label: 'unreliable', rule: 'below 0.667: do not rely on the theme', from: -Infinity },
+];
+
+// The thresholds (0.800; 0.667 for tentative conclusions) as Krippendorff states them in this
+// book's chapter on reliability; bibliographic details and the wording recalled from memory.
+export const KRIPPENDORFF_SOURCE =
+  'Krippendorff, K. (2004). Content analysis: An introduction to its methodology (2nd ed.). Sage: rely on variables with alpha of at least .800; consider those between .667 and .800 only for tentative conclusions.';
+
+/** Krippendorff's label for an alpha; null for an undefined coefficient. */
+export function alphaGuidance(value: number | null): AlphaGuidance['label'] | null {
+  if (value === null || Number.isNaN(value)) return null;
+  // The same hair of tolerance as the bands: 0.8 computed as 0.7999999999999999 is on the bound.
+  for (const g of KRIPPENDORFF_GUIDANCE) if (value >= g.from - 1e-12) return g.label;
+  return 'unreliable';
+}
+
+/** Said wherever a coder is compared with the suggestions (the pseudo-coder "trellis"). */
+export const CIRCULARITY_NOTE =
+  'Agreement between a coder and the suggestions is partly circular: codings the coder made by ' +
+  'accepting a suggestion agree with it by construction, and the profiles were fitted on that ' +
+  'coder\'s own earlier codings. Read it as how far the suggestions track the coder, not as ' +
+  'independent inter-coder agreement.';
+
 export const AGREEMENT_CAUTION =
   'Agreement figures support, but do not replace, the team\'s discussion of the passages on which ' +
   'coders disagreed: what each coder understood by the theme, and whether its definition needs ' +

@@ -2,5 +2,5 @@
 export * from './agreement.js';
 export * from './acceptance.js';
 export * from './calibration.js';
-export * from './saturation.js';
+export * from './growth.js';
 export * from './clustering.js';

@@ -312,10 +312,10 @@ export function overTimeChart(data: ReportData): string | null {
 }
 
 // ---------------------------------------------------------------------------------------------
-// Saturation: cumulative new themes and sub-themes by transcript, in coding order
+// Template growth: themes first coded or added in each transcript, in coding order
 
-export function saturationChart(data: ReportData): string | null {
-  const pts = [...data.saturation].sort((a, b) => a.order - b.order);
+export function growthChart(data: ReportData): string | null {
+  const pts = [...data.growth].sort((a, b) => a.order - b.order);
   if (!pts.length) return null;
   const right = 24;
   const topA = 28;
@@ -343,7 +343,7 @@ export function saturationChart(data: ReportData): string | null {
 
   const parts: string[] = [];
   const gridR = WIDTH - right;
-  parts.push(text(left, topA - 14, 'Cumulative count since coding began', { size: 12, weight: 'bold' }));
+  parts.push(text(left, topA - 14, 'Themes in the template so far', { size: 12, weight: 'bold' }));
   parts.push(axisLeft(yA, left, { ticks: ticks(0, yA.domain[1], 4).filter(Number.isInteger), gridTo: gridR }));
   parts.push(line(left, topA + hA, gridR, topA + hA, { stroke: RULE }));
   const series = [
@@ -378,7 +378,7 @@ export function saturationChart(data: ReportData): string | null {
   pts.forEach((p, i) => {
     const bars = [
       { v: p.newThemes, x: cx(i) - bw - 1, fill: OKABE_ITO.blue, stroke: undefined, what: 'new top-level themes' },
-      { v: p.newSubThemes, x: cx(i) + 1, fill: 'url(#chart-saturation-sub)', stroke: OKABE_ITO.vermillion, what: 'new sub-themes' },
+      { v: p.newSubThemes, x: cx(i) + 1, fill: 'url(#chart-growth-sub)', stroke: OKABE_ITO.vermillion, what: 'new sub-themes' },
     ];
     for (const b of bars) {
       parts.push(rect(b.x, yB(b.v), bw, yB(0) - yB(b.v), { fill: b.fill, stroke: b.v ? b.stroke : undefined, strokeWidth: b.stroke ? 0.8 : undefined, title: `${p.transcript}: ${b.v} ${b.what}` }));
@@ -407,7 +407,7 @@ export function saturationChart(data: ReportData): string | null {
   items.push({ w: 19 + textWidth('new themes', 12), draw: (x, y) => rect(x, y - 6, 14, 12, { fill: OKABE_ITO.blue }) + text(x + 19, y, 'new themes', { size: 12, baseline: 'middle' }) });
   items.push({
     w: 19 + textWidth('new sub-themes', 12),
-    draw: (x, y) => rect(x, y - 6, 14, 12, { fill: 'url(#chart-saturation-sub)', stroke: OKABE_ITO.vermillion, strokeWidth: 0.8 }) + text(x + 19, y, 'new sub-themes', { size: 12, baseline: 'middle' }),
+    draw: (x, y) => rect(x, y - 6, 14, 12, { fill: 'url(#chart-growth-sub)', stroke: OKABE_ITO.vermillion, strokeWidth: 0.8 }) + text(x + 19, y, 'new sub-themes', { size: 12, baseline: 'middle' }),
   });
   let lx = left;
   let ly = legendY;
@@ -422,15 +422,15 @@ export function saturationChart(data: ReportData): string | null {
   const height = ly + 14;
 
   const desc =
-    'New themes and sub-themes added to the template while each transcript was coded, in coding order, and the running totals; a flattening curve suggests saturation. ' +
+    'Template growth: the themes and sub-themes first coded or added in each transcript, in coding order, and the running totals. A flattening curve is not proof that the template is complete. ' +
     pts.map((p) => `${p.transcript}: ${p.newThemes} new themes, ${p.newSubThemes} new sub-themes, ${p.cumulative} in all so far.`).join(' ');
   return chart({
-    id: 'chart-saturation',
+    id: 'chart-growth',
     width: WIDTH,
     height,
-    title: 'Saturation: new themes by transcript',
+    title: 'Template growth by transcript',
     desc,
-    defs: hatch('chart-saturation-sub', OKABE_ITO.vermillion, '#ffffff'),
+    defs: hatch('chart-growth-sub', OKABE_ITO.vermillion, '#ffffff'),
     body: parts.join(''),
   });
 }
@@ -451,7 +451,7 @@ export function unclaimedChart(data: ReportData): string | null {
   parts.push(rect(xu, 10, left + w - xu, 28, { fill: 'url(#chart-unclaimed-u)', stroke: OKABE_ITO.vermillion, strokeWidth: 1, title: `unclaimed: ${u.unclaimed} passages (${pct(u.share)})` }));
   parts.push(text(left, 58, `claimed by a theme: ${pct(1 - u.share)} (${claimed} passages)`, { size: 12, weight: 'bold' }));
   parts.push(text(left + w, 58, `unclaimed: ${pct(u.share)} (${u.unclaimed} passages)`, { size: 12, weight: 'bold', anchor: 'end', fill: '#9a3a00' }));
-  const desc = `Of ${u.passages} passages scored, ${claimed} (${pct(1 - u.share)}) were claimed by at least one theme and ${u.unclaimed} (${pct(u.share)}) by none.`;
+  const desc = `Of the study's ${u.passages} participant passages, ${u.unclaimed} (${pct(u.share)}) are unclaimed: neither coded, nor judged to need no code, nor claimed by any theme when last scored; the other ${claimed} are.`;
   return chart({
     id: 'chart-unclaimed',
     width: WIDTH,

@@ -8,7 +8,7 @@ import { writeCsv } from '../sheet/csv.js';
 import { DATA_CAUTION } from './cautions.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, int, oneLine, plural, when } from './escape.js';
-import type { ReportData, ReportTheme } from './types.js';
+import type { ReportData, ReportMemo, ReportTheme } from './types.js';
 
 export type CodebookFormat = 'md' | 'html' | 'csv';
 
@@ -54,17 +54,50 @@ export function mdEscape(text: string): string {
   );
 }
 
+/** The hierarchy first, then the integrative themes, which run across it. */
+function ordered(d: ReportData): ReportTheme[] {
+  return [...d.themes.filter((t) => !t.integrative), ...d.themes.filter((t) => t.integrative)];
+}
+
+/** "Workload 4, Patient safety 2": the top-level themes an integrative theme touches. */
+export function acrossText(d: ReportData, themeId: string): string | null {
+  const x = d.integrative?.find((i) => i.themeId === themeId);
+  if (!x) return null;
+  if (!x.passages) return 'not coded yet';
+  const touched = x.across.filter((a) => a.passages > 0);
+  return `touches ${touched.length} of ${x.across.length} top-level themes` + (touched.length ? `: ${touched.map((a) => `${a.name} (${plural(a.passages, 'passage')})`).join(', ')}` : '');
+}
+
+export const INTEGRATIVE_INTRO = 'Integrative themes run across the themes of the hierarchy rather than sitting under one; a passage carries them alongside any other theme.';
+
+/** Memos on the study as a whole: the codebook's preface. */
+function studyMemos(d: ReportData): ReportMemo[] {
+  return (d.memos ?? []).filter((m) => m.kind === 'study');
+}
+
 function markdown(d: ReportData, examples: number): string {
   const out: string[] = [`# Codebook: ${mdEscape(d.title)}`, '', mdEscape(intro(d)), '', `> ${mdEscape(DATA_CAUTION)}`, ''];
+  const notes = studyMemos(d);
+  if (notes.length) out.push('## Memos on the study', '', ...notes.map((m) => `- ${mdEscape(m.text)} _(${mdEscape(m.author)}, ${when(m.at)})_`), '');
   if (!d.themes.length) return [...out, '_The template has no themes yet._', ''].join('\n');
 
   out.push('## Overview', '', '| No. | Theme | A priori | Passages (with sub-themes) |', '| --- | --- | --- | ---: |');
-  for (const t of d.themes) {
+  let apart = false;
+  for (const t of ordered(d)) {
+    if (t.integrative && !apart) {
+      apart = true;
+      out.push('| | **Integrative themes** | | |');
+    }
     // Non-breaking spaces indent the overview, as a table cell would drop ordinary ones.
     out.push(`| ${t.number} | ${'\u00a0\u00a0'.repeat(level(t))}${mdEscape(t.name)} | ${t.apriori ? 'yes' : ''} | ${int(t.total)} |`);
   }
   out.push('', '## Themes', '');
-  for (const t of d.themes) {
+  apart = false;
+  for (const t of ordered(d)) {
+    if (t.integrative && !apart) {
+      apart = true;
+      out.push('## Integrative themes', '', mdEscape(INTEGRATIVE_INTRO), '');
+    }
     // Headings go one level deeper per template level; Markdown stops at six, the number does not.
     const hashes = '#'.repeat(Math.min(6, 3 + level(t)));
     out.push(`${hashes} ${t.number} ${mdEscape(t.name)}${t.apriori ? ' (a priori)' : ''}`, '');
@@ -76,6 +109,9 @@ function markdown(d: ReportData, examples: number): string {
     field('A priori', t.apriori ? 'yes, defined before coding began' : 'no');
     if (t.seeds.length) field('Seed terms', t.seeds.map(mdEscape).join(', '));
     field('Passages', mdEscape(counts(t)));
+    const runs = acrossText(d, t.id);
+    if (runs) field('Runs across', mdEscape(runs));
+    for (const m of t.memos ?? []) field('Memo', `${mdEscape(m.text)} _(${mdEscape(m.author)}, ${when(m.at)})_`);
     const qs = t.quotes.slice(0, examples);
     if (qs.length) {
       out.push('', qs.length === 1 ? 'Example:' : 'Examples:', '');
@@ -105,19 +141,22 @@ h2.entry-h { font-size: 1.25rem; }
 
 function html(d: ReportData, examples: number): string {
   const parts: string[] = [`<header><p class="meta">Codebook</p><h1>${esc(d.title)}</h1><p class="meta">${esc(intro(d))}</p><p class="caution">${esc(DATA_CAUTION)}</p></header>`];
+  const notes = studyMemos(d);
+  if (notes.length) parts.push(`<h2>Memos on the study</h2><ul>${notes.map((m) => `<li>${esc(oneLine(m.text))} <span class="note">(${esc(m.author)}, ${esc(when(m.at))})</span></li>`).join('')}</ul>`);
   if (!d.themes.length) {
     parts.push('<p class="empty">The template has no themes yet.</p>');
     return htmlDocument(`Codebook: ${d.title}`, BASE_CSS + CODEBOOK_CSS, parts.join('\n'));
   }
   parts.push(
     '<h2>Overview</h2><table class="overview"><thead><tr><th scope="col">No.</th><th scope="col">Theme</th><th scope="col">A priori</th><th scope="col" class="num">Passages (with sub-themes)</th></tr></thead><tbody>' +
-      d.themes
-        .map((t) => `<tr${level(t) === 0 ? ' class="top"' : ''}><td class="nowrap">${esc(t.number)}</td><td class="theme" style="--indent:${8 + level(t) * 20}px">${esc(t.name)}</td><td>${t.apriori ? 'a priori' : ''}</td><td class="num">${int(t.total)}</td></tr>`)
+      ordered(d)
+        .map((t, i, all) => (t.integrative && !all[i - 1]?.integrative ? '<tr class="top"><td></td><td colspan="3">Integrative themes</td></tr>' : '') + `<tr${level(t) === 0 ? ' class="top"' : ''}><td class="nowrap">${esc(t.number)}</td><td class="theme" style="--indent:${8 + level(t) * 20}px">${esc(t.name)}</td><td>${t.apriori ? 'a priori' : ''}</td><td class="num">${int(t.total)}</td></tr>`)
         .join('') +
       '</tbody></table>',
   );
   parts.push('<h2>Themes</h2>');
-  for (const t of d.themes) {
+  for (const t of ordered(d)) {
+    if (t.integrative && t.number === 'I1') parts.push(`<h2>Integrative themes</h2><p>${esc(INTEGRATIVE_INTRO)}</p>`);
     const h = Math.min(6, 3 + level(t));
     const rows: [string, string][] = [['Definition', t.definition ? esc(oneLine(t.definition)) : '<span class="note">not yet written</span>']];
     if (t.include) rows.push(['Include', esc(oneLine(t.include))]);
@@ -125,6 +164,9 @@ function html(d: ReportData, examples: number): string {
     rows.push(['A priori', t.apriori ? 'yes, defined before coding began' : 'no']);
     if (t.seeds.length) rows.push(['Seed terms', esc(t.seeds.join(', '))]);
     rows.push(['Passages', esc(counts(t))]);
+    const runs = acrossText(d, t.id);
+    if (runs) rows.push(['Runs across', esc(runs)]);
+    for (const m of t.memos ?? []) rows.push(['Memo', `${esc(oneLine(m.text))} <span class="note">(${esc(m.author)}, ${esc(when(m.at))})</span>`]);
     const qs = t.quotes.slice(0, examples);
     parts.push(
       `<section class="entry${level(t) === 0 ? ' top' : ''}"><h${h} class="entry-h">${esc(`${t.number} ${t.name}`)}${t.apriori ? '<span class="tag">a priori</span>' : ''}</h${h}>` +
@@ -156,13 +198,15 @@ export const CODEBOOK_COLUMNS = [
   'example_1_source',
   'example_2',
   'example_2_source',
+  'integrative',
 ] as const;
 
 function csv(d: ReportData, examples: number): string {
   const n = Math.max(0, examples);
   const columns: string[] = [...CODEBOOK_COLUMNS.slice(0, 11)];
   for (let i = 1; i <= n; i++) columns.push(`example_${i}`, `example_${i}_source`);
-  const rows = d.themes.map((t) => {
+  columns.push('integrative');
+  const rows = ordered(d).map((t) => {
     const row: (string | number)[] = [
       t.number,
       t.name,
@@ -180,6 +224,7 @@ function csv(d: ReportData, examples: number): string {
       const q = t.quotes[i];
       row.push(q ? oneLine(q.text) : '', q ? source(q) : '');
     }
+    row.push(t.integrative ? 'yes' : 'no');
     return row;
   });
   return writeCsv(columns, rows, DATA_CAUTION);

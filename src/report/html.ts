@@ -3,11 +3,11 @@
  * fetched) for a supervisor, a funder or the team's own audit trail. Pure: ReportData in, text out.
  */
 
-import { AGREEMENT_CAUTION, LANDIS_KOCH_BANDS, agreementBand } from '../measure/bands.js';
-import { FEW_DECISIONS, acceptanceChart, calibrationChart, heatmapChart, overTimeChart, saturationChart, themeLabeller, unclaimedChart } from './charts.js';
+import { AGREEMENT_CAUTION, KRIPPENDORFF_GUIDANCE, LANDIS_KOCH_BANDS } from '../measure/bands.js';
+import { FEW_DECISIONS, acceptanceChart, calibrationChart, growthChart, heatmapChart, overTimeChart, themeLabeller, unclaimedChart } from './charts.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, fixed, int, oneLine, pct, plural, when } from './escape.js';
-import type { ReportCluster, ReportData, ReportTheme } from './types.js';
+import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from './types.js';
 
 const REPORT_CSS = `
 header.doc { border-bottom: 1px solid var(--rule); padding-bottom: 16px; }
@@ -45,6 +45,8 @@ table.agreement tr.pooled td { font-weight: 700; border-top: 2px solid var(--rul
 .terms { display: flex; flex-wrap: wrap; gap: 6px; list-style: none; padding: 0; margin: 6px 0; }
 .terms li { border: 1px solid var(--rule); border-radius: 3px; padding: 0 7px; font-size: 0.85rem; background: var(--tint); }
 .theme-quotes { margin: 18px 0 26px; }
+.memo { border-left: 3px solid var(--rule); padding: 0 0 0 12px; margin: 10px 0; }
+.memo p { margin: 2px 0; max-width: 80ch; }
 ul.cautions li { margin: 6px 0; max-width: 80ch; }
 @media print { nav.toc { display: none; } .scroll { overflow: visible; } .scroll svg.chart { max-width: 100%; } }
 `;
@@ -54,9 +56,10 @@ const SECTIONS = [
   ['template', 'The template and its revisions'],
   ['coverage', 'Themes across transcripts'],
   ['acceptance', 'Acceptance of suggestions'],
-  ['saturation', 'Saturation'],
+  ['growth', 'Template growth'],
   ['unclaimed', 'Unclaimed passages and clusters'],
   ['agreement', 'Inter-coder agreement'],
+  ['memos', 'Memos'],
   ['quotes', 'Representative quotes'],
   ['cautions', 'Cautions'],
 ] as const;
@@ -93,19 +96,20 @@ function summary(d: ReportData): string {
     stat(a.decided ? pct(a.rate) : '–', 'suggestions accepted', a.decided ? `${int(a.accepted)} of ${int(a.decided)} decided` : 'no decisions yet'),
     stat(d.unclaimed.share === null ? '–' : pct(d.unclaimed.share), 'passages unclaimed', d.unclaimed.share === null ? 'not yet measured' : `${int(d.unclaimed.unclaimed)} of ${int(d.unclaimed.passages)}; ${plural(d.unclaimed.clusters.length, 'cluster')}`),
   ];
-  const ag = d.agreement?.rows.find((r) => /pooled/i.test(r.theme)) ?? null;
-  // The row's band may belong to another coefficient: the card names the band of its own value.
-  if (ag) cards.push(stat(fixed(ag.kappa), "Cohen's κ, pooled", `${agreementBand(ag.kappa) ?? 'undefined'}; ${d.agreement!.coders.join(' and ')}`));
+  // Agreement is a section of its own, with its units and caveats, not a headline figure.
   const sentence =
     `This report covers ${plural(c.transcripts, 'transcript')} divided into ${plural(c.passages, 'passage')}, ` +
     `${int(c.coded)} of which carry at least one theme from a template of ${plural(c.themes, 'theme')}` +
     (c.revision === null ? '.' : ` (revision ${c.revision}).`) +
+    (c.nothingToCode ? ` Coders read ${plural(c.nothingToCode, 'more passage')} and judged that no theme applies ("reviewed, nothing to code").` : '') +
     (a.decided ? ` Coders have decided on ${plural(a.decided, 'suggestion')} and accepted ${pct(a.rate)} of them.` : ' No suggestion has been decided on yet.');
   return `<div class="stats">${cards.join('')}</div>\n<p>${esc(sentence)}</p>`;
 }
 
-function templateTree(themes: readonly ReportTheme[]): string {
-  if (!themes.length) return empty('The template has no themes yet.');
+function templateTree(all: readonly ReportTheme[], d?: ReportData): string {
+  if (!all.length) return empty('The template has no themes yet.');
+  const themes = all.filter((t) => !t.integrative);
+  const across = all.filter((t) => t.integrative);
   const rows = themes.map((t) => {
     const level = t.number.split('.').length - 1;
     const def = t.definition ? `<span class="def">${esc(oneLine(t.definition))}</span>` : '';
@@ -118,7 +122,27 @@ function templateTree(themes: readonly ReportTheme[]): string {
   return (
     `<table class="tree"><caption>Themes in template order. "Coded to it": passages coded to the theme itself; "with sub-themes": to it or any theme below it (a passage counts once). Themes marked a priori were defined before coding began.</caption>` +
     `<thead><tr><th scope="col">No.</th><th scope="col">Theme</th><th scope="col" class="num">Coded to it</th><th scope="col" class="num">With sub-themes</th></tr></thead>` +
-    `<tbody>${rows.join('\n')}</tbody></table>`
+    `<tbody>${rows.join('\n')}</tbody></table>` +
+    (across.length && d ? integrativeTable(across, d) : '')
+  );
+}
+
+/** Integrative themes, apart from the hierarchy, with the top-level themes each runs across. */
+function integrativeTable(themes: readonly ReportTheme[], d: ReportData): string {
+  const tops = d.integrative?.[0]?.across.map((a) => a.name) ?? [];
+  const rows = themes.map((t) => {
+    const x = d.integrative?.find((i) => i.themeId === t.id);
+    const cells = tops.map((name) => `<td class="num">${x ? int(x.across.find((a) => a.name === name)?.passages ?? 0) : ''}</td>`).join('');
+    const level = t.number.split('.').length - 1;
+    return (
+      `<tr class="${level === 0 ? 'top' : 'sub'}"><td class="nowrap">${esc(t.number)}</td><td class="theme" style="padding-left:${(8 + level * 22).toFixed(0)}px"><span class="name">${esc(t.name)}</span>${t.apriori ? '<span class="tag">a priori</span>' : ''}</td>` +
+      `<td class="num">${int(t.total)}</td>${cells}</tr>`
+    );
+  });
+  return (
+    `<h3>Integrative themes</h3><p>${esc('Integrative themes run across the themes above rather than sitting under one; a passage carries them alongside any other theme. Each column counts the theme\'s passages that also carry that top-level theme (or a theme under it).')}</p>` +
+    `<div class="scroll"><table class="tree integrative"><thead><tr><th scope="col">No.</th><th scope="col">Theme</th><th scope="col" class="num">Passages</th>${tops.map((n) => `<th scope="col" class="num">${esc(n)}</th>`).join('')}</tr></thead>` +
+    `<tbody>${rows.join('\n')}</tbody></table></div>`
   );
 }
 
@@ -166,7 +190,7 @@ function acceptance(d: ReportData): string {
   parts.push(
     `<p>${esc(
       `Of ${plural(a.overall.decided, 'suggestion')} decided (accepted, rejected or re-coded to another theme), ${int(a.overall.accepted)} were accepted: ${pct(a.overall.rate)}. ` +
-        'Deferred suggestions are left out until they are decided. Acceptance shows how often coders took a suggestion, not whether a coding is right.',
+        'Deferred suggestions are left out until they are decided. Acceptance shows how often suggestions were accepted; it does not measure whether a coding is correct.',
     )}</p>`,
   );
   const bars = acceptanceChart(d);
@@ -211,16 +235,18 @@ function acceptance(d: ReportData): string {
   return parts.join('\n');
 }
 
-function saturation(d: ReportData): string {
-  const svg = saturationChart(d);
-  if (!svg) return empty('No transcript has been coded yet, so there is no saturation curve.');
-  const last = [...d.saturation].sort((a, b) => a.order - b.order).slice(-3);
+function growth(d: ReportData): string {
+  const svg = growthChart(d);
+  if (!svg) return empty('No transcript has been coded yet, so the template has not grown yet.');
+  const last = [...d.growth].sort((a, b) => a.order - b.order).slice(-3);
   const quiet = last.length === 3 && last.every((p) => p.newThemes + p.newSubThemes === 0);
   return figure(
-    'New themes and sub-themes by transcript',
+    'Themes first coded or added, by transcript',
     svg,
-    'Themes added to the template while each transcript was being coded, credited to that transcript, in coding order; themes of the template before coding began (such as the a priori themes) are not counted. A curve that flattens suggests that further transcripts are adding little that is new; it is not proof of saturation.' +
-      (quiet ? ' The last three transcripts coded added no new theme.' : ''),
+    'For each transcript in the order it was coded: the themes first coded there, or added to the template while it was being coded. The initial template\'s themes (a priori ones included) count at the transcripts of the first batch that introduced them, so the curve shows how the template grew. ' +
+      (d.notYetCoded ? `${plural(d.notYetCoded, 'theme')} of the template ${d.notYetCoded === 1 ? 'is' : 'are'} not coded yet and not on the curve. ` : '') +
+      'A flattening curve means recent transcripts added little to the template; it is not proof that the template is complete: the next transcript may still differ, and the curve depends on the order of coding.' +
+      (quiet ? ' The last three transcripts coded added no theme.' : ''),
   );
 }
 
@@ -251,7 +277,7 @@ function unclaimed(d: ReportData): string {
     return parts.join('\n');
   }
   parts.push(`<p>${esc(`${plural(u.clusters.length, 'cluster')} from the latest discovery run. Each is a possible new theme, named by its most characteristic terms; the examples are the passages nearest its centre.`)}</p>`);
-  const ordered = [...u.clusters].sort((a, b) => STATUS_ORDER.indexOf(a.status) - STATUS_ORDER.indexOf(b.status) || b.size - a.size || a.id - b.id);
+  const ordered = [...u.clusters].sort((a, b) => STATUS_ORDER.indexOf(a.status) - STATUS_ORDER.indexOf(b.status) || b.size - a.size || a.id.localeCompare(b.id));
   for (const c of ordered) {
     parts.push(
       `<article class="cluster"><h4>Cluster ${c.id}: ${esc(c.label)}</h4>` +
@@ -267,7 +293,7 @@ function unclaimed(d: ReportData): string {
 function agreement(d: ReportData): string {
   const ag = d.agreement;
   if (!ag || !ag.rows.length) {
-    return empty('No two coders have coded the same passages yet, so inter-coder agreement cannot be reported. Agreement needs a second coder to code a shared set of transcripts independently.');
+    return empty('No two coders have reviewed the same passages yet, so inter-coder agreement cannot be reported. Agreement needs a second coder to code a shared set of transcripts independently.');
   }
   const label = themeLabeller(d.themes);
   const rows = ag.rows
@@ -276,17 +302,51 @@ function agreement(d: ReportData): string {
       const l = label(r.theme);
       return (
         `<tr${pooled ? ' class="pooled"' : ''}><td>${esc(pooled ? r.theme : l.label)}</td><td class="num">${int(r.units)}</td>` +
-        `<td class="num">${pct(r.percentAgreement, 1)}</td><td class="num">${fixed(r.kappa)}</td><td class="num">${fixed(r.alpha)}</td><td>${r.band ? esc(r.band) : '–'}</td></tr>`
+        `<td class="num">${pct(r.percentAgreement, 1)}</td><td class="num">${fixed(r.kappa)}</td><td>${r.kappaBand ? esc(r.kappaBand) : '–'}</td>` +
+        `<td class="num">${fixed(r.alpha)}</td><td>${r.alphaGuidance ? esc(r.alphaGuidance) : '–'}</td></tr>`
       );
     })
     .join('\n');
   const key = LANDIS_KOCH_BANDS.map((b) => `${b.label} ${b.range}`).join('; ');
+  const guide = KRIPPENDORFF_GUIDANCE.map((g) => `${g.label}: ${g.rule}`).join('; ');
   return (
-    `<p>${esc(`Coders compared: ${ag.coders.join(', ')}. For each theme, every passage both coders coded is a unit, and they agree on it when both applied the theme or neither did. Themes are compared as coded: a coding to a sub-theme does not count for its parent.`)}</p>` +
-    `<table class="agreement"><thead><tr><th scope="col">Theme</th><th scope="col" class="num">Passages compared</th><th scope="col" class="num">Percent agreement</th><th scope="col" class="num">Cohen's κ</th><th scope="col" class="num">Krippendorff's α</th><th scope="col">Band (of α)</th></tr></thead><tbody>${rows}</tbody></table>` +
-    `<p class="note">${esc(`Bands (${key}) follow ${ag.bandsSource}`)}</p>` +
+    `<p>${esc(
+      `Coders compared: ${ag.coders.join(', ')}. The units are the ${plural(ag.units, 'participant passage')} that two or more of them reviewed: coded, decided on a suggestion for, or marked "reviewed, nothing to code". Interviewer turns and sheet rows left empty are not units. ` +
+        'For each theme, coders agree on a unit when all applied the theme or none did. Themes are compared as coded: a coding to a sub-theme does not count for its parent. Each figure rests on the units in its row.',
+    )}</p>` +
+    `<table class="agreement"><thead><tr><th scope="col">Theme</th><th scope="col" class="num">Units</th><th scope="col" class="num">Percent agreement</th><th scope="col" class="num">Cohen's κ</th><th scope="col">Band of κ</th><th scope="col" class="num">Krippendorff's α</th><th scope="col">Guidance for α</th></tr></thead><tbody>${rows}</tbody></table>` +
+    `<p class="note">${esc(`The pooled row counts every passage-theme pair of the units. Bands of κ (${key}) follow ${ag.bandsSource} Guidance for α (${guide}) follows ${ag.guidanceSource}`)}</p>` +
+    (ag.disagreements ? `<p>${esc(`The coders differ on ${plural(ag.disagreements, 'passage-theme pair')}; "trellis agree --coders ${ag.coders.join(',')} --list" lists them, theme by theme, for the team to discuss.`)}</p>` : '') +
+    (ag.circularity ? `<p class="callout">${esc(ag.circularity)}</p>` : '') +
     `<p class="callout">${esc(ag.caution || AGREEMENT_CAUTION)}</p>`
   );
+}
+
+const MEMO_GROUPS: [ReportMemo['kind'], string][] = [
+  ['study', 'On the study'],
+  ['theme', 'On themes'],
+  ['transcript', 'On transcripts'],
+  ['passage', 'On passages'],
+];
+
+function memosSection(d: ReportData): string {
+  const all = d.memos ?? [];
+  if (!all.length) return empty('No memos have been written yet ("trellis memo add", or the coding sheet\'s note column).');
+  const parts = [`<p>${esc(`${plural(all.length, 'memo')}: the analysts' notes on the study, its themes, transcripts and passages, oldest first in each group.`)}</p>`];
+  for (const [kind, title] of MEMO_GROUPS) {
+    const ms = all.filter((m) => m.kind === kind);
+    if (!ms.length) continue;
+    parts.push(
+      `<h3>${esc(title)}</h3>` +
+        ms
+          .map(
+            (m) =>
+              `<article class="memo"><p class="meta">${esc(`${kind === 'study' ? '' : `${m.label} · `}${m.author} · ${when(m.at)} · memo #${m.id}`)}</p><p>${esc(m.text)}</p></article>`,
+          )
+          .join(''),
+    );
+  }
+  return parts.join('\n');
 }
 
 function quotes(d: ReportData): string {
@@ -323,12 +383,13 @@ export function renderReport(data: ReportData): string {
   const body = [
     header,
     section('summary', summary(data)),
-    section('template', `<h3>The template</h3>\n${templateTree(data.themes)}\n<h3>Revision history</h3>\n${revisionHistory(data)}`),
+    section('template', `<h3>The template</h3>\n${templateTree(data.themes, data)}\n<h3>Revision history</h3>\n${revisionHistory(data)}`),
     section('coverage', coverage(data)),
     section('acceptance', acceptance(data)),
-    section('saturation', saturation(data)),
+    section('growth', growth(data)),
     section('unclaimed', unclaimed(data)),
     section('agreement', agreement(data)),
+    section('memos', memosSection(data)),
     section('quotes', quotes(data)),
     section('cautions', cautions(data)),
     `<footer class="doc">${esc(`Made by trellis from the study's own records, on this computer. ${when(data.generatedAt)}.`)}</footer>`,

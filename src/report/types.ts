@@ -7,6 +7,8 @@ export interface ReportTheme {
   path: string;
   depth: number;
   apriori: boolean;
+  /** An integrative theme, or under one: listed apart from the hierarchy. */
+  integrative?: boolean;
   definition: string;
   include: string;
   exclude: string;
@@ -14,8 +16,22 @@ export interface ReportTheme {
   /** Passages coded to this theme itself / to it or any sub-theme. */
   direct: number;
   total: number;
+  /** Memos on this theme, oldest first. */
+  memos?: ReportMemo[];
   /** Most representative coded quotes (closest to the theme's centroid first). */
   quotes: { passageId: string; transcript: string; speaker: string | null; time: string; text: string }[];
+}
+
+export interface ReportMemo {
+  id: number;
+  at: string;
+  author: string;
+  kind: 'study' | 'theme' | 'transcript' | 'passage';
+  /** Theme id, transcript name or passage id; null for the study. */
+  target: string | null;
+  /** The theme's current path, the transcript name or passage id, or "the study". */
+  label: string;
+  text: string;
 }
 
 export interface ReportRevision {
@@ -44,7 +60,9 @@ export interface CalibrationRow {
 }
 
 export interface ReportCluster {
-  id: number;
+  /** The stable cluster id, as commands print and accept it ("c3f9a1"). */
+  id: string;
+  /** Its top terms. */
   label: string;
   size: number;
   terms: string[];
@@ -60,14 +78,25 @@ export interface AgreementRow {
   percentAgreement: number | null;
   kappa: number | null;
   alpha: number | null;
-  /** Landis & Koch band of alpha. */
-  band: string | null;
+  /** Landis & Koch band of kappa. */
+  kappaBand: string | null;
+  /** Krippendorff's guidance for alpha: reliable, tentative, unreliable. */
+  alphaGuidance: string | null;
 }
 
 export interface ReportData {
   title: string;
   generatedAt: string;
-  counts: { transcripts: number; passages: number; participant: number; coded: number; themes: number; revision: number | null };
+  counts: {
+    transcripts: number;
+    passages: number;
+    participant: number;
+    coded: number;
+    /** Participant passages not coded that a coder marked "reviewed, nothing to code". */
+    nothingToCode?: number;
+    themes: number;
+    revision: number | null;
+  };
   themes: ReportTheme[];
   revisions: ReportRevision[];
   /** Theme x transcript passage counts (rolled up over sub-themes), themes in template order. */
@@ -75,8 +104,30 @@ export interface ReportData {
   heatmap: { transcripts: string[]; themes: string[]; counts: number[][] };
   acceptance: { overall: AcceptanceRow; perTheme: AcceptanceRow[]; /** Cumulative acceptance rate after each decided suggestion. */
     overTime: { index: number; at: string; rate: number }[]; calibration: CalibrationRow[] };
-  saturation: { transcript: string; order: number; newThemes: number; newSubThemes: number; cumulative: number }[];
+  /** Template growth: themes first coded or added in each transcript, in coding order. */
+  growth: { transcript: string; order: number; newThemes: number; newSubThemes: number; cumulative: number }[];
+  /** Themes of the template no passage carries yet (not on the growth curve). */
+  notYetCoded?: number;
   unclaimed: { share: number | null; passages: number; unclaimed: number; clusters: ReportCluster[] };
-  agreement: { coders: string[]; rows: AgreementRow[]; bandsSource: string; caution: string } | null;
+  agreement: {
+    coders: string[];
+    /** Participant passages reviewed by two or more of the coders: the units. */
+    units: number;
+    rows: AgreementRow[];
+    /** Passage-theme pairs on which the coders differ (listed by "trellis agree --list"). */
+    disagreements: number;
+    bandsSource: string;
+    guidanceSource: string;
+    /** Said when a coder's codings include accepted suggestions. */
+    circularity: string | null;
+    caution: string;
+  } | null;
   cautions: string[];
+  /** Every memo, oldest first; theme memos also sit on their theme (ReportTheme.memos). */
+  memos?: ReportMemo[];
+  /**
+   * Each integrative theme: its passages, and how many of them carry each top-level theme.
+   * Absent or empty when the template has none.
+   */
+  integrative?: { themeId: string; name: string; passages: number; touches: number; across: { name: string; passages: number }[] }[];
 }

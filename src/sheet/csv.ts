@@ -24,7 +24,7 @@ export function unguardCell(v: string): string {
  */
 export function writeCsv(columns: readonly string[], rows: readonly (readonly unknown[] | object)[], caution?: string): string {
   const cells = rows.map((r) => (Array.isArray(r) ? r : columns.map((c) => (r as Record<string, unknown>)[c])).map(guardCell));
-  // A cell holding "#" is quoted, so that readers told to skip "#" comment lines keep it whole.
-  const body = stringify(cells, { header: true, columns: columns.map((c) => String(guardCell(c))), record_delimiter: '\r\n', quoted_match: /[\n",;#]/ });
+  // A cell starting with "#" is quoted, so that readers told to skip "#" comment lines keep its row.
+  const body = stringify(cells, { header: true, columns: columns.map((c) => String(guardCell(c))), record_delimiter: '\r\n', quoted_match: [/[\n",;]/, /^#/] });
   return '\ufeff' + (caution ? `# ${caution.replace(/[\r\n]+/g, ' ')}\r\n` : '') + body;
 }

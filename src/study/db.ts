@@ -208,10 +208,19 @@ function migrate(db: DB, file: string): void {
   checkVersion(db, file);
   const from = versionOf(db);
   if (from === SCHEMA_VERSION) return;
-  db.transaction(() => {
-    for (let v = from; v < SCHEMA_VERSION; v++) db.exec(MIGRATIONS[v]!);
-    db.pragma(`user_version = ${SCHEMA_VERSION}`);
-  })();
+  // Foreign keys are off while tables are rebuilt (SQLite's own procedure for changing a table);
+  // the check afterwards makes sure the rebuilt tables still hold together.
+  db.pragma('foreign_keys = OFF');
+  try {
+    db.transaction(() => {
+      for (let v = from; v < SCHEMA_VERSION; v++) db.exec(MIGRATIONS[v]!);
+      const broken = db.pragma('foreign_key_check') as unknown[];
+      if (broken.length) throw new Error(`migration to schema ${SCHEMA_VERSION} broke ${broken.length} references`);
+      db.pragma(`user_version = ${SCHEMA_VERSION}`);
+    })();
+  } finally {
+    db.pragma('foreign_keys = ON');
+  }
 }
 
 export function settingsOf(db: DB): StudySettings {

@@ -10,7 +10,7 @@ export interface DecisionRow {
   id: number;
   at: string;
   coder: string;
-  action: Action | 'undo';
+  action: Action | 'undo' | 'nocode';
   suggestion_id: number | null;
   passage_id: string | null;
   transcript: string | null;
@@ -174,6 +174,61 @@ export function acceptAllAbove(db: DB, minConfidence: number, themePath: string,
       .all(run.id, theme, minConfidence) as { id: number }[];
     return ids.filter((r) => !standing(db, r.id)).map((r) => record(db, { suggestionId: r.id, action: 'accept', coder, note, bulk: true }));
   }).immediate();
+}
+
+/**
+ * "Reviewed, nothing to code": the coder read each passage and judged that no theme applies.
+ * Each mark is a decision in the log (undo withdraws it), and counts as the coder having looked
+ * at the passage, so for agreement it is a judgement that every theme is absent. A passage the
+ * same coder has coded, or already marked, is refused: the whole call lands or none of it.
+ */
+export function markNothingToCode(db: DB, passageIds: readonly string[], coder: string, note?: string): DecisionRow[] {
+  if (!passageIds.length) throw new UserError('name the passages: trellis nocode PASSAGE_ID... (ids as in "trellis suggest" or the coding sheet)');
+  return db
+    .transaction(() => {
+      const get = db.prepare('SELECT p.id, p.role, t.name AS transcript FROM passages p JOIN transcripts t ON t.id = p.transcript_id WHERE p.id = ?');
+      const coded = db.prepare('SELECT theme_id FROM codings WHERE passage_id = ? AND coder = ? AND removed_at IS NULL');
+      const marked = nothingToCodeBy(db, coder);
+      const rev = currentRevision(db);
+      const now = new Date().toISOString();
+      const ins = db.prepare(`INSERT INTO decisions (at, coder, action, passage_id, transcript, note, rev) VALUES (?, ?, 'nocode', ?, ?, ?, ?)`);
+      const out: DecisionRow[] = [];
+      for (const id of new Set(passageIds)) {
+        const p = get.get(id) as { id: string; role: string; transcript: string } | undefined;
+        if (!p) throw new UserError(`no passage "${id}" in this study (passage ids are shown by "trellis suggest" and in the coding sheet)`);
+        if (p.role !== 'participant') throw new UserError(`passage ${id} is an interviewer turn: interviewer turns are never coded, so there is nothing to mark`);
+        const has = coded.all(id, coder) as { theme_id: string }[];
+        if (has.length) throw new UserError(`passage ${id} is coded by ${coder} (${has.length === 1 ? '1 theme' : `${has.length} themes`}): remove the coding before marking it nothing to code`);
+        if (marked.has(id)) throw new UserError(`passage ${id} is already marked nothing to code by ${coder} (decision #${marked.get(id)})`);
+        const did = Number(ins.run(now, coder, id, p.transcript, note ?? null, rev?.rev ?? null).lastInsertRowid);
+        db.prepare('INSERT OR IGNORE INTO seen (coder, passage_id) VALUES (?, ?)').run(coder, id);
+        out.push(db.prepare('SELECT * FROM decisions WHERE id = ?').get(did) as DecisionRow);
+      }
+      return out;
+    })
+    .immediate();
+}
+
+/** Passage id -> decision id of this coder's standing "nothing to code" marks. */
+export function nothingToCodeBy(db: DB, coder: string): Map<string, number> {
+  const rows = db
+    .prepare(
+      `SELECT d.id, d.passage_id FROM decisions d WHERE d.action = 'nocode' AND d.coder = ?
+       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)`,
+    )
+    .all(coder) as { id: number; passage_id: string }[];
+  return new Map(rows.map((r) => [r.passage_id, r.id]));
+}
+
+/** Passages some coder marked "reviewed, nothing to code" (marks still standing). */
+export function nothingToCode(db: DB): Set<string> {
+  const rows = db
+    .prepare(
+      `SELECT DISTINCT d.passage_id AS id FROM decisions d WHERE d.action = 'nocode'
+       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)`,
+    )
+    .all() as { id: string }[];
+  return new Set(rows.map((r) => r.id));
 }
 
 /** (passage, theme) pairs a coder rejected or re-coded away from: negative evidence. */

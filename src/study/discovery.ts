@@ -4,13 +4,15 @@ import { triage, type TranscriptTriage } from '../discover/triage.js';
 import type { DiscoverOptions, DiscoverResult, Dismissal, PoolCandidate, PoolResult } from '../discover/types.js';
 import { UserError } from '../errors.js';
 import { addTheme } from '../template/ops.js';
-import { findByPath } from '../template/paths.js';
+import { findByPath, walk } from '../template/paths.js';
+import { CLUSTER_KEY, clusterKey, clusterLabel } from '../discover/key.js';
 import type { PassageSuggestions } from '../suggest/types.js';
 import type { DB } from './db.js';
+import { nothingToCode } from './decisions.js';
 import { getPassage } from './passages.js';
 import { reviseTemplate } from './revise.js';
 import { fitModel } from './suggestions.js';
-import { currentRevision } from './template.js';
+import { currentRevision, currentTemplate } from './template.js';
 
 /** What the store keeps of a cluster beside its counts (clusters.detail). */
 export interface ClusterDetail {
@@ -22,7 +24,11 @@ export interface ClusterDetail {
 }
 
 export interface StoredCluster {
-  cluster_id: number;
+  /** The row of this run's cluster (internal). */
+  row_id: number;
+  /** The stable id, as printed and accepted by commands: the same whenever the members are. */
+  cluster_id: string;
+  /** Its top terms: the name a researcher reads. */
   label: string;
   size: number;
   cohesion: number;
@@ -43,7 +49,7 @@ interface Scored {
   suggestions: PassageSuggestions[];
   pool: PoolResult;
   fingerprint: string;
-  codedTranscripts: Set<string>;
+  codedPassages: Set<string>;
   background: string[][];
 }
 
@@ -58,18 +64,17 @@ function scoreStudy(db: DB, poolOpts: PoolOptions = {}): Scored {
   const suggestions = model.predict(inputs.uncoded, { reasons: 0 });
   const thresholds = Object.fromEntries(model.themeReports().map((r) => [r.themeId, r.threshold]));
   const pool = unclaimedPool(
-    { passages, suggestions, themes: inputs.themes.map((t) => ({ id: t.id, parentId: t.parentId })), codings: inputs.codings, rejected: negatives, thresholds },
+    { passages, suggestions, themes: inputs.themes.map((t) => ({ id: t.id, parentId: t.parentId })), codings: inputs.codings, rejected: negatives, nothingToCode: nothingToCode(db), thresholds },
     poolOpts,
   );
-  const coded = new Set(inputs.codings.map((c) => c.passageId));
-  const codedTranscripts = new Set(inputs.passages.filter((p) => coded.has(p.id)).map((p) => p.transcript));
-  return { passages, suggestions, pool, fingerprint: model.fingerprint, codedTranscripts, background: inputs.passages.map((p) => p.terms) };
+  const codedPassages = new Set(inputs.codings.map((c) => c.passageId));
+  return { passages, suggestions, pool, fingerprint: model.fingerprint, codedPassages, background: inputs.passages.map((p) => p.terms) };
 }
 
 function dismissals(db: DB): Dismissal[] {
-  const rows = db.prepare("SELECT id FROM clusters WHERE status = 'dismissed' ORDER BY id").all() as { id: number }[];
+  const rows = db.prepare("SELECT id, key FROM clusters WHERE status = 'dismissed' ORDER BY id").all() as { id: number; key: string | null }[];
   const members = db.prepare('SELECT passage_id FROM cluster_passages WHERE cluster_id = ? ORDER BY passage_id');
-  return rows.map((r) => ({ id: String(r.id), passageIds: (members.all(r.id) as { passage_id: string }[]).map((m) => m.passage_id) }));
+  return rows.map((r) => ({ id: r.key ?? String(r.id), passageIds: (members.all(r.id) as { passage_id: string }[]).map((m) => m.passage_id) }));
 }
 
 /**
@@ -88,7 +93,8 @@ export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
         .run(new Date().toISOString(), rev.rev, scored.fingerprint, scored.pool.pool.length, result.k, JSON.stringify(result.silhouette), JSON.stringify(opts))
         .lastInsertRowid,
     );
-    const insC = db.prepare('INSERT INTO clusters (run_id, label, size, cohesion, detail) VALUES (?, ?, ?, ?, ?)');
+    const insC = db.prepare('INSERT INTO clusters (run_id, label, size, cohesion, detail, key) VALUES (?, ?, ?, ?, ?, ?)');
+    const keys = new Set<string>();
     const insP = db.prepare('INSERT INTO cluster_passages (cluster_id, passage_id, similarity) VALUES (?, ?, ?)');
     const clusters = result.clusters.map((c): StoredCluster => {
       const detail: ClusterDetail = {
@@ -101,104 +107,141 @@ export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
         speakers: c.speakers,
         dismissed_before: c.dismissedBefore,
       };
-      const id = Number(insC.run(runId, c.id, c.size, c.cohesion, JSON.stringify(detail)).lastInsertRowid);
+      // Two clusters of one run never share members, so a clash of short keys is a hash collision.
+      let key = clusterKey(c.passageIds);
+      for (let n = 8; keys.has(key); n += 2) key = clusterKey(c.passageIds, n);
+      keys.add(key);
+      const id = Number(insC.run(runId, c.id, c.size, c.cohesion, JSON.stringify(detail), key).lastInsertRowid);
       const sim = new Map(c.central.map((x) => [x.passageId, x.similarity]));
       for (const p of c.passageIds) insP.run(id, p, sim.get(p) ?? 0);
-      return { cluster_id: id, label: c.id, size: c.size, cohesion: c.cohesion, status: 'open', passage_ids: c.passageIds, detail };
+      return { row_id: id, cluster_id: key, label: clusterLabel(detail.terms.map((t) => t.term)), size: c.size, cohesion: c.cohesion, status: 'open', passage_ids: [...c.passageIds].sort(), detail };
     });
     return { runId, result, pool: scored.pool, clusters };
   })();
 }
 
-export function getCluster(db: DB, id: number): StoredCluster {
-  const r = db.prepare('SELECT id, label, size, cohesion, status, detail FROM clusters WHERE id = ?').get(id) as
-    | { id: number; label: string; size: number; cohesion: number; status: StoredCluster['status']; detail: string }
-    | undefined;
-  if (!r) throw new UserError(`no cluster ${id} in this study (see "trellis discover")`);
-  const ids = (db.prepare('SELECT passage_id FROM cluster_passages WHERE cluster_id = ? ORDER BY passage_id').all(id) as { passage_id: string }[]).map((x) => x.passage_id);
-  return { cluster_id: r.id, label: r.label, size: r.size, cohesion: r.cohesion, status: r.status, passage_ids: ids, detail: JSON.parse(r.detail) as ClusterDetail };
+function storedCluster(db: DB, rowId: number): StoredCluster {
+  const r = db.prepare('SELECT id, key, size, cohesion, status, detail FROM clusters WHERE id = ?').get(rowId) as {
+    id: number;
+    key: string | null;
+    size: number;
+    cohesion: number;
+    status: StoredCluster['status'];
+    detail: string;
+  };
+  const ids = (db.prepare('SELECT passage_id FROM cluster_passages WHERE cluster_id = ? ORDER BY passage_id').all(rowId) as { passage_id: string }[]).map((x) => x.passage_id);
+  const detail = JSON.parse(r.detail) as ClusterDetail;
+  return { row_id: r.id, cluster_id: r.key ?? clusterKey(ids), label: clusterLabel(detail.terms.map((t) => t.term)), size: r.size, cohesion: r.cohesion, status: r.status, passage_ids: ids, detail };
 }
 
-function openCluster(db: DB, id: number): StoredCluster {
-  const c = getCluster(db, id);
-  if (c.status !== 'open') throw new UserError(`cluster ${id} was already ${c.status}`);
+const NOT_A_CLUSTER = (ref: string) => `no cluster "${ref}" in this study: cluster ids are printed by "trellis discover" (like c3f9a1)`;
+
+/** The latest run's cluster with this id (as printed); a clear UserError when there is none. */
+export function getCluster(db: DB, ref: string): StoredCluster {
+  const want = ref.trim().toLowerCase();
+  if (!CLUSTER_KEY.test(want)) throw new UserError(NOT_A_CLUSTER(ref));
+  const row = db.prepare('SELECT id FROM clusters WHERE key = ? ORDER BY id DESC LIMIT 1').get(want) as { id: number } | undefined;
+  if (!row) throw new UserError(NOT_A_CLUSTER(ref));
+  return storedCluster(db, row.id);
+}
+
+function openCluster(db: DB, ref: string): StoredCluster {
+  const c = getCluster(db, ref);
   const latest = (db.prepare('SELECT MAX(id) AS id FROM discovery_runs').get() as { id: number }).id;
-  const run = (db.prepare('SELECT run_id FROM clusters WHERE id = ?').get(id) as { run_id: number }).run_id;
-  if (run !== latest) throw new UserError(`cluster ${id} is from an earlier discovery run; run "trellis discover" again and use its cluster ids`);
+  const run = (db.prepare('SELECT run_id FROM clusters WHERE id = ?').get(c.row_id) as { run_id: number }).run_id;
+  if (run !== latest) throw new UserError(`cluster ${c.cluster_id} is not among the clusters of the latest discovery run; run "trellis discover" again and use its cluster ids`);
+  if (c.status !== 'open') throw new UserError(`cluster ${c.cluster_id} was already ${c.status}`);
   return c;
 }
 
-function logClusterDecision(db: DB, action: 'promote' | 'dismiss', clusterId: number, coder: string, note: string | null, themeId: string | null): number {
+function logClusterDecision(db: DB, action: 'promote' | 'dismiss', c: StoredCluster, coder: string, note: string | null, themeId: string | null): number {
   const rev = currentRevision(db);
   return Number(
     db
       .prepare('INSERT INTO decisions (at, coder, action, cluster_id, chosen_theme, note, rev) VALUES (?, ?, ?, ?, ?, ?, ?)')
-      .run(new Date().toISOString(), coder, action, clusterId, themeId, note, rev?.rev ?? null).lastInsertRowid,
+      .run(new Date().toISOString(), coder, action, c.cluster_id, themeId, note, rev?.rev ?? null).lastInsertRowid,
   );
 }
 
 export interface Promotion {
+  cluster_id: string;
   themeId: string;
+  /** The theme's path: the new theme's, or the existing one's it was sent into. */
+  path: string;
+  /** A new theme (a template revision), or an existing theme (no revision). */
+  into_existing: boolean;
   rev: number;
   decisionId: number;
   runId: number;
   suggestions: number;
 }
 
+/** A new theme (a name, optionally under a parent), or an existing theme (`into`). */
+export type PromoteTarget = { name: string; parentPath?: string } | { into: string };
+
 /**
- * `promote`: the cluster becomes a theme (a template revision, its distinctive terms as seed
- * terms), and each of its passages a suggestion of that theme for review, not a coding. The
- * suggestions' confidence is the passage's closeness to the cluster (cosine), since the new
- * theme has no coded passage to calibrate on yet; its reasons say so.
+ * `promote`: the cluster's passages become suggestions of a theme for review, not codings. The
+ * theme is new (a template revision recording the cluster, with its distinctive terms as seed
+ * terms and no definition yet: the researcher writes it), or an existing theme of the template.
+ * The suggestions' confidence is the passage's closeness to the cluster (cosine), since there is
+ * no calibration for this grouping; their reasons say so.
  */
-export function promoteCluster(db: DB, studyDir: string, id: number, name: string, parentPath: string | undefined, coder: string, note?: string): Promotion {
+export function promoteCluster(db: DB, studyDir: string, ref: string, target: PromoteTarget, coder: string, note?: string): Promotion {
   return db
     .transaction((): Promotion => {
-      const c = openCluster(db, id);
-      let newId = '';
-      const seeds = c.detail.terms.slice(0, 8).map((t) => t.term);
-      const rev = reviseTemplate(
-        db,
-        studyDir,
-        'promote',
-        (t, allocate) => {
-          const parent = parentPath ? findByPath(t, parentPath).id : null;
-          const r = addTheme(t, parent, name, allocate, { seeds, definition: `Promoted from cluster ${c.label} (${c.size} unclaimed passages).` });
-          newId = r.id;
-          return r;
-        },
-        coder,
-        note ?? `promoted from cluster ${id}`,
-      );
-      const decisionId = logClusterDecision(db, 'promote', id, coder, note ?? null, newId);
-      db.prepare("UPDATE clusters SET status = 'promoted', theme_id = ? WHERE id = ?").run(newId, id);
-      const fingerprint = `cluster-${id}`;
+      const c = openCluster(db, ref);
+      let themeId = '';
+      let rev: number;
+      const into = 'into' in target;
+      if ('into' in target) {
+        themeId = findByPath(currentTemplate(db), target.into).id;
+        rev = currentRevision(db)!.rev;
+      } else {
+        const seeds = c.detail.terms.slice(0, 8).map((t) => t.term);
+        const r = reviseTemplate(
+          db,
+          studyDir,
+          `promote cluster ${c.cluster_id} (${c.label})`,
+          (t, allocate) => {
+            const parent = target.parentPath ? findByPath(t, target.parentPath).id : null;
+            const out = addTheme(t, parent, target.name, allocate, { seeds });
+            themeId = out.id;
+            return out;
+          },
+          coder,
+          note ?? `promoted from cluster ${c.cluster_id} (${c.size} unclaimed passages)`,
+        );
+        rev = r.rev!;
+      }
+      const decisionId = logClusterDecision(db, 'promote', c, coder, note ?? null, themeId);
+      db.prepare("UPDATE clusters SET status = 'promoted', theme_id = ? WHERE id = ?").run(themeId, c.row_id);
       const runId = Number(
         db
           .prepare('INSERT INTO suggestion_runs (created_at, rev, fingerprint, options, passages, unclaimed) VALUES (?, ?, ?, ?, ?, 0)')
-          .run(new Date().toISOString(), rev.rev!, fingerprint, JSON.stringify({ source: 'promote', cluster: id }), c.passage_ids.length)
+          .run(new Date().toISOString(), rev, `cluster-${c.cluster_id}`, JSON.stringify({ source: 'promote', cluster: c.cluster_id, into_existing: into }), c.passage_ids.length)
           .lastInsertRowid,
       );
-      const sims = db.prepare('SELECT passage_id, similarity FROM cluster_passages WHERE cluster_id = ?').all(id) as { passage_id: string; similarity: number }[];
+      const sims = db.prepare('SELECT passage_id, similarity FROM cluster_passages WHERE cluster_id = ?').all(c.row_id) as { passage_id: string; similarity: number }[];
       const closeness = new Map(sims.map((s) => [s.passage_id, s.similarity]));
       const ins = db.prepare('INSERT INTO suggestions (run_id, passage_id, theme_id, rank, confidence, above, chosen, reasons) VALUES (?, ?, ?, 1, ?, 1, 1, ?)');
       for (const p of c.passage_ids) {
         // Only the central passages' closeness is kept; the others get the cluster's cohesion.
         const sim = closeness.get(p) || c.cohesion;
-        ins.run(runId, p, newId, sim, JSON.stringify([{ kind: 'cluster', clusterId: id, label: c.label, similarity: sim }]));
+        ins.run(runId, p, themeId, sim, JSON.stringify([{ kind: 'cluster', clusterId: c.cluster_id, label: c.label, similarity: sim }]));
       }
-      return { themeId: newId, rev: rev.rev!, decisionId, runId, suggestions: c.passage_ids.length };
+      const path = [...walk(currentTemplate(db))].find((e) => e.node.id === themeId)!.path;
+      return { cluster_id: c.cluster_id, themeId, path, into_existing: into, rev, decisionId, runId, suggestions: c.passage_ids.length };
     })
     .immediate();
 }
 
-export function dismissCluster(db: DB, id: number, coder: string, note: string): number {
+export function dismissCluster(db: DB, ref: string, coder: string, note: string): { cluster_id: string; decision_id: number } {
   return db
     .transaction(() => {
-      openCluster(db, id);
-      const d = logClusterDecision(db, 'dismiss', id, coder, note, null);
-      db.prepare("UPDATE clusters SET status = 'dismissed' WHERE id = ?").run(id);
-      return d;
+      const c = openCluster(db, ref);
+      const d = logClusterDecision(db, 'dismiss', c, coder, note, null);
+      db.prepare("UPDATE clusters SET status = 'dismissed' WHERE id = ?").run(c.row_id);
+      return { cluster_id: c.cluster_id, decision_id: d };
     })
     .immediate();
 }
@@ -207,19 +250,20 @@ export function dismissCluster(db: DB, id: number, coder: string, note: string):
 export function latestClusters(db: DB): StoredCluster[] {
   const run = db.prepare('SELECT MAX(id) AS id FROM discovery_runs').get() as { id: number | null };
   if (run.id === null) return [];
-  return (db.prepare('SELECT id FROM clusters WHERE run_id = ? ORDER BY id').all(run.id) as { id: number }[]).map((r) => getCluster(db, r.id));
+  return (db.prepare('SELECT id FROM clusters WHERE run_id = ? ORDER BY id').all(run.id) as { id: number }[]).map((r) => storedCluster(db, r.id));
 }
 
-/** `triage`: uncoded transcripts ranked by how much of each the template fails to claim. */
+/** `triage`: transcripts with passages left to code, ranked by how much of that part the template fails to claim. */
 export function triageStudy(db: DB, transcripts?: string[]): { rows: TranscriptTriage[]; clusters: StoredCluster[] } {
   const scored = scoreStudy(db);
   const clusters = latestClusters(db).filter((c) => c.status === 'open');
+  const done = new Set([...scored.codedPassages, ...nothingToCode(db)]);
   let rows = triage({
     passages: scored.passages,
-    codedTranscripts: scored.codedTranscripts,
+    done,
     suggestions: scored.suggestions,
     unclaimed: scored.pool.pool.map((p) => p.id),
-    clusters: clusters.map((c) => ({ id: String(c.cluster_id), passageIds: c.passage_ids })),
+    clusters: clusters.map((c) => ({ id: c.cluster_id, passageIds: c.passage_ids })),
   });
   if (transcripts?.length) rows = rows.filter((r) => transcripts.includes(r.transcript));
   return { rows, clusters };

@@ -1,21 +1,31 @@
 import { acceptanceReport, type AcceptanceReport, type DecisionRecord } from '../measure/acceptance.js';
-import { agreementReport, type AgreementReport, type CodingRecord, type CodedRecord } from '../measure/agreement.js';
-import { saturationCurve, type SaturationReport } from '../measure/saturation.js';
+import { CIRCULARITY_NOTE, agreementReport, type AgreementReport, type CodingRecord, type CodedRecord } from '../measure/agreement.js';
+import { templateGrowth, type GrowthReport } from '../measure/growth.js';
 import { walk } from '../template/paths.js';
 import type { DB } from './db.js';
-import { effectiveDecisions } from './decisions.js';
-import { currentTemplate, revisionHistory } from './template.js';
+import { effectiveDecisions, nothingToCode } from './decisions.js';
+import { currentTemplate } from './template.js';
 
 /** The pseudo-coder standing for trellis's above-threshold suggestions in agreement figures. */
 export const TOOL_CODER = 'trellis';
 
 export interface StudyStats {
   acceptance: AcceptanceReport;
-  /** Participant passages with a coding, of all participant passages. */
-  coverage: { coded: number; participant: number; share: number | null };
-  /** The latest suggestion run: how many of its passages no theme claimed. */
-  unclaimed: { run: number | null; passages: number; unclaimed: number; share: number | null };
-  saturation: SaturationReport;
+  /**
+   * Participant passages with a coding, of all participant passages; and those a coder marked
+   * "reviewed, nothing to code" (not coded by anyone), which are judged too.
+   */
+  coverage: { coded: number; participant: number; share: number | null; nothing_to_code: number; reviewed: number; reviewed_share: number | null };
+  /**
+   * Over the whole study: participant passages that are neither coded nor judged nothing to code,
+   * whose latest scoring found no theme to claim them, of all participant passages. `run` is the
+   * latest suggestion run; `not_scored` passages were never scored (they count as neither).
+   */
+  unclaimed: { run: number | null; passages: number; unclaimed: number; share: number | null; not_scored: number; scope: 'study' };
+  /** "Reviewed, nothing to code" decisions that stand, and the passages they cover. */
+  nothing_to_code: { decisions: number; passages: number };
+  /** Template growth by transcript, in coding order (replaces the old "saturation" figure). */
+  template_growth: GrowthReport;
   /**
    * Re-codes to a sub-theme of the suggested theme: the suggestion named the right area and the
    * coder chose a finer theme. Counted apart, and in a second rate that takes them as right.
@@ -23,9 +33,18 @@ export interface StudyStats {
   refined: { count: number; rate: number | null };
 }
 
+/**
+ * Decisions on suggestions that still stand, as the acceptance measures count them. A defer is
+ * counted only while nothing was decided after it on the same passage and theme: a suggestion
+ * deferred and then accepted is one accepted suggestion, in stats as in the review footer.
+ */
 export function decisionRecords(db: DB): DecisionRecord[] {
-  return effectiveDecisions(db)
+  const standing = effectiveDecisions(db);
+  const lastVerdict = new Map<string, number>();
+  for (const d of standing) if (d.action !== 'defer' && d.theme_id && d.passage_id) lastVerdict.set(`${d.passage_id}\u0000${d.theme_id}`, d.id);
+  return standing
     .filter((d) => d.theme_id && d.confidence !== null)
+    .filter((d) => d.action !== 'defer' || (lastVerdict.get(`${d.passage_id}\u0000${d.theme_id}`) ?? -1) < d.id)
     .map((d) => ({
       action: d.action as DecisionRecord['action'],
       themeId: d.theme_id!,
@@ -47,9 +66,25 @@ export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyS
                 WHERE c.removed_at IS NULL AND p.role = 'participant') AS coded`,
     )
     .get() as { participant: number; coded: number };
-  const run = db.prepare('SELECT id, passages, unclaimed FROM suggestion_runs ORDER BY id DESC LIMIT 1').get() as
-    | { id: number; passages: number; unclaimed: number }
+  const run = db.prepare(`SELECT id FROM suggestion_runs WHERE options NOT LIKE '%"source":"promote"%' ORDER BY id DESC LIMIT 1`).get() as
+    | { id: number }
     | undefined;
+  const judged = nothingToCode(db);
+  const nocodeDecisions = effectiveDecisions(db).filter((d) => d.action === 'nocode').length;
+  const codedIds = new Set(
+    (db.prepare(`SELECT DISTINCT c.passage_id AS id FROM codings c WHERE c.removed_at IS NULL`).all() as { id: string }[]).map((r) => r.id),
+  );
+  const participantIds = (db.prepare("SELECT id FROM passages WHERE role = 'participant'").all() as { id: string }[]).map((r) => r.id);
+  const open = participantIds.filter((id) => !codedIds.has(id) && !judged.has(id));
+  const judgedOnly = participantIds.filter((id) => !codedIds.has(id) && judged.has(id)).length;
+  const claimedNow = latestClaims(db);
+  let unclaimedN = 0;
+  let notScored = 0;
+  for (const id of open) {
+    const c = claimedNow.get(id);
+    if (c === undefined) notScored++;
+    else if (!c) unclaimedN++;
+  }
   const firsts = db
     .prepare(
       `SELECT t.name AS transcript, MIN(c.created_at) AS firstCodedAt FROM codings c
@@ -69,12 +104,57 @@ export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyS
   return {
     acceptance,
     refined: { count: refined, rate: decided ? (accepted + refined) / decided : null },
-    coverage: { ...cov, share: cov.participant ? cov.coded / cov.participant : null },
-    unclaimed: run
-      ? { run: run.id, passages: run.passages, unclaimed: run.unclaimed, share: run.passages ? run.unclaimed / run.passages : null }
-      : { run: null, passages: 0, unclaimed: 0, share: null },
-    saturation: saturationCurve(revisionHistory(db), firsts),
+    coverage: {
+      ...cov,
+      share: cov.participant ? cov.coded / cov.participant : null,
+      nothing_to_code: judgedOnly,
+      reviewed: cov.coded + judgedOnly,
+      reviewed_share: cov.participant ? (cov.coded + judgedOnly) / cov.participant : null,
+    },
+    unclaimed: {
+      run: run?.id ?? null,
+      passages: cov.participant,
+      unclaimed: unclaimedN,
+      share: run && cov.participant ? unclaimedN / cov.participant : null,
+      not_scored: notScored,
+      scope: 'study',
+    },
+    nothing_to_code: { decisions: nocodeDecisions, passages: judged.size },
+    template_growth: growth(db, firsts),
   };
+}
+
+/**
+ * For every passage any suggestion run scored: whether the latest run that scored it found a
+ * theme to claim it (a chosen candidate). Runs made by promoting a cluster are not scorings.
+ */
+export function latestClaims(db: DB): Map<string, boolean> {
+  const rows = db
+    .prepare(
+      `WITH latest AS (
+         SELECT s.passage_id, MAX(s.run_id) AS run_id FROM suggestions s
+         WHERE s.run_id IN (SELECT id FROM suggestion_runs WHERE options NOT LIKE '%"source":"promote"%')
+         GROUP BY s.passage_id)
+       SELECT l.passage_id AS id, EXISTS (SELECT 1 FROM suggestions x WHERE x.run_id = l.run_id AND x.passage_id = l.passage_id AND x.chosen = 1) AS claimed
+       FROM latest l`,
+    )
+    .all() as { id: string; claimed: number }[];
+  return new Map(rows.map((r) => [r.id, r.claimed === 1]));
+}
+
+/**
+ * The current template's themes with the time each was added (its creating revision), and the
+ * transcripts each theme has been coded in (codings later withdrawn included: it was coded there).
+ */
+function growth(db: DB, firsts: { transcript: string; firstCodedAt: string }[]): GrowthReport {
+  const added = new Map(
+    (db.prepare('SELECT t.id, r.created_at FROM themes t JOIN revisions r ON r.rev = t.created_rev').all() as { id: string; created_at: string }[]).map((r) => [r.id, r.created_at]),
+  );
+  const themes = [...walk(currentTemplate(db))].map((e) => ({ id: e.node.id, path: e.path, topLevel: e.depth === 0, addedAt: added.get(e.node.id) ?? new Date(0).toISOString() }));
+  const coded = db
+    .prepare('SELECT DISTINCT c.theme_id AS themeId, t.name AS transcript FROM codings c JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id')
+    .all() as { themeId: string; transcript: string }[];
+  return templateGrowth({ themes, transcripts: firsts, coded });
 }
 
 export interface AgreementOptions {
@@ -82,32 +162,62 @@ export interface AgreementOptions {
   transcripts?: string[];
 }
 
+export interface StudyAgreement extends AgreementReport {
+  /**
+   * For each human coder: their codings on the units, and how many of them were made by accepting
+   * a suggestion (one by one or in bulk). Such codings agree with the suggestions by construction.
+   */
+  accepted_codings: { coder: string; codings: number; accepted: number }[];
+  /** The circularity note, when the suggestions are among the coders or a coder accepted suggestions. */
+  circularity: string | null;
+}
+
 /**
- * Inter-coder agreement over the passages the named coders looked at. The name `trellis` stands
- * for the tool: its above-threshold suggestions from the latest run that covered each passage.
+ * Inter-coder agreement. Units are participant passages that the coders actually reviewed: a
+ * coder reviewed a passage when they coded it, decided on a suggestion for it (a defer is not a
+ * decision), or marked it "reviewed, nothing to code". An empty sheet row is not a review, and
+ * interviewer turns are never units. The name `trellis` stands for the tool: its above-threshold
+ * suggestions from the latest run that scored each passage.
  */
-export function agreement(db: DB, opts: AgreementOptions): AgreementReport {
+export function agreement(db: DB, opts: AgreementOptions): StudyAgreement {
   const inTranscripts = <R extends { transcript: string }>(rows: R[]): R[] =>
     opts.transcripts?.length ? rows.filter((r) => opts.transcripts!.includes(r.transcript)) : rows;
   const humans = opts.coders.filter((c) => c !== TOOL_CODER);
-  const q = (sql: string, ...args: unknown[]) => db.prepare(sql).all(...args) as { coder: string; passage_id: string; transcript: string; theme_id?: string }[];
+  const q = (sql: string, ...args: unknown[]) =>
+    db.prepare(sql).all(...args) as { coder: string; passage_id: string; transcript: string; theme_id?: string; origin?: string }[];
   const marks = humans.map(() => '?').join(',');
-  const seen = humans.length
-    ? inTranscripts(q(`SELECT s.coder, s.passage_id, t.name AS transcript FROM seen s JOIN passages p ON p.id = s.passage_id JOIN transcripts t ON t.id = p.transcript_id WHERE s.coder IN (${marks})`, ...humans))
+  const JOIN = `JOIN passages p ON p.id = x.passage_id JOIN transcripts t ON t.id = p.transcript_id`;
+  const decided = humans.length
+    ? inTranscripts(
+        q(
+          `SELECT DISTINCT x.coder, x.passage_id, t.name AS transcript FROM decisions x ${JOIN}
+           WHERE x.coder IN (${marks}) AND p.role = 'participant' AND x.action IN ('accept', 'reject', 'recode', 'nocode')
+           AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = x.id)`,
+          ...humans,
+        ),
+      )
     : [];
   const codings = humans.length
-    ? inTranscripts(q(`SELECT c.coder, c.passage_id, c.theme_id, t.name AS transcript FROM codings c JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id WHERE c.removed_at IS NULL AND c.coder IN (${marks})`, ...humans))
+    ? inTranscripts(
+        q(
+          `SELECT x.coder, x.passage_id, x.theme_id, x.origin, t.name AS transcript FROM codings x ${JOIN}
+           WHERE x.removed_at IS NULL AND p.role = 'participant' AND x.coder IN (${marks})`,
+          ...humans,
+        ),
+      )
     : [];
-  const coded: CodedRecord[] = seen.map((s) => ({ coder: s.coder, passageId: s.passage_id }));
+  const coded: CodedRecord[] = decided.map((s) => ({ coder: s.coder, passageId: s.passage_id }));
   const records: CodingRecord[] = codings.map((c) => ({ coder: c.coder, passageId: c.passage_id, themeId: c.theme_id! }));
   for (const c of codings) coded.push({ coder: c.coder, passageId: c.passage_id });
   if (opts.coders.includes(TOOL_CODER)) {
-    // The latest run that covered each passage, and its chosen (above-threshold) themes.
+    // The latest scoring run of each passage, and its chosen (above-threshold) themes.
     const latest = inTranscripts(
       db
         .prepare(
           `SELECT s.passage_id, t.name AS transcript, MAX(s.run_id) AS run_id FROM suggestions s
-           JOIN passages p ON p.id = s.passage_id JOIN transcripts t ON t.id = p.transcript_id GROUP BY s.passage_id`,
+           JOIN passages p ON p.id = s.passage_id JOIN transcripts t ON t.id = p.transcript_id
+           WHERE p.role = 'participant' AND s.run_id IN (SELECT id FROM suggestion_runs WHERE options NOT LIKE '%"source":"promote"%')
+           GROUP BY s.passage_id`,
         )
         .all() as { passage_id: string; transcript: string; run_id: number }[],
     );
@@ -119,5 +229,15 @@ export function agreement(db: DB, opts: AgreementOptions): AgreementReport {
   }
   const passages = [...new Set(coded.map((c) => c.passageId))].sort();
   const themes = [...walk(currentTemplate(db))].map((e) => e.node.id);
-  return agreementReport({ passages, coders: opts.coders, themes, codings: records, coded });
+  const report = agreementReport({ passages, coders: opts.coders, themes, codings: records, coded });
+  // Codings on passages that are units (reviewed by two or more of the coders).
+  const reviewers = new Map<string, Set<string>>();
+  for (const c of coded) (reviewers.get(c.passageId) ?? reviewers.set(c.passageId, new Set()).get(c.passageId)!).add(c.coder);
+  const onUnits = codings.filter((c) => (reviewers.get(c.passage_id)?.size ?? 0) >= 2);
+  const accepted_codings = humans.map((coder) => {
+    const mine = onUnits.filter((c) => c.coder === coder);
+    return { coder, codings: mine.length, accepted: mine.filter((c) => c.origin === 'accepted' || c.origin === 'bulk').length };
+  });
+  const circular = opts.coders.includes(TOOL_CODER) || accepted_codings.some((a) => a.accepted > 0);
+  return { ...report, accepted_codings, circularity: circular ? CIRCULARITY_NOTE : null };
 }

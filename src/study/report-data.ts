@@ -1,5 +1,8 @@
 import { basename, resolve } from 'node:path';
-import type { ReportCluster, ReportData, ReportTheme } from '../report/types.js';
+import { integrativeCoverage } from '../measure/integrative.js';
+import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from '../report/types.js';
+import { listMemos } from './memos.js';
+import { latestClusters } from './discovery.js';
 import { clock } from '../sheet/sheet.js';
 import { describeChange } from '../template/describe.js';
 import { walk } from '../template/paths.js';
@@ -45,6 +48,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
     rolled.set(e.node.id, s);
   }
 
+  const memos: ReportMemo[] = listMemos(db).map((m) => ({ id: m.memo_id, at: m.at, author: m.author, kind: m.target_kind, target: m.target, label: m.target_label, text: m.text }));
   const quotes = representativeQuotes(db, entries.map((e) => e.node.id), direct, rolled, opts.quotes ?? 3);
   const themes: ReportTheme[] = entries.map((e) => ({
     id: e.node.id,
@@ -53,6 +57,8 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
     path: e.path,
     depth: e.depth,
     apriori: e.node.apriori,
+    integrative: e.integrative,
+    memos: memos.filter((m) => m.kind === 'theme' && m.target === e.node.id),
     definition: e.node.definition,
     include: e.node.include,
     exclude: e.node.exclude,
@@ -90,6 +96,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
       passages: status.passages.total,
       participant: status.passages.participant,
       coded: status.coded,
+      nothingToCode: stats.coverage.nothing_to_code,
       themes: status.themes,
       revision: status.revision,
     },
@@ -113,23 +120,44 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
       overTime: a.cumulative.map((c) => ({ index: c.index, at: c.at, rate: c.rate })),
       calibration: a.calibration.map((b) => ({ band: b.band, lower: b.lower, upper: b.upper, count: b.count, meanConfidence: b.meanConfidence, acceptance: b.rate })),
     },
-    saturation: stats.saturation.curve.map((p) => ({ transcript: p.transcript, order: p.order, newThemes: p.newThemes, newSubThemes: p.newSubThemes, cumulative: p.cumulative })),
+    growth: stats.template_growth.curve.map((p) => ({ transcript: p.transcript, order: p.order, newThemes: p.new_themes, newSubThemes: p.new_sub_themes, cumulative: p.cumulative })),
+    notYetCoded: stats.template_growth.not_yet_coded.length,
     unclaimed: { share: stats.unclaimed.share, passages: stats.unclaimed.passages, unclaimed: stats.unclaimed.unclaimed, clusters: currentClusters(db) },
     agreement:
       agree && agree.pairablePassages
         ? {
             coders: agree.coders,
+            units: agree.pairablePassages,
             rows: [
               ...agree.themes
                 .filter((t) => t.present > 0)
-                .map((t) => ({ theme: paths.get(t.themeId) ?? t.themeId, units: t.units, percentAgreement: t.percentAgreement, kappa: t.kappa.value, alpha: t.alpha.value, band: t.alpha.band })),
-              { theme: 'all themes, pooled', units: agree.pooled.units, percentAgreement: agree.pooled.percentAgreement, kappa: agree.pooled.kappa.value, alpha: agree.pooled.alpha.value, band: agree.pooled.alpha.band },
+                .map((t) => ({ theme: paths.get(t.themeId) ?? t.themeId, units: t.units, percentAgreement: t.percentAgreement, kappa: t.kappa.value, alpha: t.alpha.value, kappaBand: t.kappa.band, alphaGuidance: t.alpha.guidance })),
+              {
+                theme: 'all themes, pooled',
+                units: agree.pooled.units,
+                percentAgreement: agree.pooled.percentAgreement,
+                kappa: agree.pooled.kappa.value,
+                alpha: agree.pooled.alpha.value,
+                kappaBand: agree.pooled.kappa.band,
+                alphaGuidance: agree.pooled.alpha.guidance,
+              },
             ],
+            disagreements: agree.disagreements.length,
             bandsSource: agree.bandsSource,
+            guidanceSource: agree.guidance_source,
+            circularity: agree.circularity,
             caution: agree.caution,
           }
         : null,
     cautions: opts.cautions(codings.filter((c) => c.origin === 'bulk').length),
+    memos,
+    integrative: integrativeCoverage(template, codings.map((c) => ({ passageId: c.passage_id, themeId: c.theme_id }))).map((x) => ({
+      themeId: x.theme_id,
+      name: x.name,
+      passages: x.passages,
+      touches: x.touches,
+      across: x.across.map((a) => ({ name: a.name, passages: a.passages })),
+    })),
   };
 }
 
@@ -166,29 +194,16 @@ function representativeQuotes(
   return out;
 }
 
-/** The clusters of the latest discovery run, if there has been one. */
+/** The clusters of the latest discovery run, if there has been one, named by their top terms. */
 function currentClusters(db: DB): ReportCluster[] {
-  const run = db.prepare('SELECT MAX(id) AS id FROM discovery_runs').get() as { id: number | null };
-  if (run.id === null) return [];
-  const rows = db.prepare('SELECT id, label, size, cohesion, detail, status FROM clusters WHERE run_id = ? ORDER BY id').all(run.id) as {
-    id: number;
-    label: string;
-    size: number;
-    cohesion: number;
-    detail: string;
-    status: ReportCluster['status'];
-  }[];
-  return rows.map((r) => {
-    const d = JSON.parse(r.detail) as { terms: { term: string }[]; transcripts: string[]; central: { text: string }[] };
-    return {
-      id: r.id,
-      label: r.label,
-      size: r.size,
-      cohesion: r.cohesion,
-      status: r.status,
-      terms: d.terms.map((t) => t.term),
-      transcripts: d.transcripts.length,
-      examples: d.central.map((c) => c.text),
-    };
-  });
+  return latestClusters(db).map((c) => ({
+    id: c.cluster_id,
+    label: c.label,
+    size: c.size,
+    cohesion: c.cohesion,
+    status: c.status,
+    terms: c.detail.terms.map((t) => t.term),
+    transcripts: c.detail.transcripts.length,
+    examples: c.detail.central.map((x) => x.text),
+  }));
 }

@@ -7,7 +7,7 @@ import type { Reason } from '../suggest/types.js';
 import { addTheme } from '../template/ops.js';
 import { findByPath, walk } from '../template/paths.js';
 import type { DB } from './db.js';
-import { decide, undo, type Action, type DecisionRow } from './decisions.js';
+import { decide, markNothingToCode, undo, type Action, type DecisionRow } from './decisions.js';
 import { getPassage, passageTokens, type StoredPassage } from './passages.js';
 import { reviseTemplate } from './revise.js';
 import { suggest } from './suggestions.js';
@@ -173,7 +173,7 @@ export function claimOn(db: DB, passageId: string, mine: ReadonlySet<number>): C
   return coding ? { kind: 'coding', coder: coding.coder } : null;
 }
 
-const ACTION_WORDS: Record<string, string> = { accept: 'accepted', reject: 'rejected', recode: 're-coded', defer: 'deferred' };
+const ACTION_WORDS: Record<string, string> = { accept: 'accepted', reject: 'rejected', recode: 're-coded', defer: 'deferred', nocode: 'marked nothing to code' };
 
 /** Raised when another session got to the passage first; the loop says so and moves on. */
 export class AlreadyDecided extends UserError {
@@ -208,6 +208,17 @@ export function reviewDecide(db: DB, passageId: string, d: ReviewDecision, mine:
       const claim = claimOn(db, passageId, mine);
       if (claim) throw new AlreadyDecided(passageId, claim);
       return decide(db, d);
+    })
+    .immediate();
+}
+
+/** "Reviewed, nothing to code" from a review session, guarded like reviewDecide. */
+export function reviewNothingToCode(db: DB, passageId: string, coder: string, note: string | undefined, mine: ReadonlySet<number>): DecisionRow {
+  return db
+    .transaction(() => {
+      const claim = claimOn(db, passageId, mine);
+      if (claim) throw new AlreadyDecided(passageId, claim);
+      return markNothingToCode(db, [passageId], coder, note)[0]!;
     })
     .immediate();
 }
@@ -400,7 +411,12 @@ export class ReviewQueue {
   }
 }
 
-/** Acceptance this session: accepts and re-codes out of verdicts (a defer is not a verdict). */
+/**
+ * Acceptance this session, counted as stats and the report count it (src/measure/acceptance.ts):
+ * accepted out of decided, where decided = accepted + re-coded + rejected. A re-code is decided
+ * but not accepted (another theme was chosen); a defer is not yet decided; "nothing to code"
+ * judges the passage, not a suggestion, and is counted apart.
+ */
 export class Tally {
   private readonly actions = new Map<number, string>();
   /** Undo entries made this session. */
@@ -426,10 +442,10 @@ export class Tally {
   }
 
   get accepted(): number {
-    return this.count('accept') + this.count('recode');
+    return this.count('accept');
   }
 
   get decided(): number {
-    return this.accepted + this.count('reject');
+    return this.count('accept') + this.count('recode') + this.count('reject');
   }
 }

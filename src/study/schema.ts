@@ -169,6 +169,64 @@ export const MIGRATIONS: string[] = [
     PRIMARY KEY (cluster_id, passage_id)
   ) WITHOUT ROWID;
   `,
+  // 5: a coder can mark a passage "reviewed, nothing to code" ('nocode'), logged like a decision.
+  // SQLite cannot change a CHECK in place: the table is rebuilt (foreign keys are off while
+  // migrations run; see migrate in db.ts), with its indexes and append-only triggers.
+  `
+  CREATE TABLE decisions_v5 (
+    id            INTEGER PRIMARY KEY,
+    at            TEXT NOT NULL,
+    coder         TEXT NOT NULL,
+    action        TEXT NOT NULL CHECK (action IN ('accept', 'reject', 'recode', 'defer', 'undo', 'promote', 'dismiss', 'nocode')),
+    suggestion_id INTEGER,
+    passage_id    TEXT,
+    transcript    TEXT,
+    theme_id      TEXT,
+    confidence    REAL,
+    rank          INTEGER,
+    chosen_theme  TEXT,
+    note          TEXT,
+    rev           INTEGER,
+    fingerprint   TEXT,
+    bulk          INTEGER NOT NULL DEFAULT 0,
+    undoes        INTEGER REFERENCES decisions(id),
+    cluster_id    TEXT  -- the cluster's stable id, as printed (entries before schema 7: its row number)
+  );
+  INSERT INTO decisions_v5 SELECT id, at, coder, action, suggestion_id, passage_id, transcript, theme_id, confidence, rank,
+    chosen_theme, note, rev, fingerprint, bulk, undoes, cluster_id FROM decisions;
+  DROP TABLE decisions;
+  ALTER TABLE decisions_v5 RENAME TO decisions;
+  CREATE INDEX decisions_passage ON decisions (passage_id);
+  CREATE INDEX decisions_suggestion ON decisions (suggestion_id);
+  CREATE TRIGGER decisions_append_only_update BEFORE UPDATE ON decisions
+    BEGIN SELECT RAISE(ABORT, 'the decision log is append-only'); END;
+  CREATE TRIGGER decisions_append_only_delete BEFORE DELETE ON decisions
+    BEGIN SELECT RAISE(ABORT, 'the decision log is append-only'); END;
+  `,
+  // 6: memos: dated, attributed notes on a theme, a transcript, a passage or the study. Kept like
+  // the decision log: a memo is added, never rewritten (a later memo can revise an earlier one).
+  `
+  CREATE TABLE memos (
+    id          INTEGER PRIMARY KEY,
+    at          TEXT NOT NULL,
+    author      TEXT NOT NULL,
+    target_kind TEXT NOT NULL CHECK (target_kind IN ('study', 'theme', 'transcript', 'passage')),
+    target      TEXT,              -- theme id, transcript name or passage id; NULL for the study
+    text        TEXT NOT NULL,
+    rev         INTEGER            -- the template revision current when it was written
+  );
+  CREATE INDEX memos_target ON memos (target_kind, target);
+  CREATE TRIGGER memos_append_only_update BEFORE UPDATE ON memos
+    BEGIN SELECT RAISE(ABORT, 'memos are kept as written: add a new memo instead'); END;
+  CREATE TRIGGER memos_append_only_delete BEFORE DELETE ON memos
+    BEGIN SELECT RAISE(ABORT, 'memos are kept as written: add a new memo instead'); END;
+  `,
+  // 7: a cluster's stable id, the same in every run that finds the same members (src/discover/key.ts).
+  // Clusters of older runs have none; the next "trellis discover" gives its clusters theirs.
+  `
+  ALTER TABLE clusters ADD COLUMN key TEXT;
+  CREATE INDEX clusters_key ON clusters (key);
+  `,
 ];
 
 export const SCHEMA_VERSION = MIGRATIONS.length;

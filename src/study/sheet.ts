@@ -1,5 +1,7 @@
 import { UserError } from '../errors.js';
-import { clock, type ImportedRow, type SheetRow } from '../sheet/sheet.js';
+import { NOTHING_TO_CODE, clock, type ImportedRow, type SheetRow } from '../sheet/sheet.js';
+import { markNothingToCode, nothingToCodeBy, undo } from './decisions.js';
+import { latestPassageNotes } from './memos.js';
 import { findByPath, pathOf } from '../template/paths.js';
 import { codingSetter, currentCodings } from './codings.js';
 import type { DB } from './db.js';
@@ -10,7 +12,9 @@ import { currentRevision, currentTemplate } from './template.js';
 export function sheetRows(db: DB, opts: { transcripts?: string[]; coder?: string }): SheetRow[] {
   const template = currentTemplate(db);
   const byPassage = new Map<string, string[]>();
+  const notes = opts.coder ? latestPassageNotes(db, opts.coder) : new Map<string, string>();
   if (opts.coder) {
+    for (const id of nothingToCodeBy(db, opts.coder).keys()) byPassage.set(id, [NOTHING_TO_CODE]);
     for (const c of currentCodings(db, opts.coder)) {
       const path = safePath(template, c.theme_id);
       if (path) byPassage.set(c.passage_id, [...(byPassage.get(c.passage_id) ?? []), path]);
@@ -24,6 +28,7 @@ export function sheetRows(db: DB, opts: { transcripts?: string[]; coder?: string
     time: clock(p.start),
     text: p.text,
     themes: byPassage.get(p.id) ?? [],
+    note: notes.get(p.id) ?? '',
   }));
 }
 
@@ -42,6 +47,10 @@ export interface SheetImportReport {
   coded: number;
   added: number;
   removed: number;
+  /** Rows marked "nothing to code". */
+  nothing_to_code: number;
+  /** Notes that became new passage memos. */
+  memos: number;
 }
 
 /**
@@ -51,7 +60,7 @@ export interface SheetImportReport {
 export function importSheet(db: DB, rows: ImportedRow[], file: string, coder: string): SheetImportReport {
   const rev = currentRevision(db);
   const problems: string[] = [];
-  const resolved: { passageId: string; themeIds: string[] }[] = [];
+  const resolved: { passageId: string; themeIds: string[]; nothing: boolean; row: number; note: string | null }[] = [];
   const seen = new Map<string, number>();
   for (const r of rows) {
     if (!r.passageId) {
@@ -81,24 +90,42 @@ export function importSheet(db: DB, rows: ImportedRow[], file: string, coder: st
         problems.push(`row ${r.row}: theme "${path}": ${e.message}`);
       }
     }
-    resolved.push({ passageId: r.passageId, themeIds: [...new Set(ids)] });
+    if (r.nothing && p.role !== 'participant') problems.push(`row ${r.row}: passage "${r.passageId}" is an interviewer turn: there is nothing to mark`);
+    resolved.push({ passageId: r.passageId, themeIds: [...new Set(ids)], nothing: r.nothing, row: r.row, note: r.note });
   }
   if (problems.length) {
     const shown = problems.slice(0, 20);
     if (problems.length > shown.length) shown.push(`... and ${problems.length - shown.length} more`);
     throw new UserError(`nothing was imported; ${problems.length === 1 ? 'one problem' : problems.length + ' problems'}:\n  ${shown.join('\n  ')}`, file);
   }
-  const report: SheetImportReport = { rows: rows.length, coded: 0, added: 0, removed: 0 };
+  const report: SheetImportReport = { rows: rows.length, coded: 0, added: 0, removed: 0, nothing_to_code: 0, memos: 0 };
   db.transaction(() => {
     const set = codingSetter(db);
     const seen = db.prepare('INSERT OR IGNORE INTO seen (coder, passage_id) VALUES (?, ?)');
+    const marked = nothingToCodeBy(db, coder);
+    const marks: string[] = [];
+    const notes = latestPassageNotes(db, coder);
+    const memo = db.prepare("INSERT INTO memos (at, author, target_kind, target, text, rev) VALUES (?, ?, 'passage', ?, ?, ?)");
+    const now = new Date().toISOString();
     for (const r of resolved) {
       seen.run(coder, r.passageId);
       const { added, removed } = set(r.passageId, coder, r.themeIds, 'sheet', rev?.rev ?? 0);
       report.added += added;
       report.removed += removed;
       if (r.themeIds.length) report.coded++;
+      const mark = marked.get(r.passageId);
+      if (r.nothing && mark === undefined) marks.push(r.passageId);
+      // The sheet now codes a passage this coder had marked nothing to code: the mark is withdrawn (logged).
+      if (!r.nothing && r.themeIds.length && mark !== undefined) undo(db, coder, mark, `coded in ${file}`);
+      if (r.nothing) report.nothing_to_code++;
+      // A note that is not the coder's latest memo on the passage is a new memo (an empty cell, or
+      // the same text exported earlier, adds nothing: the column round-trips).
+      if (r.note && r.note !== notes.get(r.passageId)) {
+        memo.run(now, coder, r.passageId, r.note, rev?.rev ?? null);
+        report.memos++;
+      }
     }
+    if (marks.length) markNothingToCode(db, marks, coder, `marked in ${file}`);
   })();
   return report;
 }

@@ -3,7 +3,7 @@ import { ThemeSuggester } from '../suggest/suggester.js';
 import type { Candidate, PassageSuggestions, Reason, SuggesterOptions, ThemeReport } from '../suggest/types.js';
 import type { DB } from './db.js';
 import { modelInputs } from './model.js';
-import { rejections } from './decisions.js';
+import { nothingToCode, rejections } from './decisions.js';
 import { currentRevision } from './template.js';
 
 export interface StoredCandidate extends Candidate {
@@ -52,7 +52,9 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
   // A theme a coder rejected for a passage is not suggested for it again.
   const rejected = new Set(negatives.map((n) => `${n.passageId}\u0000${n.themeId}`));
   const byId = new Map(inputs.passages.map((p) => [p.id, p]));
-  let targets = opts.includeCoded ? inputs.passages.filter((p) => p.role === 'participant').map((p) => p.id) : inputs.uncoded;
+  // A passage judged "nothing to code" is done, like a coded one.
+  const judged = opts.includeCoded ? new Set<string>() : nothingToCode(db);
+  let targets = opts.includeCoded ? inputs.passages.filter((p) => p.role === 'participant').map((p) => p.id) : inputs.uncoded.filter((id) => !judged.has(id));
   if (opts.transcripts?.length) {
     const want = new Set(opts.transcripts);
     targets = targets.filter((id) => want.has(byId.get(id)!.transcript));

@@ -171,6 +171,7 @@ export function editedFields(a: ThemeNode, b: ThemeNode): EditableField[] {
   for (const f of ['definition', 'include', 'exclude'] as const) if (a[f] !== b[f]) fields.push(f);
   if (a.seeds.length !== b.seeds.length || a.seeds.some((s, i) => s !== b.seeds[i])) fields.push('seeds');
   if (a.apriori !== b.apriori) fields.push('apriori');
+  if (!!a.integrative !== !!b.integrative) fields.push('integrative');
   return fields;
 }
 

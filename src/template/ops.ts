@@ -12,6 +12,7 @@ import type { Change, Revised, Template, ThemeNode } from './types.js';
 
 export interface NewThemeOptions {
   apriori?: boolean;
+  integrative?: boolean;
   definition?: string;
   include?: string;
   exclude?: string;
@@ -84,6 +85,7 @@ export function moveTheme(t: Template, id: string, newParentId: string | null): 
     throw new UserError(`${action} under "${target.path}": a theme cannot go under itself or one of its own sub-themes`);
   }
   if ((target?.node ?? null) === e.parent) return { template: out, changes: [] };
+  if (target && e.node.integrative) throw new UserError(`${action} under "${target.path}": it is an integrative theme, which stays at the top level`);
   const dest = target ? target.node.children : out.roots;
   const clash = findClash(dest, e.node.name);
   if (clash) throw new UserError(`${action}: there is already a theme "${clash.name}" ${placeLabel(target?.path ?? null)}`);
@@ -194,6 +196,7 @@ export function addTheme(
   const parent = parentId === null ? null : locate(out, parentId);
   const action = `cannot add "${cleanName(name)}" ${placeLabel(parent?.path ?? null)}`;
   const clean = checkName(name, action);
+  if (parent && opts.integrative) throw new UserError(`${action}: an integrative theme runs across the others, so it goes at the top level`);
   const dest = parent ? parent.node.children : out.roots;
   const clash = findClash(dest, clean);
   if (clash) throw new UserError(`${action}: there is already a theme "${clash.name}" there`);
@@ -219,6 +222,7 @@ function newNode(id: string, name: string, opts: NewThemeOptions, action = ''): 
     id,
     name,
     apriori: opts.apriori ?? false,
+    ...(opts.integrative ? { integrative: true } : {}),
     definition: noteText(opts.definition),
     include: noteText(opts.include),
     exclude: noteText(opts.exclude),

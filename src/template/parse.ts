@@ -2,6 +2,7 @@
  * Parser for the outline a researcher writes in template.txt.
  *
  *   Workload [a priori]          # a theme; "[a priori]" marks an a priori theme
+ *   Trust [integrative]          # "[integrative]": runs across the others (top level only)
  *     | definition: Talk about the amount of work.
  *     | seeds: rota, overtime
  *     Staffing levels            # a sub-theme: two more spaces per level
@@ -15,6 +16,8 @@ import { countApriori, countThemes } from './number.js';
 import type { Diagnostic, ParseResult, Template, ThemeNode } from './types.js';
 
 const APRIORI = /(?:^|\s+)\[\s*a\s+priori\s*\]$/i;
+/** trellis's own mark for an integrative theme; with [a priori], in either order. */
+const INTEGRATIVE = /(?:^|\s+)\[\s*integrative\s*\]$/i;
 const NOTE = /^\|\s*([A-Za-z][\w-]*)\s*:(.*)$/;
 const KEYWORDS = ['definition', 'include', 'exclude', 'seeds'] as const;
 type Keyword = (typeof KEYWORDS)[number];
@@ -111,10 +114,24 @@ export function parseOutline(text: string, file: string): ParseResult {
 
     let rest = content;
     let apriori = false;
-    const am = APRIORI.exec(rest);
-    if (am) {
-      apriori = true;
-      rest = rest.slice(0, am.index);
+    let integrative = false;
+    for (;;) {
+      const am = APRIORI.exec(rest);
+      if (am && !apriori) {
+        apriori = true;
+        rest = rest.slice(0, am.index);
+        continue;
+      }
+      const im = INTEGRATIVE.exec(rest);
+      if (im && !integrative) {
+        integrative = true;
+        rest = rest.slice(0, im.index);
+        continue;
+      }
+      break;
+    }
+    if (integrative && depth > 0) {
+      err(lineNo, 'an integrative theme runs across the other themes, so it is written at the top level (not indented); its sub-themes go under it');
     }
     const name = cleanName(rest);
     const problem = nameProblem(name);
@@ -137,6 +154,7 @@ export function parseOutline(text: string, file: string): ParseResult {
       id: '',
       name,
       apriori,
+      ...(integrative ? { integrative: true } : {}),
       definition: '',
       include: '',
       exclude: '',

@@ -18,14 +18,23 @@ export interface WalkEntry {
   index: number;
   /** Names from the top level down, joined by " > ". */
   path: string;
-  /** Outline number as templates are usually presented: "1", "1.2", "1.2.3". */
+  /**
+   * Outline number as templates are usually presented: "1", "1.2", "1.2.3". Integrative themes
+   * are numbered apart, "I1", "I1.2", since they are listed apart from the hierarchy.
+   */
   number: string;
+  /** The theme is integrative, or under an integrative theme. */
+  integrative: boolean;
 }
 
 /** Every theme in document order (a parent before its sub-themes). Iterative: depth is unlimited. */
 export function* walk(template: Template): Generator<WalkEntry> {
-  type Frame = { nodes: ThemeNode[]; i: number; parent: ThemeNode | null; path: string; number: string; depth: number };
-  const stack: Frame[] = [{ nodes: template.roots, i: 0, parent: null, path: '', number: '', depth: 0 }];
+  type Frame = { nodes: ThemeNode[]; i: number; parent: ThemeNode | null; path: string; number: string; depth: number; integrative: boolean };
+  const stack: Frame[] = [{ nodes: template.roots, i: 0, parent: null, path: '', number: '', depth: 0, integrative: false }];
+  const rootNumbers = new Map<ThemeNode, string>();
+  let plain = 0;
+  let across = 0;
+  for (const r of template.roots) rootNumbers.set(r, r.integrative ? `I${++across}` : `${++plain}`);
   while (stack.length > 0) {
     const top = stack[stack.length - 1]!;
     if (top.i >= top.nodes.length) {
@@ -35,10 +44,11 @@ export function* walk(template: Template): Generator<WalkEntry> {
     const index = top.i++;
     const node = top.nodes[index]!;
     const path = top.parent ? top.path + PATH_SEP + node.name : node.name;
-    const number = top.parent ? `${top.number}.${index + 1}` : `${index + 1}`;
-    yield { node, depth: top.depth, parent: top.parent, parentId: top.parent ? top.parent.id : null, index, path, number };
+    const number = top.parent ? `${top.number}.${index + 1}` : rootNumbers.get(node)!;
+    const integrative = top.parent ? top.integrative : !!node.integrative;
+    yield { node, depth: top.depth, parent: top.parent, parentId: top.parent ? top.parent.id : null, index, path, number, integrative };
     if (node.children.length > 0) {
-      stack.push({ nodes: node.children, i: 0, parent: node, path, number, depth: top.depth + 1 });
+      stack.push({ nodes: node.children, i: 0, parent: node, path, number, depth: top.depth + 1, integrative });
     }
   }
 }

@@ -15,7 +15,7 @@ export function printOutline(template: Template): string {
   const out: string[] = [];
   for (const { node, depth } of walk(template)) {
     const indent = '  '.repeat(depth);
-    out.push(`${indent}${escape(node.name)}${node.apriori ? ' [a priori]' : ''}`);
+    out.push(`${indent}${escape(node.name)}${node.integrative ? ' [integrative]' : ''}${node.apriori ? ' [a priori]' : ''}`);
     out.push(...noteLines(node, `${indent}  `));
   }
   return out.length > 0 ? `${out.join('\n')}\n` : '';

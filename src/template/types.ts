@@ -6,6 +6,11 @@ export interface ThemeNode {
   name: string;
   /** Defined before coding, from the brief or theory. */
   apriori: boolean;
+  /**
+   * An integrative theme: it runs across the other themes rather than sitting under one, and is
+   * coded alongside any of them. Top level only; absent in trees stored before it existed.
+   */
+  integrative?: boolean;
   /** '' when absent. */
   definition: string;
   include: string;
@@ -56,4 +61,4 @@ export interface ParseResult {
 }
 
 /** Fields compared for an 'edited' change. */
-export type EditableField = 'definition' | 'include' | 'exclude' | 'seeds' | 'apriori';
+export type EditableField = 'definition' | 'include' | 'exclude' | 'seeds' | 'apriori' | 'integrative';

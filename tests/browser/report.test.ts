@@ -130,7 +130,7 @@ describe.skipIf(!present)('the HTML report in Chromium', () => {
     const v = await visit('report', renderReport(sampleReport()), 'report.png');
     expect(v.errors).toEqual([]);
     expect(v.requests).toEqual([v.url]);
-    expect(v.charts.map((c) => c.id)).toEqual(['chart-heatmap', 'chart-acceptance', 'chart-calibration', 'chart-overtime', 'chart-saturation', 'chart-unclaimed']);
+    expect(v.charts.map((c) => c.id)).toEqual(['chart-heatmap', 'chart-acceptance', 'chart-calibration', 'chart-overtime', 'chart-growth', 'chart-unclaimed']);
     for (const c of v.charts) {
       expect(c.width, c.id).toBeGreaterThan(100);
       expect(c.height, c.id).toBeGreaterThan(40);

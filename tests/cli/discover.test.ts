@@ -1,4 +1,5 @@
-import { readdirSync } from 'node:fs';
+import Database from 'better-sqlite3';
+import { readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { CORPUS, freshStudy, snapshot, trellis } from './run.js';
@@ -7,7 +8,7 @@ interface Found {
   run_id: number;
   k: number;
   silhouette: { k: number; score: number }[];
-  clusters: { cluster_id: number; size: number; terms: string[]; passage_ids: string[]; transcripts: string[] }[];
+  clusters: { cluster_id: string; size: number; terms: string[]; passage_ids: string[]; transcripts: string[] }[];
   unclaimed: string[];
 }
 
@@ -51,10 +52,36 @@ describe('discover, promote, dismiss and triage', () => {
     expect(Math.max(...paper.map((c) => c.passage_ids.filter(later).length / c.size))).toBeGreaterThanOrEqual(0.75);
   });
 
-  it('is deterministic for the same study', () => {
-    const again: Found = json(dir, ['discover']);
-    expect(again.clusters.map(({ cluster_id: _c, ...rest }) => rest)).toEqual(found.clusters.map(({ cluster_id: _c, ...rest }) => rest));
-    found = again; // promote and dismiss act on the latest run's clusters
+  it('is deterministic for the same study, and a cluster keeps its id while its members are the same', () => {
+    const again: Found & { run_id: number } = json(dir, ['discover']);
+    expect(again.run_id).toBeGreaterThan((found as Found & { run_id: number }).run_id);
+    expect(again.clusters).toEqual(found.clusters);
+    for (const c of again.clusters) expect(c.cluster_id).toMatch(/^c[0-9a-f]{6}$/);
+    expect(new Set(again.clusters.map((c) => c.cluster_id)).size).toBe(again.clusters.length);
+    // Labelled by its top terms in discover's own output.
+    const text = trellis(['discover'], dir).stdout;
+    const c = again.clusters[0]!;
+    expect(text).toContain(`Cluster ${c.cluster_id} (${c.terms.slice(0, 3).join(' · ')}): ${c.size} passages`);
+    found = json(dir, ['discover']); // promote and dismiss act on the latest run's clusters
+  });
+
+  it('refuses a cluster id that does not exist, or a promote with no destination, leaving the study unchanged', () => {
+    const before = snapshot(dir);
+    const env = { TRELLIS_CODER: 'priya' };
+    const cases: [string[], RegExp][] = [
+      [['promote', 'c000000', '--name', 'X'], /no cluster "c000000" in this study: cluster ids are printed by "trellis discover"/],
+      [['promote', '7', '--name', 'X'], /no cluster "7" in this study/],
+      [['promote', found.clusters[0]!.cluster_id], /say where the cluster goes: --name NAME .* or --into PATH/],
+      [['promote', found.clusters[0]!.cluster_id, '--name', 'X', '--into', 'Workload'], /either --name .* or --into/],
+      [['promote', found.clusters[0]!.cluster_id, '--into', 'No such theme'], /no theme "No such theme"/],
+      [['dismiss', 'c000000', '--note', 'x'], /no cluster "c000000"/],
+    ];
+    for (const [args, message] of cases) {
+      const r = trellis(args, dir, env);
+      expect(r.status, args.join(' ')).toBe(1);
+      expect(r.stderr).toMatch(message);
+    }
+    expect(snapshot(dir)).toBe(before);
   });
 
   it('promotes a cluster: a template revision with seed terms, and its passages as suggestions, not codings', () => {
@@ -65,6 +92,15 @@ describe('discover, promote, dismiss and triage', () => {
     const show = json(dir, ['template', 'show']);
     const theme = show.themes.find((t: { name: string }) => t.name === 'Paper workarounds');
     expect(theme.seeds.length).toBeGreaterThan(2);
+    expect(theme.definition).toBe(''); // the researcher writes it: "not yet written"
+    // The revision records the cluster it came from.
+    const revs = json(dir, ['template', 'history']).revisions;
+    expect(revs.at(-1).action).toBe(`promote cluster ${c.cluster_id} (${c.terms.slice(0, 3).join(' · ')})`);
+    expect(revs.at(-1).reason).toBe('printed lists and crib sheets');
+    expect(trellis(['codebook', '--out', 'cb.md'], dir).status).toBe(0);
+    const md = readFileSync(join(dir, 'cb.md'), 'utf8');
+    const entry = md.slice(md.indexOf('Paper workarounds\n'));
+    expect(entry.slice(0, entry.indexOf('\n#'))).toContain('**Definition:** _not yet written_');
     expect(json(dir, ['status']).coded).toBe(before.coded);
     const log = json(dir, ['log']).decisions;
     expect(log.at(-1)).toMatchObject({ action: 'promote', cluster_id: c.cluster_id, note: 'printed lists and crib sheets' });
@@ -74,6 +110,25 @@ describe('discover, promote, dismiss and triage', () => {
     const again = trellis(['promote', String(c.cluster_id), '--name', 'Again'], dir, { TRELLIS_CODER: 'priya' });
     expect(again.status).toBe(1);
     expect(again.stderr).toMatch(/already promoted/);
+  });
+
+  it('sends a cluster into an existing theme: its passages become suggestions of that theme, no revision', () => {
+    const run: Found = json(dir, ['discover']);
+    const c = run.clusters[0]!;
+    const revs = json(dir, ['template', 'history']).revisions.length;
+    // Triage names the open clusters by id and top terms.
+    const label = c.terms.slice(0, 3).join(' · ');
+    expect(trellis(['triage'], dir).stdout).toContain(`${c.cluster_id} (${label})`);
+    const p = json(dir, ['promote', c.cluster_id, '--into', 'Workload', '--note', 'these are about workload after all']);
+    expect(p).toMatchObject({ cluster_id: c.cluster_id, into_existing: true, path: 'Workload', suggestions: c.size });
+    expect(json(dir, ['template', 'history']).revisions.length).toBe(revs);
+    const db = new Database(join(dir, 'study.db'), { readonly: true });
+    const rows = db.prepare('SELECT passage_id, theme_id FROM suggestions WHERE run_id = ? ORDER BY passage_id').all(p.runId) as { passage_id: string; theme_id: string }[];
+    db.close();
+    expect(rows.map((r) => r.passage_id)).toEqual([...c.passage_ids].sort());
+    expect(new Set(rows.map((r) => r.theme_id))).toEqual(new Set([p.themeId]));
+    expect(json(dir, ['log']).decisions.at(-1)).toMatchObject({ action: 'promote', cluster_id: c.cluster_id, chosen_path: 'Workload' });
+    expect(trellis(['log'], dir, { TRELLIS_CODER: 'priya' }).stdout).toContain(`promoted cluster ${c.cluster_id} into Workload`);
   });
 
   it('dismisses a cluster; the next discover does not bring it back', () => {
@@ -89,10 +144,14 @@ describe('discover, promote, dismiss and triage', () => {
     expect(snapshot(dir)).toBe(before);
   });
 
-  it('triages the uncoded transcripts, most unclaimed first', () => {
-    const t = json(dir, ['triage']).transcripts as { transcript: string; unclaimedShare: number }[];
-    expect(t.map((r) => r.transcript)).not.toContain('t01-larch-staff-nurse'); // coded
-    expect(t.length).toBe(8);
+  it('triages the uncoded and the partly coded transcripts, most unclaimed first', () => {
+    const t = json(dir, ['triage']).transcripts as { transcript: string; unclaimedShare: number; partly_coded: boolean; coded_passages: number; substantivePassages: number }[];
+    // The first batch (t01-t04) is coded but for a few passages: each is ranked by what is left.
+    const partly = t.filter((r) => r.partly_coded).map((r) => r.transcript).sort();
+    expect(partly).toEqual(['t01-larch-staff-nurse', 't02-kestrel-fy1', 't03-harbour-hca', 't04-orchard-staff-nurse']);
+    for (const r of t) expect(r.partly_coded).toBe(r.coded_passages > 0);
+    expect(t.find((r) => r.transcript === 't01-larch-staff-nurse')!.substantivePassages).toBeLessThan(t.find((r) => r.transcript === 't01-larch-staff-nurse')!.coded_passages);
+    expect(t.length).toBe(12);
     const shares = t.map((r) => r.unclaimedShare);
     expect(shares).toEqual([...shares].sort((a, b) => b - a));
   });

@@ -98,7 +98,7 @@ describe('trellis add', () => {
     trellis(['sheet', 'export', '--out', 's.csv'], dir);
     const rows = readFileSync(join(dir, 's.csv'), 'utf8').split('\r\n').filter((l) => l.startsWith('long#'));
     expect(rows).toHaveLength(5);
-    for (const row of rows.slice(1)) expect(row).toMatch(/,Sentence number \d+ has[^,]* words\.,$/); // whole sentences only
+    for (const row of rows.slice(1)) expect(row).toMatch(/,Sentence number \d+ has[^,]* words\.,,$/); // whole sentences only
   });
 
   it('imports all files or none', () => {

@@ -22,8 +22,10 @@ export class ReviewTerminal {
   readonly child: ChildProcess;
   readonly exited: Promise<number | null>;
 
-  constructor(args: string[], cwd: string, env: Record<string, string> = {}) {
-    const cmd = [process.execPath, BIN, 'review', ...args].map(quote).join(' ');
+  constructor(args: string[], cwd: string, env: Record<string, string> = {}, size?: { rows: number; cols: number }) {
+    const run = [process.execPath, BIN, 'review', ...args].map(quote).join(' ');
+    // A terminal of a given size: the pseudo-terminal is sized before the program starts.
+    const cmd = size ? `stty rows ${size.rows} cols ${size.cols}; exec ${run}` : run;
     // -q quiet, -f flush each write, -e the child's exit status, -c the command; no log file.
     // detached: script leads its own process group, which the tests can kill as a whole.
     this.child = spawn('script', ['-qfec', cmd, '/dev/null'], {

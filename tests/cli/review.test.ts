@@ -8,6 +8,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { decodeKeys } from '../../src/cli/review-keys.js';
 import { matchThemes } from '../../src/cli/review-search.js';
 import { ReviewQueue, orderQueue, uncertainty, type ReviewItem } from '../../src/study/review.js';
+import { unflattenTemplate, walk } from '../../src/template/paths.js';
 import { ReviewTerminal, loose } from './review-pty.js';
 import { CORPUS, freshStudy, trellis } from './run.js';
 
@@ -66,15 +67,7 @@ function codingsOf(dir: string, coder: string): { passage: string; theme: string
   const db = new Database(join(dir, 'study.db'), { readonly: true });
   try {
     const tree = JSON.parse((db.prepare('SELECT tree FROM revisions ORDER BY rev DESC LIMIT 1').get() as { tree: string }).tree);
-    const paths = new Map<string, string>();
-    const visit = (nodes: { id: string; name: string; children: unknown[] }[], prefix: string) => {
-      for (const n of nodes) {
-        const p = prefix ? `${prefix} > ${n.name}` : n.name;
-        paths.set(n.id, p);
-        visit(n.children as typeof nodes, p);
-      }
-    };
-    visit(tree.roots, '');
+    const paths = new Map([...walk(unflattenTemplate(tree.flat))].map((e) => [e.node.id, e.path]));
     return (
       db.prepare('SELECT passage_id, theme_id, origin FROM codings WHERE coder = ? AND removed_at IS NULL ORDER BY id').all(coder) as {
         passage_id: string;
@@ -189,10 +182,18 @@ describe('trellis review', () => {
     expect(s5[1]).toBe(`accepted ${top4} for ${p4}`);
     expect(t.screen).toContain('accepted 2 of 3 decided (67%)');
 
+    // 0: reviewed, nothing to code. A decision on the passage, not on a suggestion.
+    const p6 = passageOn(t);
+    t.send('0');
+    const s6 = await step(t, SAVED);
+    expect(s6[1]).toBe(`reviewed ${p6}, nothing to code`);
+    expect(passageOn(t)).not.toBe(p6);
+    expect(t.screen).toContain('accepted 2 of 3 decided (67%)');
+
     expect(await t.quit()).toBe(0);
     // The undone re-code no longer counts; the undo does.
-    await t.waitFor('This session: 2 accepted, 0 re-coded, 1 rejected, 1 deferred, 1 undone.');
-    await t.waitFor('Acceptance 2 of 3 (67%).');
+    await t.waitFor('This session: 2 accepted, 0 re-coded, 1 rejected, 1 deferred, 1 nothing to code, 1 undone.');
+    await t.waitFor('Suggestions accepted: 2 of 3 decided (67%)');
 
     const mine = log(dir).filter((d) => d.coder === 'ana');
     expect(mine.map((d) => [d.action, d.passage_id])).toEqual([
@@ -202,13 +203,14 @@ describe('trellis review', () => {
       ['recode', p4],
       ['undo', p4],
       ['accept', p4],
+      ['nocode', p6],
     ]);
     expect(mine[0]!.chosen_path).toBe(top1);
     expect(mine[1]!.theme_path).toBe(second);
     expect(mine[2]!.note).toBe('ask the team about this one');
     expect(mine[3]!.chosen_path).toBe(allergies);
     expect(mine[4]!.undoes).toBe(mine[3]!.id);
-    expect(mine.map((d) => d.id)).toEqual([s1, s2, s3, s4].map((s) => Number(s[2])).concat([mine[4]!.id, Number(s5[2])]));
+    expect(mine.map((d) => d.id)).toEqual([s1, s2, s3, s4].map((s) => Number(s[2])).concat([mine[4]!.id, Number(s5[2]), Number(s6[2])]));
 
     // Codings: the two accepts stand; the undone re-code left none behind.
     expect(codingsOf(dir, 'ana')).toEqual([
@@ -218,6 +220,21 @@ describe('trellis review', () => {
     const after = status(dir);
     expect(after.coded).toBe(before.coded + 2);
     expect(after.perCoder.find((c) => c.coder === 'ana')).toEqual({ coder: 'ana', codings: 2, passages: 2 });
+  });
+
+  it('scrolls a passage that does not fit a short terminal with the arrow keys', async () => {
+    const dir = copyStudy();
+    const t = new ReviewTerminal(['--study', dir, '--coder', 'ana', '--transcript', T05, '--no-colour'], dir, {}, { rows: 16, cols: 100 });
+    const first = await step(t, /↓\s+(\d+)\s+lines?\s+more/);
+    const below = Number(first[1]);
+    expect(t.screen).toContain('(start of the passage)');
+    t.send('\x1b[B'); // down
+    const moved = await step(t, /↑\s+1\s+line\s+above/);
+    expect(moved).toBeTruthy();
+    if (below > 1) expect(t.screen).toMatch(new RegExp(`↓\\s+${below - 1}\\s+lines?\\s+more`));
+    t.send('\x1b[A'); // up: back to the start
+    await step(t, '(start of the passage)');
+    expect(await t.quit()).toBe(0);
   });
 
   it('creates a new sub-theme on the spot: a template revision, and the passage coded to it', async () => {

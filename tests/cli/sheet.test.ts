@@ -18,11 +18,38 @@ function readSheet(path: string): Record<string, string>[] {
 }
 
 describe('coding sheet round trip', () => {
+  it('keeps the note column as passage memos, and exports the latest again: the column round-trips', () => {
+    const dir = studyWithCorpus();
+    expect(trellis(['sheet', 'export', '--transcript', 't01-larch-staff-nurse', '--coder', 'ana', '--out', 'a.csv'], dir).status).toBe(0);
+    const rows = readSheet(join(dir, 'a.csv'));
+    const [p, q] = rows.filter((r) => r.role === 'participant');
+    p!.note = 'Compare with the night sister, "same gap", other side';
+    q!.note = '=not a formula';
+    const csv = (rs: Record<string, string>[]) => ['passage_id,transcript,speaker,role,time,text,themes,note', ...rs.map((r) => Object.values(r).map((v) => `"${v.replace(/"/g, '""')}"`).join(','))].join('\n');
+    write(dir, 'noted.csv', csv(rows));
+    const imp = JSON.parse(trellis(['sheet', 'import', 'noted.csv', '--coder', 'ana', '--json'], dir).stdout);
+    expect(imp.memos).toBe(2);
+    const memos = JSON.parse(trellis(['memo', 'list', '--passage', p!.passage_id, '--json'], dir).stdout).memos;
+    expect(memos).toMatchObject([{ target_kind: 'passage', target: p!.passage_id, author: 'ana', text: p!.note }]);
+
+    // Exported again, the notes come back as written; importing that export adds nothing.
+    expect(trellis(['sheet', 'export', '--transcript', 't01-larch-staff-nurse', '--coder', 'ana', '--out', 'b.csv'], dir).status).toBe(0);
+    const back = new Map(readSheet(join(dir, 'b.csv')).map((r) => [r.passage_id, r.note]));
+    expect(back.get(p!.passage_id)).toBe(p!.note);
+    expect(back.get(q!.passage_id)).toBe("'=not a formula"); // kept as text in a spreadsheet
+    expect(JSON.parse(trellis(['sheet', 'import', 'b.csv', '--coder', 'ana', '--json'], dir).stdout).memos).toBe(0);
+    expect(JSON.parse(trellis(['memo', 'list', '--passage', q!.passage_id, '--json'], dir).stdout).memos[0].text).toBe('=not a formula');
+    // A changed note is a new memo; the first stays in the study.
+    write(dir, 'changed.csv', `passage_id,themes,note\n${p!.passage_id},,Checked with Sam: same gap.\n`);
+    expect(JSON.parse(trellis(['sheet', 'import', 'changed.csv', '--coder', 'ana', '--json'], dir).stdout).memos).toBe(1);
+    expect(JSON.parse(trellis(['memo', 'list', '--passage', p!.passage_id, '--json'], dir).stdout).memos.map((m: { text: string }) => m.text)).toEqual([p!.note, 'Checked with Sam: same gap.']);
+  });
+
   it('exports, takes codes from a spreadsheet, and exports them again for the coder', () => {
     const dir = studyWithCorpus();
     expect(trellis(['sheet', 'export', '--transcript', 't01-larch-staff-nurse', '--out', 'blank.csv'], dir).status).toBe(0);
     const rows = readSheet(join(dir, 'blank.csv'));
-    expect(Object.keys(rows[0]!)).toEqual(['passage_id', 'transcript', 'speaker', 'role', 'time', 'text', 'themes']);
+    expect(Object.keys(rows[0]!)).toEqual(['passage_id', 'transcript', 'speaker', 'role', 'time', 'text', 'themes', 'note']);
     expect(rows.every((r) => r.transcript === 't01-larch-staff-nurse')).toBe(true);
 
     // Code every third participant passage, some with two themes (parallel coding), one by bare name.
@@ -31,7 +58,7 @@ describe('coding sheet round trip', () => {
     coded.forEach((r, i) => {
       r.themes = i % 2 ? 'Workload > Time on the system > Logging in; Team communication' : 'Allergies';
     });
-    const csv = ['passage_id,transcript,speaker,role,time,text,themes', ...rows.map((r) => Object.values(r).map((v) => `"${v.replace(/"/g, '""')}"`).join(','))].join('\n');
+    const csv = ['passage_id,transcript,speaker,role,time,text,themes,note', ...rows.map((r) => Object.values(r).map((v) => `"${v.replace(/"/g, '""')}"`).join(','))].join('\n');
     write(dir, 'coded.csv', csv);
     const imp = trellis(['sheet', 'import', 'coded.csv', '--coder', 'ana', '--json'], dir);
     expect(imp.status, imp.stderr).toBe(0);

@@ -76,6 +76,14 @@ describe('the unclaimed pool', () => {
   const rejected = [{ passageId: 't1#8', themeId: 'staff' }];
   const thresholds = { staff: 0.7, admin: 0.6, support: 0.5, work: 0.8 };
 
+  it('leaves out passages judged "nothing to code", after the coded ones', () => {
+    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected, thresholds, nothingToCode: ['t1#5', 't1#2'] });
+    expect(r.pool.map((p) => p.id)).toEqual(['t1#4', 't1#8']);
+    const why = Object.fromEntries(r.excluded.map((e) => [e.id, e.reason]));
+    expect([why['t1#5'], why['t1#2']]).toEqual(['nothing-to-code', 'coded']);
+    expect(r.counts['nothing-to-code']).toBe(1);
+  });
+
   it('keeps substantive, uncoded, unclaimed participant passages, with the theme that came nearest', () => {
     const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected, thresholds });
     expect(r.pool.map((p) => p.id)).toEqual(['t1#4', 't1#5', 't1#8']);
@@ -95,7 +103,7 @@ describe('the unclaimed pool', () => {
       't1#6': 'short',
       't1#7': 'not-scored',
     });
-    expect(r.counts).toEqual({ interviewer: 1, short: 1, 'small-talk': 0, coded: 1, claimed: 1, 'not-scored': 1, unclaimed: 3 });
+    expect(r.counts).toEqual({ interviewer: 1, short: 1, 'small-talk': 0, coded: 1, 'nothing-to-code': 0, claimed: 1, 'not-scored': 1, unclaimed: 3 });
   });
 
   it('with novelty scores, pools by novelty at or above the threshold instead of the claim rule', () => {

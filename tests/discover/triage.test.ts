@@ -34,7 +34,7 @@ const suggestions = [s('t2#2', ['staff']), s('t2#3', []), s('t3#1', ['staff', 'p
 describe('triage of uncoded transcripts', () => {
   const out = triage({
     passages,
-    codedTranscripts: ['t1'],
+    done: ['t1#1'],
     suggestions,
     unclaimed: ['t2#3', 't3#3'],
     clusters: [
@@ -64,8 +64,20 @@ describe('triage of uncoded transcripts', () => {
     expect(out[1]!.clusters).toEqual([{ clusterId: 'C1', passages: 1, shareOfCluster: 0.25, shareOfTranscript: 0.2 }]);
   });
 
+  it('ranks a partly coded transcript by its uncoded part, and leaves out one with nothing left', () => {
+    // t3#1 (200 words) is coded and t3#2 judged nothing to code: t3's uncoded part is t3#3
+    // alone (100 words, unclaimed), so it ranks first at 100%; t1 has nothing left.
+    const partly = triage({ passages, done: ['t1#1', 't3#1', 't3#2'], suggestions, unclaimed: ['t2#3', 't3#3'], clusters: [] });
+    expect(partly.map((t) => [t.transcript, t.unclaimedShare, t.substantiveWords, t.coded_passages, t.partly_coded])).toEqual([
+      ['t3', 1, 100, 2, true],
+      ['t2', 0.75, 400, 0, false],
+    ]);
+    // The themes of done passages are not the transcript's open themes.
+    expect(partly[0]!.themes).toEqual([]);
+  });
+
   it('breaks ties by unclaimed words, then name', () => {
-    const tie = triage({ passages: [p('b#1', 10), p('a#1', 10), p('c#1', 20)], codedTranscripts: [], suggestions: [], unclaimed: ['a#1', 'b#1', 'c#1'], clusters: [] });
+    const tie = triage({ passages: [p('b#1', 10), p('a#1', 10), p('c#1', 20)], done: [], suggestions: [], unclaimed: ['a#1', 'b#1', 'c#1'], clusters: [] });
     expect(tie.map((t) => t.transcript)).toEqual(['c', 'a', 'b']);
   });
 });

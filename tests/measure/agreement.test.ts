@@ -3,7 +3,9 @@ import {
   AGREEMENT_CAUTION,
   LANDIS_KOCH_BANDS,
   LANDIS_KOCH_SOURCE,
+  KRIPPENDORFF_SOURCE,
   agreementBand,
+  alphaGuidance,
   agreementReport,
   type AgreementInput,
 } from '../../src/measure/agreement.js';
@@ -127,6 +129,57 @@ describe('agreementReport rules', () => {
     expect(r.bandsSource).toBe(LANDIS_KOCH_SOURCE);
     expect(r.caution).toBe(AGREEMENT_CAUTION);
     expect(r.themes[0]!.kappa.band).toBe('almost perfect');
+    expect(r.guidance_source).toBe(KRIPPENDORFF_SOURCE);
+  });
+
+  it('lists each passage and theme on which the coders who reviewed it differ', () => {
+    // Invented: three coders, two themes; c never reviewed p2.
+    const r = agreementReport({
+      passages: ['p1', 'p2', 'p3'],
+      coders: ['a', 'b', 'c'],
+      themes: ['X', 'Y'],
+      codings: [
+        { coder: 'a', passageId: 'p1', themeId: 'X' },
+        { coder: 'b', passageId: 'p1', themeId: 'X' },
+        { coder: 'c', passageId: 'p1', themeId: 'Y' },
+        { coder: 'a', passageId: 'p2', themeId: 'Y' },
+      ],
+      coded: [
+        { coder: 'b', passageId: 'p2' },
+        { coder: 'a', passageId: 'p3' },
+        { coder: 'b', passageId: 'p3' },
+        { coder: 'c', passageId: 'p3' },
+      ],
+    });
+    expect(r.disagreements).toEqual([
+      { theme_id: 'X', passage_id: 'p1', applied_by: ['a', 'b'], not_by: ['c'] },
+      { theme_id: 'Y', passage_id: 'p1', applied_by: ['c'], not_by: ['a', 'b'] },
+      { theme_id: 'Y', passage_id: 'p2', applied_by: ['a'], not_by: ['b'] },
+    ]);
+  });
+});
+
+describe("Krippendorff's guidance for alpha", () => {
+  // Source: Krippendorff (2004), Content Analysis, 2nd ed., on reliability standards: rely on
+  // alpha >= .800; alpha between .667 and .800 for tentative conclusions only (recalled from
+  // memory; the same thresholds are stated in the issue that asked for them).
+  it.each([
+    [1, 'reliable'],
+    [0.8, 'reliable'],
+    [0.7999, 'tentative'],
+    [0.667, 'tentative'],
+    [0.6669, 'unreliable'],
+    [0, 'unreliable'],
+    [-0.2, 'unreliable'],
+  ] as const)('%s is %s', (value, label) => {
+    expect(alphaGuidance(value)).toBe(label);
+  });
+
+  it('labels the nominal alpha of a published example, and nothing for an undefined one', () => {
+    // Krippendorff (2011), "Computing Krippendorff's alpha-reliability", nominal example:
+    // alpha = 0.743 (as printed there; recalled from memory), so tentative conclusions only.
+    expect(alphaGuidance(0.743)).toBe('tentative');
+    expect(alphaGuidance(null)).toBeNull();
   });
 });
 

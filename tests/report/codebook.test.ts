@@ -118,6 +118,7 @@ describe('renderCodebook: CSV', () => {
       expect(Number(r.passages_total)).toBe(t.total);
       expect(r.example_1).toBe(t.quotes[0]?.text ?? '');
       expect(r.example_2).toBe(t.quotes[1]?.text ?? '');
+      expect(r.integrative).toBe(t.integrative ? 'yes' : 'no');
     });
   });
 

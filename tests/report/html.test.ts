@@ -46,9 +46,10 @@ describe('renderReport', () => {
       ['template', 'The template and its revisions'],
       ['coverage', 'Themes across transcripts'],
       ['acceptance', 'Acceptance of suggestions'],
-      ['saturation', 'Saturation'],
+      ['growth', 'Template growth'],
       ['unclaimed', 'Unclaimed passages and clusters'],
       ['agreement', 'Inter-coder agreement'],
+      ['memos', 'Memos'],
       ['quotes', 'Representative quotes'],
       ['cautions', 'Cautions'],
     ]) {
@@ -60,7 +61,7 @@ describe('renderReport', () => {
 
   it('draws every chart, each with an accessible name and description and a visible heading', () => {
     const ids = [...html.matchAll(/<svg class="chart" id="([\w-]+)" role="img" aria-labelledby="([\w-]+)-t \1-d"/g)].map((m) => m[1]);
-    expect(ids).toEqual(['chart-heatmap', 'chart-acceptance', 'chart-calibration', 'chart-overtime', 'chart-saturation', 'chart-unclaimed']);
+    expect(ids).toEqual(['chart-heatmap', 'chart-acceptance', 'chart-calibration', 'chart-overtime', 'chart-growth', 'chart-unclaimed']);
     for (const id of ids) {
       expect(html).toMatch(new RegExp(`<title id="${id}-t">[^<]+</title><desc id="${id}-d">[^<]{40,}</desc>`));
     }
@@ -127,7 +128,7 @@ describe('renderReport', () => {
   });
 
   it('shows the clusters with terms, size and examples', () => {
-    expect(html).toContain('Cluster 4: discharge · pharmacy · TTOs');
+    expect(html).toContain('Cluster c4e1d2: discharge · pharmacy · TTOs');
     expect(html).toContain('17 passages from 6 transcripts');
     expect(html).toContain('<li>TTOs</li>');
     expect(html).toContain('promoted into the template');
@@ -182,17 +183,18 @@ describe('renderReport for a study just begun', () => {
       'No template revisions have been recorded yet.',
       'No transcripts have been coded yet, so there is nothing to map.',
       'No suggestions have been decided on yet, so acceptance and calibration cannot be measured.',
-      'No transcript has been coded yet, so there is no saturation curve.',
+      'No transcript has been coded yet, so the template has not grown yet.',
       'The unclaimed share has not been measured yet',
       'No clusters have been formed from the unclaimed passages yet.',
-      'No two coders have coded the same passages yet, so inter-coder agreement cannot be reported.',
+      'No two coders have reviewed the same passages yet, so inter-coder agreement cannot be reported.',
       'No passages have been coded yet, so there are no quotes to show.',
+      'No memos have been written yet',
       'No cautions were recorded with this report.',
     ]) {
       expect(html).toContain(`<p class="empty">${sentence}`);
     }
     // Every section is still there, so the report's shape does not depend on progress.
-    expect(html.match(/<section id=/g)).toHaveLength(9);
+    expect(html.match(/<section id=/g)).toHaveLength(10);
   });
 
   it('handles a template with no themes', () => {
@@ -203,7 +205,7 @@ describe('renderReport for a study just begun', () => {
   });
 
   it('draws the charts that have data and describes the rest', () => {
-    // Decisions but none in a drawable band; saturation but no decisions over time.
+    // Decisions but none in a drawable band; growth but no decisions over time.
     const d = sampleReport();
     d.acceptance.calibration = d.acceptance.calibration.map((c) => ({ ...c, count: 0, acceptance: null, meanConfidence: null }));
     d.acceptance.overTime = [];

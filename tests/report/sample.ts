@@ -4,7 +4,7 @@
  * figures are made up for the tests; counts come from a seeded generator so every run is equal.
  */
 
-import { AGREEMENT_CAUTION, LANDIS_KOCH_SOURCE, agreementBand } from '../../src/measure/bands.js';
+import { AGREEMENT_CAUTION, KRIPPENDORFF_SOURCE, LANDIS_KOCH_SOURCE, agreementBand, alphaGuidance } from '../../src/measure/bands.js';
 import type { AcceptanceRow, CalibrationRow, ReportCluster, ReportData, ReportTheme } from '../../src/report/types.js';
 import { seededRandom } from '../../src/measure/random.js';
 
@@ -299,11 +299,11 @@ export function sampleReport(): ReportData {
   const newThemes = [0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 0];
   const newSubs = [2, 1, 3, 2, 2, 1, 2, 1, 1, 0, 0, 0];
   let cum = 0;
-  const saturation = TRANSCRIPTS.map((t, i) => ({ transcript: t, order: i + 1, newThemes: newThemes[i]!, newSubThemes: newSubs[i]!, cumulative: (cum += newThemes[i]! + newSubs[i]!) }));
+  const growth = TRANSCRIPTS.map((t, i) => ({ transcript: t, order: i + 1, newThemes: newThemes[i]!, newSubThemes: newSubs[i]!, cumulative: (cum += newThemes[i]! + newSubs[i]!) }));
 
   const clusters: ReportCluster[] = [
     {
-      id: 4,
+      id: 'c4e1d2',
       label: 'discharge · pharmacy · TTOs',
       size: 17,
       terms: ['discharge', 'pharmacy', 'TTOs', 'waiting', 'transport'],
@@ -316,7 +316,7 @@ export function sampleReport(): ReportData {
       ],
     },
     {
-      id: 5,
+      id: 'c5a0b9',
       label: 'relatives · phone calls',
       size: 9,
       terms: ['relatives', 'phone', 'daughter', 'ring', 'update'],
@@ -326,7 +326,7 @@ export function sampleReport(): ReportData {
       examples: ['The daughter rings every morning at eight. Who spoke to her last night? It\'s not on there.'],
     },
     {
-      id: 2,
+      id: 'c2f7c3',
       label: 'paper · notes · print',
       size: 21,
       terms: ['paper', 'notes', 'print', 'pocket', 'sheet'],
@@ -336,7 +336,7 @@ export function sampleReport(): ReportData {
       examples: ['We print the list at the start and scribble on it all day.'],
     },
     {
-      id: 3,
+      id: 'c3d8e6',
       label: 'car park · parking',
       size: 6,
       terms: ['parking', 'car', 'permit'],
@@ -362,9 +362,10 @@ export function sampleReport(): ReportData {
     percentAgreement: pa as number,
     kappa: k as number,
     alpha: a as number,
-    band: agreementBand(a as number),
+    kappaBand: agreementBand(k as number),
+    alphaGuidance: alphaGuidance(a as number),
   }));
-  agreementRows.push({ theme: 'all themes, pooled', units: 708, percentAgreement: 0.891, kappa: 0.64, alpha: 0.641, band: agreementBand(0.641) });
+  agreementRows.push({ theme: 'all themes, pooled', units: 708, percentAgreement: 0.891, kappa: 0.64, alpha: 0.641, kappaBand: agreementBand(0.64), alphaGuidance: alphaGuidance(0.641) });
 
   return {
     title: 'Electronic handover on four wards: template analysis',
@@ -438,9 +439,18 @@ export function sampleReport(): ReportData {
       overTime,
       calibration,
     },
-    saturation,
+    growth,
     unclaimed: { share: unclaimedCount / scored, passages: scored, unclaimed: unclaimedCount, clusters },
-    agreement: { coders: ['alex', 'sam'], rows: agreementRows, bandsSource: LANDIS_KOCH_SOURCE, caution: AGREEMENT_CAUTION },
+    agreement: {
+      coders: ['alex', 'sam'],
+      units: 118,
+      rows: agreementRows,
+      disagreements: 41,
+      bandsSource: LANDIS_KOCH_SOURCE,
+      guidanceSource: KRIPPENDORFF_SOURCE,
+      circularity: null,
+      caution: AGREEMENT_CAUTION,
+    },
     cautions: [
       'Suggestions are aids, not codings: every coding in this report was made or confirmed by a researcher.',
       'Acceptance measures how often coders took suggestions; a high rate can also mean coders deferred to the tool. Read it together with the agreement figures.',
@@ -476,7 +486,7 @@ export function emptyReport(): ReportData {
       overTime: [],
       calibration: full.acceptance.calibration.map((c) => ({ ...c, count: 0, meanConfidence: null, acceptance: null })),
     },
-    saturation: [],
+    growth: [],
     unclaimed: { share: null, passages: 0, unclaimed: 0, clusters: [] },
     agreement: null,
     cautions: [],
@@ -490,7 +500,7 @@ export function largeReport(): ReportData {
   const names = Array.from({ length: n }, (_, i) => `p${String(i + 1).padStart(2, '0')}-${['larch', 'heron', 'quay', 'maple'][i % 4]}-${['staff-nurse', 'healthcare-assistant', 'foundation-doctor'][i % 3]}`);
   const counts = d.heatmap.counts.map((row) => names.map((_, j) => (row[j % row.length]! * (j + 3)) % 23));
   let cum = 0;
-  const saturation = names.map((t, i) => {
+  const growth = names.map((t, i) => {
     const newThemes = i % 9 === 0 ? 1 : 0;
     const newSubThemes = i < 30 ? (i * 7) % 3 : 0;
     return { transcript: t, order: i + 1, newThemes, newSubThemes, cumulative: (cum += newThemes + newSubThemes) };
@@ -500,7 +510,7 @@ export function largeReport(): ReportData {
     ...d,
     counts: { ...d.counts, transcripts: n },
     heatmap: { transcripts: names, themes: d.heatmap.themes, counts },
-    saturation,
+    growth,
     acceptance: { ...d.acceptance, overTime },
   };
 }

@@ -7,7 +7,7 @@ import { UserError } from '../../src/errors.js';
 import { readTranscriptFile } from '../../src/ingest/read.js';
 import { createStudy, openStudy } from '../../src/study/db.js';
 import { importTranscripts } from '../../src/study/import.js';
-import { SCHEMA_VERSION } from '../../src/study/schema.js';
+import { MIGRATIONS, SCHEMA_VERSION } from '../../src/study/schema.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'trellis-db-'));
 
@@ -41,6 +41,34 @@ describe('study.db', () => {
     expect(db.pragma('user_version', { simple: true })).toBe(SCHEMA_VERSION);
     const tables = (db.prepare("SELECT name FROM sqlite_master WHERE type='table'").all() as { name: string }[]).map((t) => t.name);
     expect(tables).toEqual(expect.arrayContaining(['transcripts', 'passages', 'revisions', 'themes', 'codings']));
+    db.close();
+  });
+
+  it('upgrades a schema-4 study: decisions kept, codings still pointing at them, "nothing to code" allowed, log still append-only', () => {
+    const dir = tmp();
+    const raw = new Database(join(dir, 'study.db'));
+    for (const m of MIGRATIONS.slice(0, 4)) raw.exec(m);
+    raw.pragma('user_version = 4');
+    raw.exec(`
+      INSERT INTO transcripts VALUES (1, 't1', 't1.txt', 'text', 'h', 's', 0, '2026-01-01');
+      INSERT INTO passages (id, transcript_id, ordinal, turn, role, char_offset, char_length, text, words, lemmas, stops, spans)
+        VALUES ('t1#1', 1, 1, 1, 'participant', 0, 5, 'hello', 1, 'hello', x'00', x'0000000005000000');
+      INSERT INTO revisions VALUES (1, '2026-01-01', 'a', 'set', NULL, 'A', '{"roots":[]}', '[]');
+      INSERT INTO themes VALUES ('T1', 'A', 1, NULL, NULL);
+      INSERT INTO decisions (id, at, coder, action, passage_id, theme_id) VALUES (7, '2026-01-02', 'ana', 'accept', 't1#1', 'T1');
+      INSERT INTO codings (passage_id, theme_id, coder, origin, created_at, rev, decision_id) VALUES ('t1#1', 'T1', 'ana', 'accepted', '2026-01-02', 1, 7);
+    `);
+    raw.close();
+    const db = openStudy(dir);
+    expect(db.pragma('user_version', { simple: true })).toBe(SCHEMA_VERSION);
+    expect(db.pragma('foreign_keys', { simple: true })).toBe(1);
+    expect(db.prepare('SELECT id, action, coder FROM decisions').all()).toEqual([{ id: 7, action: 'accept', coder: 'ana' }]);
+    expect(db.prepare('SELECT decision_id FROM codings').get()).toEqual({ decision_id: 7 });
+    expect(db.pragma('foreign_key_check')).toEqual([]);
+    db.prepare("INSERT INTO decisions (at, coder, action, passage_id) VALUES ('2026-01-03', 'ana', 'nocode', 't1#1')").run();
+    expect(() => db.prepare("INSERT INTO decisions (at, coder, action) VALUES ('x', 'ana', 'guess')").run()).toThrow(/CHECK/);
+    expect(() => db.prepare("UPDATE decisions SET coder = 'bo'").run()).toThrow(/append-only/);
+    expect(() => db.prepare('DELETE FROM decisions').run()).toThrow(/append-only/);
     db.close();
   });
 
