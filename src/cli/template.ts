@@ -61,19 +61,40 @@ Examples:
   trellis template set template.txt --reason "after coding the first four interviews"
   trellis template show
   trellis template rename "Workload > Staffing" "Staffing levels" --reason "clearer"
-  trellis template move "Interruptions" --to "Workload"
-  trellis template merge "Workload > Overtime" "Workload > Staffing levels"
-  trellis template split "Patient safety > Information" --into "Information lost; Information gained"
-  trellis template retire "Team communication > Night staff"`,
+  trellis template move "Interruptions" --to "Workload" --reason "part of the workload story"
+  trellis template merge "Workload > Overtime" "Workload > Staffing levels" --reason "coders could not tell them apart"
+  trellis template split "Patient safety > Information" --into "Information lost; Information gained" --reason "two directions"
+  trellis template retire "Team communication > Night staff" --reason "no longer distinct"`,
     );
 
   withCommon(tpl.command('set <file>').description('record FILE as the new template revision (template.txt is kept equal to it)'))
     .option('--reason <text>', 'why: kept in the revision history')
     .option('--coder <name>', 'who made the change', defaultCoder())
-    .action(async (file: string, opts: Opts) => {
+    .option('--renamed <"old; new">', 'a coded theme gone from the outline is this new one (renamed or moved by hand): its codings follow (repeatable)', (v: string, all: string[] = []) => [...all, v])
+    .option('--retire <path>', 'a coded theme gone from the outline is to be retired, its codings kept in its history (repeatable)', (v: string, all: string[] = []) => [...all, v])
+    .addHelpText(
+      'after',
+      `
+A coded theme that disappears from the outline is never retired silently: template set stops and
+lists such themes with their counts, and you say for each whether it was renamed or moved
+(--renamed "Workload > Staffing; Workload > Staffing levels") or is to be retired (--retire PATH).
+
+Examples:
+  trellis template set template.txt --reason "after the first four interviews"
+  trellis template set template.txt --renamed "Interruptions; Being interrupted"
+  trellis template set template.txt --retire "Team communication > Night staff" --reason "no longer distinct"`,
+    )
+    .action(async (file: string, opts: Opts & { renamed?: string[]; retire?: string[] }) => {
       const bytes = readInputFile(file);
       const text = decodeText(bytes, file).text;
-      const r = await withStudy(opts, (db) => setTemplate(db, resolve(opts.study), text, file, opts.coder!, opts.reason));
+      const r = await withStudy(opts, (db) => setTemplate(db, resolve(opts.study), text, file, opts.coder!, opts.reason, {
+          retire: opts.retire,
+          renamed: (opts.renamed ?? []).map((pair) => {
+            const parts = splitPathList(pair);
+            if (parts.length !== 2) throw new UserError(`--renamed takes "OLD PATH; NEW PATH" (got "${pair}")`);
+            return [parts[0]!, parts[1]!] as [string, string];
+          }),
+        }));
       report(r, opts.json);
     });
 
@@ -140,8 +161,13 @@ Examples:
     });
   });
 
-  const op = (name: string, run: (t: Template, newId: () => string) => Revised) => (opts: Opts) =>
-    withStudy(opts, (db) => report(reviseTemplate(db, resolve(opts.study), name, run, opts.coder!, opts.reason), opts.json));
+  const op = (name: string, run: (t: Template, newId: () => string) => Revised) => (opts: Opts) => {
+    // These change what existing codings mean: the audit trail needs the reason.
+    if (['move', 'merge', 'split', 'retire'].includes(name) && !opts.reason?.trim()) {
+      throw new UserError(`template ${name} needs --reason "why": it is kept in the revision history (the audit trail)`);
+    }
+    return withStudy(opts, (db) => report(reviseTemplate(db, resolve(opts.study), name, run, opts.coder!, opts.reason), opts.json));
+  };
 
   revising(tpl.command('rename <path> <new-name>').description('rename a theme (its id, codings and history stay)')).action(
     (path: string, newName: string, opts: Opts) => op('rename', (t) => renameTheme(t, theme(t, path), newName))(opts),

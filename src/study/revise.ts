@@ -1,9 +1,11 @@
 import { join } from 'node:path';
 import { UserError } from '../errors.js';
 import { assignIds, reviveRetired } from '../template/diff.js';
+import { findByPath, pathKey, pathOf, walk } from '../template/paths.js';
 import { parseOutlineOrThrow } from '../template/parse.js';
 import { printOutline } from '../template/print.js';
 import type { Change, Diagnostic, Revised, Template } from '../template/types.js';
+import { themeCounts } from './status.js';
 import { TEMPLATE_FILE, type DB } from './db.js';
 import { writeFileAtomic } from './files.js';
 import { currentRevision, recordRevision, retiredPaths, themeIdAllocator } from './template.js';
@@ -16,11 +18,21 @@ export interface RevisionResult {
   template: Template;
 }
 
+/** What the researcher says about coded themes that are gone from a new outline. */
+export interface VanishedThemes {
+  /** Old paths to retire, codings kept in their history. */
+  retire?: string[];
+  /** [old path, new path]: the same theme, renamed or moved by hand; its codings follow. */
+  renamed?: [string, string][];
+}
+
 /**
  * `template set FILE`: the outline becomes the new revision, with ids carried over from the
  * last one (renames and moves keep their theme), and the study's template.txt made equal to it.
+ * A coded theme that disappears is never retired silently: the researcher says whether it was
+ * renamed or moved (its codings follow) or is to be retired.
  */
-export function setTemplate(db: DB, studyDir: string, text: string, file: string, author: string, reason?: string): RevisionResult {
+export function setTemplate(db: DB, studyDir: string, text: string, file: string, author: string, reason?: string, said: VanishedThemes = {}): RevisionResult {
   const { template: parsed, warnings } = parseOutlineOrThrow(text, file);
   if (!parsed.roots.length) {
     // Recording it would retire every theme and cut every coding off its theme.
@@ -28,7 +40,15 @@ export function setTemplate(db: DB, studyDir: string, text: string, file: string
   }
   const result = db.transaction(() => {
     const prev = currentRevision(db);
-    const { template, changes } = reviveRetired(assignIds(parsed, prev?.template ?? null, themeIdAllocator(db)), retiredPaths(db));
+    const same = new Map<string, string>();
+    for (const [from, to] of said.renamed ?? []) {
+      if (!prev) throw new UserError(`--renamed "${from}; ${to}": there is no earlier template`);
+      const old = findByPath(prev.template, from);
+      const node = findByPath(parsed, to, { file });
+      same.set(pathKey([...walk(parsed)].find((e) => e.node === node)!.path), old.id);
+    }
+    const { template, changes } = reviveRetired(assignIds(parsed, prev?.template ?? null, themeIdAllocator(db), same), retiredPaths(db));
+    if (prev) checkVanished(db, prev.template, changes, said.retire ?? [], file);
     if (prev && changes.length === 0) {
       writeFileAtomic(join(studyDir, TEMPLATE_FILE), text);
       return { rev: null, changes, warnings, template };
@@ -40,6 +60,26 @@ export function setTemplate(db: DB, studyDir: string, text: string, file: string
     return { rev, changes, warnings, template };
   })();
   return result;
+}
+
+/** Refuses to retire coded themes the researcher has not named, listing them with their counts. */
+function checkVanished(db: DB, prev: Template, changes: Change[], retire: string[], file: string): void {
+  const told = new Set(retire.map((p) => findByPath(prev, p).id));
+  const removed = new Map(changes.filter((c): c is Extract<Change, { kind: 'removed' }> => c.kind === 'removed').map((c) => [c.id, c]));
+  for (const id of told) {
+    if (!removed.has(id)) throw new UserError(`--retire "${pathOf(prev, id)}": that theme is still in the outline`, file);
+  }
+  const counts = new Map(themeCounts(db, prev).map((c) => [c.id, c.direct]));
+  const silent = [...removed.values()].filter((c) => (counts.get(c.id) ?? 0) > 0 && !told.has(c.id));
+  if (!silent.length) return;
+  const list = silent.map((c) => `  ${c.path}: ${counts.get(c.id)} coded passage${counts.get(c.id) === 1 ? '' : 's'}`).join('\n');
+  throw new UserError(
+    `these coded themes are gone from the outline, and their codings would be cut off:\n${list}\n` +
+      'Nothing was recorded. For each, say what happened:\n' +
+      '  renamed or moved by hand (its codings follow):  --renamed "OLD PATH; NEW PATH"\n' +
+      '  retired (codings kept in its history):          --retire "OLD PATH"',
+    file,
+  );
 }
 
 /** A revision operation (rename, move, merge, split, retire, add) on the current template. */

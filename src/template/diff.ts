@@ -24,6 +24,8 @@ export function assignIds(
   fresh: Template,
   prev: Template | null,
   newId: () => string,
+  /** The researcher's word: the new theme at this pathKey is this old theme (renamed or moved by hand). */
+  same: ReadonlyMap<string, string> = new Map(),
 ): { template: Template; changes: Change[] } {
   const template = cloneTemplate(fresh);
   const next = [...walk(template)];
@@ -108,6 +110,10 @@ export function assignIds(
     return n;
   };
 
+  for (const e of next) {
+    const oldId = same.get(pathKey(e.path));
+    if (oldId && oldById.has(oldId) && !used.has(oldId)) take(e, oldId);
+  }
   for (;;) {
     sameParentSameName();
     if (uniqueName() > 0) continue;

@@ -172,7 +172,7 @@ describe('template set', () => {
     const counts = () => JSON.parse(trellis(['template', 'show', '--json'], dir).stdout);
     const before = counts();
     write(dir, 'less.txt', OUTLINE.replace('  Allergies\n', ''));
-    expect(trellis(['template', 'set', 'less.txt'], dir).status).toBe(0);
+    expect(trellis(['template', 'set', 'less.txt', '--retire', 'Patient safety > Allergies'], dir).status).toBe(0);
     expect(counts().themes[1].children).toHaveLength(0);
     const r = trellis(['template', 'set', 'outline.txt', '--json'], dir);
     expect(r.status, r.stderr).toBe(0);
@@ -296,5 +296,58 @@ describe('damaged study files', () => {
     expect(out.ok).toBe(false);
     expect(out.problems.length).toBeGreaterThan(0);
     expect(r.stderr).toMatch(/the study is damaged/);
+  });
+});
+
+describe('coded themes never vanish silently from an outline', () => {
+  const EDITED = OUTLINE.replace('  Staffing levels\n', '').replace('  Allergies\n', '  Allergies\n  Staff on shift\n');
+  it('template set stops, lists the coded themes that disappeared with their counts, and changes nothing', () => {
+    const dir = codedStudy();
+    const before = snapshot(dir);
+    // "Staffing levels" renamed and moved in one edit: no rule can tell it from a new theme.
+    write(dir, 'edited.txt', EDITED);
+    const r = trellis(['template', 'set', 'edited.txt'], dir);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toMatch(/these coded themes are gone from the outline/);
+    expect(r.stderr).toMatch(/Workload > Staffing levels: 1 coded passage\n/);
+    expect(r.stderr).toMatch(/--renamed "OLD PATH; NEW PATH"/);
+    expect(snapshot(dir)).toBe(before);
+  });
+
+  it('--renamed keeps the codings with the theme (rename and move by hand), --retire retires it', () => {
+    const dir = codedStudy();
+    const ids = JSON.parse(trellis(['template', 'show', '--json'], dir).stdout);
+    const staffing = ids.themes[0].children[0];
+    write(dir, 'edited.txt', EDITED);
+    const r = trellis(['template', 'set', 'edited.txt', '--renamed', 'Workload > Staffing levels; Staff on shift', '--json'], dir);
+    expect(r.status, r.stderr).toBe(0);
+    const kinds = JSON.parse(r.stdout).changes.map((c: { kind: string; id: string }) => `${c.kind} ${c.id}`);
+    expect(kinds).toEqual([`moved ${staffing.id}`]);
+    const after = JSON.parse(trellis(['template', 'show', '--json'], dir).stdout);
+    expect(after.themes[1].children[1]).toMatchObject({ id: staffing.id, name: 'Staff on shift', passages: 1 });
+
+    write(dir, 'fewer.txt', EDITED.replace('  Staff on shift\n', ''));
+    const refused = trellis(['template', 'set', 'fewer.txt', '--retire', 'Patient safety'], dir);
+    expect(refused.status).toBe(1);
+    expect(refused.stderr).toMatch(/--retire "Patient safety": that theme is still in the outline/);
+    const retired = trellis(['template', 'set', 'fewer.txt', '--retire', 'Patient safety > Staff on shift', '--reason', 'folded into workload'], dir);
+    expect(retired.status, retired.stderr).toBe(0);
+    expect(retired.stdout).toMatch(/removed +Patient safety > Staff on shift/);
+  });
+
+  it('move, merge, split and retire need a reason', () => {
+    const dir = codedStudy();
+    const before = snapshot(dir);
+    for (const cmd of [
+      ['move', 'Patient safety > Allergies', '--top'],
+      ['merge', 'Workload > +Risk', 'Workload > Staffing levels'],
+      ['split', 'Workload > +Risk', '--into', 'A; B'],
+      ['retire', 'Workload > +Risk'],
+    ]) {
+      const r = trellis(['template', ...cmd], dir);
+      expect(r.status).toBe(1);
+      expect(r.stderr).toMatch(new RegExp(`template ${cmd[0]} needs --reason`));
+    }
+    expect(snapshot(dir)).toBe(before);
   });
 });

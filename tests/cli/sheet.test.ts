@@ -98,7 +98,11 @@ describe('template revisions through the CLI', () => {
     expect(workload.children.map((c: { name: string }) => c.name)).toContain('Being interrupted');
     expect(workload.children.find((c: { name: string }) => c.name === 'Being interrupted').passages).toBe(2);
 
-    const m = trellis(['template', 'merge', 'Being interrupted', 'Workload > Staffing levels'], dir);
+    // A merge changes what codings mean: it needs its reason for the audit trail.
+    const bare = trellis(['template', 'merge', 'Being interrupted', 'Workload > Staffing levels'], dir);
+    expect(bare.status).toBe(1);
+    expect(bare.stderr).toMatch(/template merge needs --reason/);
+    const m = trellis(['template', 'merge', 'Being interrupted', 'Workload > Staffing levels', '--reason', 'one theme'], dir);
     expect(m.status, m.stderr).toBe(0);
     show = JSON.parse(trellis(['template', 'show', '--json'], dir).stdout);
     const staffing = show.themes[0].children.find((c: { name: string }) => c.name === 'Staffing levels');
