@@ -6,7 +6,7 @@ import { currentTemplate } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { walk } from '../template/paths.js';
 import { coderOf } from './decide.js';
-import { collect, positiveInt, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { collect, positiveInt, studyCommand, withStudy, type StudyOpts, coderName } from './common.js';
 import { wrap } from './marks.js';
 import { plural, printJson, say, table } from './output.js';
 
@@ -84,7 +84,7 @@ Examples:
     .requiredOption('--name <name>', 'the new theme name')
     .option('--parent <path>', 'the parent theme (default: a top-level theme)')
     .option('--note <text>', 'why, kept in the log and the revision history')
-    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)', coderName)
     .addHelpText('after', '\nExample:\n  trellis promote 7 --name "Paper workarounds" --coder priya --note "informal printed lists"\n\nThe passages are not coded: they become suggestions of the new theme, for review.')
     .action(async (cluster: string, opts: StudyOpts & { name: string; parent?: string; note?: string; coder?: string }) => {
       const coder = coderOf(opts);
@@ -100,7 +100,7 @@ Examples:
   studyCommand(program, 'dismiss', 'set a cluster aside as noise or out of scope (logged; it does not come back unless new material joins it)')
     .argument('<cluster>', 'the cluster id (from trellis discover)')
     .requiredOption('--note <text>', 'why it was dismissed')
-    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)', coderName)
     .addHelpText('after', '\nExample:\n  trellis dismiss 8 --note "car park and canteen small talk" --coder priya')
     .action(async (cluster: string, opts: StudyOpts & { note: string; coder?: string }) => {
       const coder = coderOf(opts);

@@ -4,7 +4,7 @@ import { readInputFile } from '../ingest/limits.js';
 import { parseSheet, writeSheet } from '../sheet/sheet.js';
 import { importSheet, sheetRows } from '../study/sheet.js';
 import { requireTranscripts } from '../study/transcripts.js';
-import { checkOut, collect, forceOption, withStudy, writeOut, type OutputOpts, type StudyOpts } from './common.js';
+import { checkOut, collect, forceOption, withStudy, writeOut, type OutputOpts, type StudyOpts, coderName } from './common.js';
 import { plural, printJson, say } from './output.js';
 
 export function registerSheet(program: Command): void {
@@ -24,7 +24,7 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     .description('write a coding sheet (CSV, UTF-8) with one row a passage')
     .requiredOption('--out <file>', 'the CSV file to write')
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
-    .option('--coder <name>', "fill the themes column with this coder's current codings")
+    .option('--coder <name>', "fill the themes column with this coder's current codings", coderName)
     .option('--study <dir>', 'the study folder', '.')
     .option('--json', 'machine-readable output on stdout')
     .addHelpText('after', '\nExamples:\n  trellis sheet export --transcript t01 --transcript t02 --out batch1.csv\n  trellis sheet export --coder alex --out alex-codes.csv')
@@ -42,7 +42,7 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
   sheet
     .command('import <file>')
     .description("read a coded sheet's themes column: it becomes this coder's codings of those passages")
-    .requiredOption('--coder <name>', 'who coded the sheet')
+    .requiredOption('--coder <name>', 'who coded the sheet', coderName)
     .option('--study <dir>', 'the study folder', '.')
     .option('--json', 'machine-readable output on stdout')
     .addHelpText('after', '\nExample:\n  trellis sheet import batch1.csv --coder alex')
