@@ -59,3 +59,15 @@ describe('template set', () => {
     expect(add.stderr).toContain('outline.txt: not valid UTF-8; read as Windows-1252 — check accented characters');
   });
 });
+
+describe('file names in other scripts', () => {
+  it('give distinct transcripts, named in their own script', () => {
+    const dir = freshStudy();
+    const files = ['中文.txt', 'Ελληνικά.txt', 'интервью.txt'];
+    for (const f of files) write(dir, f, 'Nurse: the handover ran late.\nDoctor: it often does.\n');
+    const r = trellis(['add', ...files, '--json'], dir);
+    expect(r.status).toBe(0);
+    const added = (JSON.parse(r.stdout) as { added: { name: string }[] }).added.map((a) => a.name);
+    expect(added).toEqual(['中文', 'Ελληνικά', 'интервью']);
+  });
+});
