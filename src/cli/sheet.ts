@@ -5,7 +5,7 @@ import { parseSheet, writeSheet } from '../sheet/sheet.js';
 import { importSheet, sheetRows } from '../study/sheet.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { checkOut, collect, forceOption, withStudy, writeOut, type OutputOpts, type StudyOpts, coderName } from './common.js';
-import { plural, printJson, say } from './output.js';
+import { plural, printJson, say, warn } from './output.js';
 
 export function registerSheet(program: Command): void {
   const sheet = program
@@ -48,7 +48,9 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     .addHelpText('after', '\nExample:\n  trellis sheet import batch1.csv --coder alex')
     .action(async (file: string, opts: StudyOpts & { coder: string }) => {
       const bytes = readInputFile(file);
-      const rows = parseSheet(decodeText(bytes, file).text, file);
+      const decoded = decodeText(bytes, file);
+      for (const w of decoded.warnings) warn(w);
+      const rows = parseSheet(decoded.text, file);
       const report = await withStudy(opts, (db) => importSheet(db, rows, file, opts.coder));
       if (opts.json) printJson(report);
       else

@@ -1,4 +1,7 @@
 // Input that used to be misread with exit 0 (issue 16, item 9): each case now warns or is refused.
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
 import { freshStudy, snapshot, trellis, write } from './run.js';
 
@@ -69,5 +72,42 @@ describe('file names in other scripts', () => {
     expect(r.status).toBe(0);
     const added = (JSON.parse(r.stdout) as { added: { name: string }[] }).added.map((a) => a.name);
     expect(added).toEqual(['中文', 'Ελληνικά', 'интервью']);
+  });
+});
+
+describe('sheet import', () => {
+  it('reads a sheet re-saved with semicolons or as UTF-16 tab-separated text like the one written', () => {
+    const dir = freshStudy();
+    write(dir, 'template.txt', OUTLINE);
+    expect(trellis(['template', 'set', 'template.txt'], dir).status).toBe(0);
+    write(dir, 't01-mina.txt', 'Mina: We were two nurses short; again.\nOmar: The board said "=full".\nMina: Bed four needs a review.\n');
+    expect(trellis(['add', 't01-mina.txt'], dir).status).toBe(0);
+    expect(trellis(['sheet', 'export', '--out', 'blank.csv'], dir).status).toBe(0);
+    const lines = readFileSync(join(dir, 'blank.csv'), 'utf8').replace(/^\ufeff/, '').trimEnd().split('\r\n');
+    const rows = lines.slice(1).map((l) => (parse(l) as string[][])[0]!);
+    rows[0]![6] = 'Workload > Staffing levels; Patient safety';
+    rows[2]![6] = 'Patient safety';
+    const save = (sep: string) => {
+      const cell = (v: string) => (/["\r\n;,\t]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v);
+      return [lines[0]!.split(',').join(sep), ...rows.map((r) => r.map(cell).join(sep))].join('\r\n') + '\r\n';
+    };
+    write(dir, 'semi.csv', save(';'));
+    write(dir, 'unicode.txt', Buffer.from('\ufeff' + save('\t'), 'utf16le'));
+    const semi = trellis(['sheet', 'import', 'semi.csv', '--coder', 'ana', '--json'], dir);
+    expect(semi.status, semi.stderr).toBe(0);
+    expect(JSON.parse(semi.stdout)).toMatchObject({ coded: 2, added: 3, removed: 0 });
+    const tab = trellis(['sheet', 'import', 'unicode.txt', '--coder', 'ben', '--json'], dir);
+    expect(tab.status, tab.stderr).toBe(0);
+    expect(JSON.parse(tab.stdout)).toMatchObject({ coded: 2, added: 3, removed: 0 });
+  });
+
+  it('refuses a sheet whose header it cannot split, saying what it found and how to save it, study unchanged', () => {
+    const dir = freshStudy();
+    write(dir, 'pipe.csv', 'passage_id|themes\nt01:1|Workload\n');
+    const before = snapshot(dir);
+    const r = trellis(['sheet', 'import', 'pipe.csv', '--coder', 'ana'], dir);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toContain('pipe.csv:1: the coding sheet has no "passage_id" column: the header line, split at commas, gives "passage_id|themes"; save the sheet');
+    expect(snapshot(dir)).toBe(before);
   });
 });
