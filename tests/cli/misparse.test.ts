@@ -111,3 +111,25 @@ describe('sheet import', () => {
     expect(snapshot(dir)).toBe(before);
   });
 });
+
+describe('add', () => {
+  it("prints the readers' warnings with file and line, and refuses a bad SRT cue number with the study unchanged", () => {
+    const dir = freshStudy();
+    write(dir, 'back.vtt', 'WEBVTT\n\n00:10.000 --> 00:12.000\n<v Mina>Handover starts.\n\n00:05.000 --> 00:07.000\n<v Omar Earlier?\n');
+    write(dir, 'stamps.txt', '[00:01:00] Mina: Bed two is settled.\n[99:99:99] Omar: And bed three?\n');
+    write(dir, 'odd.txt', Buffer.concat([Buffer.from('\ufeffMina: Bed two.\nOmar: Fine.\n', 'utf16le'), Buffer.from([0x41])]));
+    const r = trellis(['add', 'back.vtt', 'stamps.txt', 'odd.txt'], dir);
+    expect(r.status, r.stderr).toBe(0);
+    expect(r.stderr).toContain('warning: back.vtt:6: cue timing runs backwards: it starts at 00:00:05.000, before a cue above it (00:00:10.000)');
+    expect(r.stderr).toContain('warning: back.vtt:7: voice tag "<v Omar Earlier?" is not closed with ">"');
+    expect(r.stderr).toContain('warning: stamps.txt:2: impossible timestamp "[99:99:99]"');
+    expect(r.stderr).toContain('warning: odd.txt: UTF-16 text with an odd number of bytes');
+
+    write(dir, 'num.srt', '1\n00:00:01,000 --> 00:00:02,000\nMINA: First\n\nII\n00:00:03,000 --> 00:00:04,000\nOMAR: Second\n');
+    const before = snapshot(dir);
+    const bad = trellis(['add', 'num.srt'], dir);
+    expect(bad.status).toBe(1);
+    expect(bad.stderr).toContain('num.srt:5: cue number "II" is not a number');
+    expect(snapshot(dir)).toBe(before);
+  });
+});
