@@ -19,7 +19,20 @@ export function parseSrt(source: string, file: string): CueParse {
     const t = hasIndex ? 1 : 0;
     const timing = block[t];
     if (timing && timing.text.includes('-->')) {
-      cues.push(readCue(timing, block.slice(t + 1), file));
+      // A timing line inside the text is the next cue, its blank line missing: read as text it would
+      // turn the timing into words.
+      let at = t;
+      while (at < block.length) {
+        let next = block.findIndex((l, k) => k > at && TIMING.test(l.text));
+        if (next === -1) next = block.length;
+        let textEnd = next;
+        if (next < block.length) {
+          if (next - 1 > at && INDEX.test(block[next - 1]!.text)) textEnd = next - 1;
+          warnings.push(`${file}:${block[textEnd]!.no}: no blank line before this cue; read as a new cue`);
+        }
+        cues.push(readCue(block[at]!, block.slice(at + 1, textEnd), file));
+        at = next;
+      }
     } else if (hasIndex) {
       const where = timing ?? block[0]!;
       throw new UserError(

@@ -79,4 +79,13 @@ describe('.srt', () => {
       'back.srt:6: cue timing runs backwards: it starts at 00:00:01.000, before a cue above it (00:00:05.000); kept in the order written',
     ]);
   });
+
+  test('a cue with no blank line before it is read as a cue, not its number and timing as text', async () => {
+    const t = await srt('1\n00:00:01,000 --> 00:00:02,000\nMINA: First\n2\n00:00:03,000 --> 00:00:04,000\nOMAR: Second --> third\n', 'tight.srt');
+    expect(t.turns.map((x) => [x.speaker, x.start, x.end, x.text])).toEqual([
+      ['MINA', 1, 2, 'First'],
+      ['OMAR', 3, 4, 'Second --> third'],
+    ]);
+    expect(t.warnings).toEqual(['tight.srt:4: no blank line before this cue; read as a new cue']);
+  });
 });
