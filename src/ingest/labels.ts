@@ -68,7 +68,7 @@ export function parseLabel(line: string): LabelMatch | null {
   }
 
   const header = line.length <= 80 ? readHeaderLine(s, i) : null;
-  if (header) return { speaker: header.name, start: start ?? header.seconds, contentStart: line.length };
+  if (header) return withBad({ speaker: header.name, start: start ?? header.seconds, contentStart: line.length }, bad ?? header.bad);
 
   if ((start !== null || bad !== undefined) && !bareLead) return withBad({ speaker: null, start, contentStart: i }, bad);
   return null;
@@ -186,13 +186,16 @@ function readLabel(s: string, i: number): Label | null {
 }
 
 /** A line holding only a label and a timestamp, the words following on the next lines. */
-function readHeaderLine(s: string, i: number): { name: string; seconds: number } | null {
+function readHeaderLine(s: string, i: number): { name: string; seconds: number | null; bad?: string } | null {
   const m = /^(\S(?:[^\t:]{0,38}\S)?)[ \t]+(\[[^\]]{1,14}\]|\([^)]{1,14}\)|\d{1,2}:\d{2}(?::\d{2})?(?:[.,]\d{1,3})?)[ \t]*$/.exec(s.slice(i));
   if (!m) return null;
   const name = m[1]!;
   const stamp = m[2]!;
-  const seconds = parseClock(/^[[(]/.test(stamp) ? stamp.slice(1, -1).trim() : stamp);
-  if (seconds === null || !isLabelName(name)) return null;
+  const bracketed = /^[[(]/.test(stamp);
+  const inside = bracketed ? stamp.slice(1, -1).trim() : stamp;
+  const seconds = parseClock(inside);
+  if (!isLabelName(name)) return null;
+  if (seconds === null) return bracketed && CLOCK_SHAPED.test(inside) ? { name, seconds: null, bad: stamp } : null;
   return { name, seconds };
 }
 
