@@ -47,9 +47,19 @@ export async function withStudy<T>(opts: StudyOpts, work: (db: DB) => T | Promis
   }
 }
 
+/**
+ * The one parser for every --coder option: the name goes into the audit trail, so an empty or
+ * blank name is refused (exit 1) rather than recorded as nobody. Surrounding spaces are dropped.
+ */
+export function coderName(v: string): string {
+  const name = v.trim();
+  if (name === '') throw new InvalidArgumentError('the coder\'s name is empty: give a name, e.g. --coder alex');
+  return name;
+}
+
 /** The coder's name when none is given: $TRELLIS_CODER, else the login name. */
 export function defaultCoder(): string {
-  return process.env.TRELLIS_CODER || safeUser();
+  return process.env.TRELLIS_CODER?.trim() || safeUser();
 }
 
 function safeUser(): string {

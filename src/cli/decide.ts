@@ -4,7 +4,7 @@ import { acceptAllAbove, decide, markNothingToCode, undo, type Action, type Deci
 import { currentTemplate } from '../study/template.js';
 import { pathOf } from '../template/paths.js';
 import type { Template } from '../template/types.js';
-import { probability, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { probability, studyCommand, withStudy, type StudyOpts, coderName } from './common.js';
 import { plural, printJson, say } from './output.js';
 
 interface DecideOpts extends StudyOpts {
@@ -16,7 +16,7 @@ interface DecideOpts extends StudyOpts {
 
 /** The coder must be named for the audit trail: --coder, or $TRELLIS_CODER. */
 export function coderOf(opts: { coder?: string }): string {
-  const c = opts.coder ?? process.env.TRELLIS_CODER;
+  const c = (opts.coder ?? process.env.TRELLIS_CODER)?.trim();
   if (!c) throw new UserError('say who decides: --coder NAME (or set TRELLIS_CODER)');
   return c;
 }
@@ -60,7 +60,7 @@ export function registerDecide(program: Command): void {
     .argument('[action]', 'accept, reject or defer')
     .option('--theme <path>', 'code this theme instead (a re-code); with --all-above, the theme to accept')
     .option('--note <text>', 'a note kept with the decision')
-    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)', coderName)
     .option('--all-above <confidence>', "accept every current suggestion of --theme at or above this confidence (logged as bulk)", probability('--all-above'))
     .addHelpText(
       'after',
@@ -121,7 +121,7 @@ Examples:
 
   studyCommand(program, 'undo', "undo a decision (default: the coder's latest): a compensating entry in the log")
     .argument('[decision-id]', 'the decision to undo')
-    .option('--coder <name>', 'who undoes it (default: $TRELLIS_CODER)')
+    .option('--coder <name>', 'who undoes it (default: $TRELLIS_CODER)', coderName)
     .option('--note <text>', 'why')
     .addHelpText('after', '\nExamples:\n  trellis undo --coder alex\n  trellis undo 57 --coder alex --note "wrong passage"')
     .action(async (id: string | undefined, opts: StudyOpts & { coder?: string; note?: string }) => {

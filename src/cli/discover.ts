@@ -6,7 +6,7 @@ import { currentTemplate } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { walk } from '../template/paths.js';
 import { coderOf } from './decide.js';
-import { collect, positiveInt, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { collect, positiveInt, studyCommand, withStudy, type StudyOpts, coderName } from './common.js';
 import { wrap } from './marks.js';
 import { plural, printJson, say, table } from './output.js';
 
@@ -86,7 +86,7 @@ Examples:
     .option('--parent <path>', 'with --name: the parent theme (default: a top-level theme)')
     .option('--into <path>', 'an existing theme instead: the passages become suggestions of it')
     .option('--note <text>', 'why, kept in the log and the revision history')
-    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)', coderName)
     .addHelpText(
       'after',
       `
@@ -117,7 +117,7 @@ Examples:
   studyCommand(program, 'dismiss', 'set a cluster aside as noise or out of scope (logged; it does not come back unless new material joins it)')
     .argument('<cluster>', 'the cluster id as printed by trellis discover (like c3f9a1)')
     .requiredOption('--note <text>', 'why it was dismissed')
-    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)', coderName)
     .addHelpText('after', '\nExample:\n  trellis dismiss c5d0e4 --note "car park and canteen small talk" --coder priya')
     .action(async (cluster: string, opts: StudyOpts & { note: string; coder?: string }) => {
       const coder = coderOf(opts);

@@ -25,7 +25,7 @@ import {
 import { requireTranscripts } from '../study/transcripts.js';
 import { currentTemplate } from '../study/template.js';
 import { walk } from '../template/paths.js';
-import { collect, studyCommand, type StudyOpts } from './common.js';
+import { collect, studyCommand, type StudyOpts, coderName } from './common.js';
 import { coderOf, describeDecision } from './decide.js';
 import { useColour } from './marks.js';
 import type { Snippets } from './reasons.js';
@@ -50,7 +50,7 @@ export function registerReview(program: Command): void {
   // Shared by every study command, but an interactive screen has no JSON to give.
   cmd.options.find((o) => o.long === '--json')?.hideHelp();
   cmd
-    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)')
+    .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)', coderName)
     .option('--order <order>', `${ORDERS.join(', ')}`, 'transcript')
     .option('--theme <path>', 'only passages with a candidate of this theme or one of its sub-themes')
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)

@@ -5,8 +5,8 @@ import { DATA_CAUTION } from '../report/cautions.js';
 import { parseSheet, writeSheet } from '../sheet/sheet.js';
 import { importSheet, sheetRows } from '../study/sheet.js';
 import { requireTranscripts } from '../study/transcripts.js';
-import { checkOut, collect, forceOption, withStudy, writeOut, type OutputOpts, type StudyOpts } from './common.js';
-import { plural, printJson, say } from './output.js';
+import { checkOut, collect, forceOption, withStudy, writeOut, type OutputOpts, type StudyOpts, coderName } from './common.js';
+import { plural, printJson, say, warn } from './output.js';
 
 export function registerSheet(program: Command): void {
   const sheet = program
@@ -25,7 +25,7 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     .description('write a coding sheet (CSV, UTF-8) with one row a passage')
     .requiredOption('--out <file>', 'the CSV file to write')
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
-    .option('--coder <name>', "fill the themes column with this coder's current codings")
+    .option('--coder <name>', "fill the themes column with this coder's current codings", coderName)
     .option('--study <dir>', 'the study folder', '.')
     .option('--json', 'machine-readable output on stdout')
     .addHelpText('after', '\nExamples:\n  trellis sheet export --transcript t01 --transcript t02 --out batch1.csv\n  trellis sheet export --coder alex --out alex-codes.csv')
@@ -43,7 +43,7 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
   sheet
     .command('import <file>')
     .description("read a coded sheet's themes column: it becomes this coder's codings of those passages")
-    .requiredOption('--coder <name>', 'who coded the sheet')
+    .requiredOption('--coder <name>', 'who coded the sheet', coderName)
     .option('--study <dir>', 'the study folder', '.')
     .option('--json', 'machine-readable output on stdout')
     .addHelpText(
@@ -60,7 +60,9 @@ Example:
     )
     .action(async (file: string, opts: StudyOpts & { coder: string }) => {
       const bytes = readInputFile(file);
-      const rows = parseSheet(decodeText(bytes, file).text, file);
+      const decoded = decodeText(bytes, file);
+      for (const w of decoded.warnings) warn(w);
+      const rows = parseSheet(decoded.text, file);
       const report = await withStudy(opts, (db) => importSheet(db, rows, file, opts.coder));
       if (opts.json) printJson(report);
       else

@@ -12,7 +12,7 @@ import { integrativeCoverage } from '../measure/integrative.js';
 import { themeCounts } from '../study/status.js';
 import { reviseTemplate, setTemplate, type RevisionResult } from '../study/revise.js';
 import { currentRevision, revisionHistory } from '../study/template.js';
-import { defaultCoder, withStudy, type StudyOpts } from './common.js';
+import { defaultCoder, withStudy, type StudyOpts, coderName } from './common.js';
 import { printJson, say, warn } from './output.js';
 
 type Opts = StudyOpts & { reason?: string; coder?: string };
@@ -26,7 +26,7 @@ function withCommon(cmd: Command): Command {
 function revising(cmd: Command): Command {
   return withCommon(cmd)
     .option('--reason <text>', 'why: kept in the revision history (the audit trail)')
-    .option('--coder <name>', 'who made the change', defaultCoder());
+    .option('--coder <name>', 'who made the change', coderName, defaultCoder());
 }
 
 function report(r: RevisionResult, json?: boolean): void {
@@ -69,7 +69,7 @@ Examples:
 
   withCommon(tpl.command('set <file>').description('record FILE as the new template revision (template.txt is kept equal to it)'))
     .option('--reason <text>', 'why: kept in the revision history')
-    .option('--coder <name>', 'who made the change', defaultCoder())
+    .option('--coder <name>', 'who made the change', coderName, defaultCoder())
     .option('--renamed <"old; new">', 'a coded theme gone from the outline is this new one (renamed or moved by hand): its codings follow (repeatable)', (v: string, all: string[] = []) => [...all, v])
     .option('--retire <path>', 'a coded theme gone from the outline is to be retired, its codings kept in its history (repeatable)', (v: string, all: string[] = []) => [...all, v])
     .addHelpText(
@@ -86,7 +86,9 @@ Examples:
     )
     .action(async (file: string, opts: Opts & { renamed?: string[]; retire?: string[] }) => {
       const bytes = readInputFile(file);
-      const text = decodeText(bytes, file).text;
+      const decoded = decodeText(bytes, file);
+      for (const w of decoded.warnings) warn(w); // as add does: a misread encoding must not pass unseen
+      const text = decoded.text;
       const r = await withStudy(opts, (db) => setTemplate(db, resolve(opts.study), text, file, opts.coder!, opts.reason, {
           retire: opts.retire,
           renamed: (opts.renamed ?? []).map((pair) => {

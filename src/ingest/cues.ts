@@ -30,6 +30,42 @@ export interface Cue {
   start: number;
   end: number;
   segments: CueSegment[];
+  /** Line number of the cue's timing line, for warnings. */
+  line: number;
+}
+
+/** More warnings of one kind than this in a file are counted, not listed. */
+const LISTED = 5;
+
+/**
+ * Timings that run backwards are kept in the order written (the words are what matter), but the
+ * user is told, file and line: the W3C WebVTT specification's cue timing rules say a cue's end time
+ * must be greater than its start time, and a cue's start time greater than or equal to the start
+ * times of all cues before it. SubRip cues follow the same order by common practice.
+ */
+export function checkCueTimes(cues: Cue[], file: string, warnings: string[]): void {
+  const backwards: string[] = [];
+  let latest = -Infinity;
+  for (const c of cues) {
+    if (c.end < c.start) {
+      backwards.push(`${file}:${c.line}: cue timing runs backwards: it ends (${clockText(c.end)}) before it starts (${clockText(c.start)})`);
+    }
+    if (c.start < latest) {
+      backwards.push(`${file}:${c.line}: cue timing runs backwards: it starts at ${clockText(c.start)}, before a cue above it (${clockText(latest)}); kept in the order written`);
+    }
+    latest = Math.max(latest, c.start);
+  }
+  warnings.push(...backwards.slice(0, LISTED));
+  if (backwards.length > LISTED) warnings.push(`${file}: ${backwards.length - LISTED} more cue timings run backwards`);
+}
+
+/** Seconds as hh:mm:ss.ttt. */
+function clockText(seconds: number): string {
+  const ms = Math.round(seconds * 1000);
+  const h = Math.floor(ms / 3_600_000);
+  const m = Math.floor((ms % 3_600_000) / 60_000);
+  const s = Math.floor((ms % 60_000) / 1000);
+  return `${String(h).padStart(2, '0')}:${String(m).padStart(2, '0')}:${String(s).padStart(2, '0')}.${String(ms % 1000).padStart(3, '0')}`;
 }
 
 interface Piece {

@@ -40,7 +40,7 @@ export function decodeText(bytes: Uint8Array, file: string): Decoded {
   const guess16 = bom16 ?? guessBomlessUtf16(bytes);
   if (guess16) {
     encoding = guess16 === 'le' ? 'utf-16le' : 'utf-16be';
-    text = decodeUtf16(bytes.subarray(bom16 ? 2 : 0), guess16, file);
+    text = decodeUtf16(bytes.subarray(bom16 ? 2 : 0), guess16, file, warnings);
     if (!bom16) warnings.push(`${file}: no byte order mark; read as ${encoding.toUpperCase()}`);
   } else {
     if (hasNul(bytes)) throw new UserError('looks like a binary file, not text', file);
@@ -67,9 +67,13 @@ export function normaliseText(text: string): string {
   return t.normalize('NFC');
 }
 
-function decodeUtf16(bytes: Uint8Array, order: 'le' | 'be', file: string): string {
+function decodeUtf16(bytes: Uint8Array, order: 'le' | 'be', file: string, warnings: string[]): string {
   let b = bytes;
-  if (b.length % 2 === 1) b = b.subarray(0, b.length - 1);
+  // UTF-16 text is whole 2-byte units; an odd count means the file was cut short or damaged.
+  if (b.length % 2 === 1) {
+    b = b.subarray(0, b.length - 1);
+    warnings.push(`${file}: UTF-16 text with an odd number of bytes (cut short or damaged?); the last byte was dropped`);
+  }
   if (order === 'be') {
     const swapped = Buffer.from(b);
     swapped.swap16();

@@ -12,6 +12,8 @@ export interface LabelMatch {
   start: number | null;
   /** Index in the line where the turn's own words begin. */
   contentStart: number;
+  /** A bracketed timestamp no clock can show ("[99:99:99]"), as written: skipped, so the turn has no time. */
+  badStamp?: string;
 }
 
 const HEAD = 240;
@@ -39,33 +41,42 @@ export function parseLabel(line: string): LabelMatch | null {
   let i = skipSpaces(s, 0);
   let start: number | null = null;
   let bareLead = false;
+  let bad: string | undefined;
 
   const lead = readTimestamp(s, i, true);
   if (lead) {
     start = lead.seconds;
     bareLead = lead.bare;
+    bad = lead.bad;
     i = skipSeparator(s, lead.end);
   }
 
   const lab = readLabel(s, i);
   if (lab) {
     let j = skipSpaces(s, lab.end);
+    bad ??= lab.bad;
     if (start === null) start = lab.start;
-    if (start === null) {
+    if (start === null && bad === undefined) {
       const after = readTimestamp(s, j, false);
       if (after) {
         start = after.seconds;
+        bad = after.bad;
         j = skipSeparator(s, after.end);
       }
     }
-    return { speaker: lab.name, start, contentStart: j };
+    return withBad({ speaker: lab.name, start, contentStart: j }, bad);
   }
 
   const header = line.length <= 80 ? readHeaderLine(s, i) : null;
-  if (header) return { speaker: header.name, start: start ?? header.seconds, contentStart: line.length };
+  if (header) return withBad({ speaker: header.name, start: start ?? header.seconds, contentStart: line.length }, bad ?? header.bad);
 
-  if (start !== null && !bareLead) return { speaker: null, start, contentStart: i };
+  if ((start !== null || bad !== undefined) && !bareLead) return withBad({ speaker: null, start, contentStart: i }, bad);
   return null;
+}
+
+function withBad(m: LabelMatch, bad: string | undefined): LabelMatch {
+  if (bad !== undefined) m.badStamp = bad;
+  return m;
 }
 
 /** Parses "hh:mm:ss", "mm:ss" (optionally with ".ttt" or ",ttt") to seconds; null if malformed. */
@@ -100,10 +111,15 @@ export function isLabelName(name: string): boolean {
 }
 
 interface Stamp {
-  seconds: number;
+  /** null for an impossible clock ("[99:99:99]"), which `bad` then holds as written. */
+  seconds: number | null;
   end: number;
   bare: boolean;
+  bad?: string;
 }
+
+/** Shaped like a clock, whatever the numbers: "99:99:99", "12:75", "1:02:60.5" (not a ratio such as "1:2"). */
+const CLOCK_SHAPED = /^\d{1,3}:\d{2}(?::\d{2})?(?:[.,]\d{1,3})?$/;
 
 /** "[..]" or "(..)" around a clock, or a bare clock when `allowBare`. */
 function readTimestamp(s: string, i: number, allowBare: boolean): Stamp | null {
@@ -111,8 +127,12 @@ function readTimestamp(s: string, i: number, allowBare: boolean): Stamp | null {
   if (open === '[' || open === '(') {
     const close = s.indexOf(open === '[' ? ']' : ')', i + 1);
     if (close === -1 || close - i > 16) return null;
-    const seconds = parseClock(s.slice(i + 1, close).trim());
-    return seconds === null ? null : { seconds, end: close + 1, bare: false };
+    const inside = s.slice(i + 1, close).trim();
+    const seconds = parseClock(inside);
+    if (seconds !== null) return { seconds, end: close + 1, bare: false };
+    // A bracketed clock with impossible numbers is still a timestamp: reading it as words would
+    // merge the line into the turn before, so it is skipped and reported instead.
+    return CLOCK_SHAPED.test(inside) ? { seconds: null, end: close + 1, bare: false, bad: s.slice(i, close + 1) } : null;
   }
   if (!allowBare) return null;
   const m = /^\d{1,2}:\d{2}(?::\d{2})?(?:[.,]\d{1,3})?/.exec(s.slice(i, i + 16));
@@ -127,6 +147,7 @@ interface Label {
   name: string;
   start: number | null;
   end: number;
+  bad?: string;
 }
 
 /** "Name:", "Name [ts]:", "**Name:**", "**Name**:" followed by whitespace or the end of the line. */
@@ -144,10 +165,12 @@ function readLabel(s: string, i: number): Label | null {
   const name = s.slice(p, j).trim();
   let k = j;
   let start: number | null = null;
+  let bad: string | undefined;
   if (s[k] === '[' || s[k] === '(') {
     const t = readTimestamp(s, k, false);
     if (!t) return null;
     start = t.seconds;
+    bad = t.bad;
     k = skipSpaces(s, t.end);
   }
   if (bold) {
@@ -159,17 +182,20 @@ function readLabel(s: string, i: number): Label | null {
   }
   if (k < s.length && !/\s/.test(s[k]!)) return null; // "http://", "10:30"
   if (!isLabelName(name)) return null;
-  return { name, start, end: k };
+  return bad === undefined ? { name, start, end: k } : { name, start, end: k, bad };
 }
 
 /** A line holding only a label and a timestamp, the words following on the next lines. */
-function readHeaderLine(s: string, i: number): { name: string; seconds: number } | null {
+function readHeaderLine(s: string, i: number): { name: string; seconds: number | null; bad?: string } | null {
   const m = /^(\S(?:[^\t:]{0,38}\S)?)[ \t]+(\[[^\]]{1,14}\]|\([^)]{1,14}\)|\d{1,2}:\d{2}(?::\d{2})?(?:[.,]\d{1,3})?)[ \t]*$/.exec(s.slice(i));
   if (!m) return null;
   const name = m[1]!;
   const stamp = m[2]!;
-  const seconds = parseClock(/^[[(]/.test(stamp) ? stamp.slice(1, -1).trim() : stamp);
-  if (seconds === null || !isLabelName(name)) return null;
+  const bracketed = /^[[(]/.test(stamp);
+  const inside = bracketed ? stamp.slice(1, -1).trim() : stamp;
+  const seconds = parseClock(inside);
+  if (!isLabelName(name)) return null;
+  if (seconds === null) return bracketed && CLOCK_SHAPED.test(inside) ? { name, seconds: null, bad: stamp } : null;
   return { name, seconds };
 }
 

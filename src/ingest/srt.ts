@@ -1,7 +1,7 @@
 /** SubRip (.srt): numbered blocks, a "00:00:20,000 --> 00:00:24,400" timing line, then text. */
 import { UserError } from '../errors.js';
 import { assertCodesClosed } from './codes.js';
-import { cuesToTurns, looksLikeTiming, type Cue, type CueLine, type CueParse } from './cues.js';
+import { checkCueTimes, cuesToTurns, looksLikeTiming, type Cue, type CueLine, type CueParse } from './cues.js';
 import { splitLines, toBlocks, type SourceLine } from './lines.js';
 import { finishTurns } from './turns.js';
 
@@ -19,13 +19,33 @@ export function parseSrt(source: string, file: string): CueParse {
     const t = hasIndex ? 1 : 0;
     const timing = block[t];
     if (timing && timing.text.includes('-->')) {
-      cues.push(readCue(timing, block.slice(t + 1), file));
+      // A timing line inside the text is the next cue, its blank line missing: read as text it would
+      // turn the timing into words.
+      let at = t;
+      while (at < block.length) {
+        let next = block.findIndex((l, k) => k > at && TIMING.test(l.text));
+        if (next === -1) next = block.length;
+        let textEnd = next;
+        if (next < block.length) {
+          if (next - 1 > at && INDEX.test(block[next - 1]!.text)) textEnd = next - 1;
+          warnings.push(`${file}:${block[textEnd]!.no}: no blank line before this cue; read as a new cue`);
+        }
+        cues.push(readCue(block[at]!, block.slice(at + 1, textEnd), file));
+        at = next;
+      }
     } else if (hasIndex) {
       const where = timing ?? block[0]!;
       throw new UserError(
         `cue ${block[0]!.text.trim()} has no timing line: expected "00:00:20,000 --> 00:00:24,400" on the line after the number`,
         file,
         where.no,
+      );
+    } else if (block.length > 1 && block[1]!.text.includes('-->')) {
+      // A timing line after something that is not a cue number: reading on would store the timing as text.
+      throw new UserError(
+        `cue number "${block[0]!.text.trim().slice(0, 40)}" is not a number: a SubRip cue starts with its number (1, 2, 3, ...) alone on the line before its timing`,
+        file,
+        block[0]!.no,
       );
     } else if (looksLikeTiming(block[0]!.text)) {
       throw brokenTiming(block[0]!, file);
@@ -38,6 +58,7 @@ export function parseSrt(source: string, file: string): CueParse {
     }
   }
   if (cues.length === 0) throw new UserError('no cues found: the file holds no subtitles', file);
+  checkCueTimes(cues, file, warnings);
   const turns = finishTurns(cuesToTurns(cues), warnings, file);
   return { turns, labelled: turns.some((x) => x.speaker !== null), warnings };
 }
@@ -47,7 +68,7 @@ function readCue(timing: SourceLine, text: SourceLine[], file: string): Cue {
   if (!m) throw brokenTiming(timing, file);
   const start = seconds(m[1]!, m[2]!, m[3]!, m[4]!);
   const end = seconds(m[5]!, m[6]!, m[7]!, m[8]!);
-  return { start, end, segments: [{ voice: null, lines: cleanLines(text) }] };
+  return { start, end, segments: [{ voice: null, lines: cleanLines(text) }], line: timing.no };
 }
 
 function brokenTiming(line: SourceLine, file: string): UserError {

@@ -45,9 +45,22 @@ export function parseText(source: string, format: TextFormat, file: string): Tex
   const rows = splitLines(source).map((line) => classify(line, format === 'md'));
   const labelled = looksLabelled(rows);
   const warnings: string[] = [];
+  badStamps(rows, file, warnings);
   const drafts = labelled ? labelledDrafts(rows, speakerCount(rows) >= 2, warnings, file) : plainDrafts(rows);
   const raw = drafts.filter((d) => d.parts.length > 0).map((d) => toRawTurn(d, source, format === 'md'));
   return { turns: finishTurns(raw, warnings, file), labelled, warnings };
+}
+
+/** More impossible timestamps than this in a file are counted, not listed. */
+const LISTED = 5;
+
+/** "[99:99:99]" is no time: the turn is still told apart, without a time, and the user is told where. */
+function badStamps(rows: Row[], file: string, warnings: string[]): void {
+  const bad = rows.filter((r) => r.label?.badStamp !== undefined);
+  for (const r of bad.slice(0, LISTED)) {
+    warnings.push(`${file}:${r.line.no}: impossible timestamp "${r.label!.badStamp}" (minutes and seconds run 00 to 59): ignored, so this turn has no time`);
+  }
+  if (bad.length > LISTED) warnings.push(`${file}: ${bad.length - LISTED} more impossible timestamps ignored`);
 }
 
 function classify(line: SourceLine, markdown: boolean): Row {

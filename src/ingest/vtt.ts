@@ -5,7 +5,7 @@
  */
 import { UserError } from '../errors.js';
 import { assertCodesClosed } from './codes.js';
-import { cuesToTurns, looksLikeTiming, type Cue, type CueLine, type CueParse, type CueSegment } from './cues.js';
+import { checkCueTimes, cuesToTurns, looksLikeTiming, type Cue, type CueLine, type CueParse, type CueSegment } from './cues.js';
 import { splitLines, toBlocks, type SourceLine } from './lines.js';
 import { finishTurns } from './turns.js';
 
@@ -45,21 +45,28 @@ export function parseVtt(source: string, file: string): CueParse {
     while (at < block.length) {
       let next = block.findIndex((l, k) => k > at && l.text.includes('-->'));
       if (next === -1) next = block.length;
-      cues.push(readCue(block[at]!, block.slice(at + 1, next), file));
+      cues.push(readCue(block[at]!, block.slice(at + 1, next), file, warnings));
       at = next;
     }
   }
   if (cues.length === 0) throw new UserError('no cues found: a cue needs a timing line such as "00:01.000 --> 00:04.000"', file);
+  checkCueTimes(cues, file, warnings);
   const turns = finishTurns(cuesToTurns(cues), warnings, file);
   return { turns, labelled: turns.some((x) => x.speaker !== null), warnings };
 }
 
-function readCue(timing: SourceLine, text: SourceLine[], file: string): Cue {
+function readCue(timing: SourceLine, text: SourceLine[], file: string, warnings: string[]): Cue {
   const m = TIMING.exec(timing.text);
   if (!m) throw brokenTiming(timing, file);
   const start = seconds(m[1], m[2]!, m[3]!, m[4]!);
   const end = seconds(m[5], m[6]!, m[7]!, m[8]!);
-  return { start, end, segments: cueSegments(text) };
+  return { start, end, segments: cueSegments(text, unclosedVoice(file, warnings)), line: timing.no };
+}
+
+/** A "<v" with no ">" on its line: the speaker is lost, so the user is told where. */
+function unclosedVoice(file: string, warnings: string[]): (line: SourceLine, tag: string) => void {
+  return (line, tag) =>
+    warnings.push(`${file}:${line.no}: voice tag "${tag.slice(0, 40)}" is not closed with ">": kept as text, no speaker taken from it`);
 }
 
 function brokenTiming(line: SourceLine, file: string): UserError {
@@ -82,7 +89,7 @@ function joinOrphan(cues: Cue[], block: SourceLine[], file: string, warnings: st
     warnings.push(`${file}:${no}: text before the first cue was skipped`);
     return;
   }
-  const lines = cueSegments(block).flatMap((s) => s.lines);
+  const lines = cueSegments(block, unclosedVoice(file, warnings)).flatMap((s) => s.lines);
   const last = prev.segments[prev.segments.length - 1];
   if (last) last.lines.push(...lines);
   else prev.segments.push({ voice: null, lines });
@@ -111,7 +118,7 @@ export function decodeEntities(s: string): string {
  * `<b>`, `<u>`, `<lang>`, `<ruby>` and cue timestamps are removed; ruby text (`<rt>`) is dropped
  * since it annotates the base text rather than adding words.
  */
-export function cueSegments(lines: SourceLine[]): CueSegment[] {
+export function cueSegments(lines: SourceLine[], onUnclosedVoice?: (line: SourceLine, tag: string) => void): CueSegment[] {
   const segs: CueSegment[] = [{ voice: null, lines: [] }];
   let inRuby = false;
   for (const line of lines) {
@@ -130,6 +137,7 @@ export function cueSegments(lines: SourceLine[]): CueSegment[] {
       const gt = s.indexOf('>', lt);
       if (gt === -1) {
         if (!inRuby) out += s.slice(lt); // a stray "<": keep it as text
+        if (/^<v(?:[\s.]|$)/i.test(s.slice(lt))) onUnclosedVoice?.(line, s.slice(lt).trimEnd());
         break;
       }
       const tag = s.slice(lt + 1, gt);

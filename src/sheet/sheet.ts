@@ -43,11 +43,46 @@ export function writeSheet(rows: SheetRow[]): string {
   return writeCsv(SHEET_COLUMNS, rows.map((r) => [r.passage_id, r.transcript, r.speaker, r.role, r.time, r.text, r.themes.join('; '), r.note]));
 }
 
+/** Separators spreadsheets save with: comma, semicolon (where the decimal mark is a comma), tab ("Unicode text"). */
+const SEPARATORS = [',', ';', '\t'] as const;
+const SEPARATOR_NAMES: Record<string, string> = { ',': 'commas', ';': 'semicolons', '\t': 'tabs' };
+
+/**
+ * The separator, from the header line: the one that splits it into the sheet's columns. A first
+ * line "sep=;" (written by some spreadsheets) names it and is skipped. `from` is the header's line.
+ */
+function sheetSeparator(text: string): { separator: string; from: number } {
+  const nl = text.indexOf('\n');
+  const first = (nl === -1 ? text : text.slice(0, nl)).replace(/^\ufeff/, '');
+  const hint = /^"?sep=(.)"?[,;\t]*$/i.exec(first.trim());
+  if (hint) return { separator: hint[1]!, from: 2 };
+  const names = (sep: string) => first.split(sep).map((c) => c.trim().replace(/^"(.*)"$/, '$1').trim().toLowerCase());
+  for (const sep of SEPARATORS) {
+    const cols = names(sep);
+    if (cols.includes('passage_id') && cols.includes('themes')) return { separator: sep, from: 1 };
+  }
+  // None gives the columns: the most frequent one, so the column check can say what it found.
+  const counts = SEPARATORS.map((sep) => first.split(sep).length);
+  return { separator: SEPARATORS[counts.indexOf(Math.max(...counts))]!, from: 1 };
+}
+
+const HOW_TO_SAVE =
+  'save the sheet from the spreadsheet as CSV (comma- or semicolon-separated) or as tab-separated text, with the header row trellis wrote';
+
 /** Reads a coding sheet; a malformed file gives an error naming the line. */
 export function parseSheet(text: string, file: string): ImportedRow[] {
+  const { separator, from } = sheetSeparator(text);
   let records: { record: Record<string, string>; info: { lines: number; records: number } }[];
   try {
-    records = parse(text, { bom: true, columns: (h: string[]) => h.map((c) => c.trim().toLowerCase()), info: true, skip_empty_lines: true, relax_column_count: false });
+    records = parse(text, {
+      bom: true,
+      delimiter: separator,
+      from_line: from,
+      columns: (h: string[]) => h.map((c) => c.trim().toLowerCase()),
+      info: true,
+      skip_empty_lines: true,
+      relax_column_count: false,
+    });
   } catch (e) {
     const err = e as { message: string; lines?: number };
     throw new UserError(`not a readable coding sheet: ${err.message.replace(/^Invalid Record Length: /, '')}`, file, err.lines);
@@ -55,7 +90,14 @@ export function parseSheet(text: string, file: string): ImportedRow[] {
   if (!records.length) throw new UserError('the coding sheet has no rows', file);
   const cols = Object.keys(records[0]!.record);
   for (const need of ['passage_id', 'themes']) {
-    if (!cols.includes(need)) throw new UserError(`the coding sheet has no "${need}" column (found: ${cols.join(', ')})`, file, 1);
+    if (!cols.includes(need)) {
+      const found = cols.map((c) => `"${c.length > 60 ? c.slice(0, 60) + '…' : c}"`).join(', ');
+      throw new UserError(
+        `the coding sheet has no "${need}" column: the header line, split at ${SEPARATOR_NAMES[separator] ?? `"${separator}"`}, gives ${found}; ${HOW_TO_SAVE}`,
+        file,
+        from,
+      );
+    }
   }
   const hasText = cols.includes('text');
   const hasNote = cols.includes('note');
@@ -63,7 +105,7 @@ export function parseSheet(text: string, file: string): ImportedRow[] {
     const themes = unguardCell(record.themes ?? '');
     const nothing = themes.trim().toLowerCase() === NOTHING_TO_CODE;
     return {
-      row: i + 2,
+      row: i + from + 1,
       passageId: unguardCell((record.passage_id ?? '').trim()),
       text: hasText ? unguardCell(record.text ?? '') : null,
       themes: nothing ? [] : [...new Set(splitPathList(themes))],

@@ -7,8 +7,9 @@ import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { decodeKeys } from '../../src/cli/review-keys.js';
 import { matchThemes } from '../../src/cli/review-search.js';
-import { ReviewQueue, orderQueue, uncertainty, type ReviewItem } from '../../src/study/review.js';
 import { unflattenTemplate, walk } from '../../src/template/paths.js';
+import type { Template } from '../../src/template/types.js';
+import { ReviewQueue, orderQueue, uncertainty, type ReviewItem } from '../../src/study/review.js';
 import { ReviewTerminal, loose } from './review-pty.js';
 import { CORPUS, freshStudy, trellis } from './run.js';
 
@@ -66,8 +67,11 @@ function status(dir: string) {
 function codingsOf(dir: string, coder: string): { passage: string; theme: string; origin: string }[] {
   const db = new Database(join(dir, 'study.db'), { readonly: true });
   try {
-    const tree = JSON.parse((db.prepare('SELECT tree FROM revisions ORDER BY rev DESC LIMIT 1').get() as { tree: string }).tree);
-    const paths = new Map([...walk(unflattenTemplate(tree.flat))].map((e) => [e.node.id, e.path]));
+    // Revisions store the tree as a flat list now (older studies nested); read either.
+    const stored = JSON.parse((db.prepare('SELECT tree FROM revisions ORDER BY rev DESC LIMIT 1').get() as { tree: string }).tree);
+    const tree: Template = 'flat' in stored ? unflattenTemplate(stored.flat) : stored;
+    const paths = new Map<string, string>();
+    for (const e of walk(tree)) paths.set(e.node.id, e.path);
     return (
       db.prepare('SELECT passage_id, theme_id, origin FROM codings WHERE coder = ? AND removed_at IS NULL ORDER BY id').all(coder) as {
         passage_id: string;

@@ -46,6 +46,17 @@ describe('decodeText', () => {
     expect(r.warnings[0]).toContain('nobom.txt');
   });
 
+  test('UTF-16 with an odd number of bytes warns, naming the file, instead of dropping a byte silently', () => {
+    // UTF-16 stores text in 2-byte code units (Unicode Standard, ch. 3, D91): a trailing odd byte is no character.
+    for (const order of ['le', 'be'] as const) {
+      const bytes = Buffer.concat([utf16(SAMPLE, order), Buffer.from([0x41])]);
+      const r = decodeText(bytes, 'odd.txt');
+      expect(r.text).toBe(SAMPLE);
+      expect(r.warnings).toEqual(['odd.txt: UTF-16 text with an odd number of bytes (cut short or damaged?); the last byte was dropped']);
+    }
+    expect(decodeText(utf16(SAMPLE, 'le'), 'even.txt').warnings).toEqual([]);
+  });
+
   test('Windows-1252 bytes are read with a warning naming the file', () => {
     // "Café – “quoted” €5" in Windows-1252: é=E9, en dash=96, curly quotes=93/94, euro=80.
     const bytes = Buffer.from([0x43, 0x61, 0x66, 0xe9, 0x20, 0x96, 0x20, 0x93, 0x71, 0x94, 0x20, 0x80, 0x35]);

@@ -62,4 +62,30 @@ describe('.srt', () => {
     expect(t.turns.map((x) => x.text)).toEqual(['First and more']);
     expect(t.warnings).toEqual(['gap.srt:5: text after a blank line was joined to the cue before it']);
   });
+
+  // SubRip's cue structure (common practice): a number alone on a line, the timing line, the text.
+  test('a cue number that is not a number is refused, naming file and line, not stored with its timing as text', async () => {
+    const e = await fails('1\n00:00:01,000 --> 00:00:02,000\nMINA: First\n\n2a\n00:00:03,000 --> 00:00:04,000\nOMAR: Second\n', 'num.srt');
+    expect(e.describe()).toBe(
+      'num.srt:5: cue number "2a" is not a number: a SubRip cue starts with its number (1, 2, 3, ...) alone on the line before its timing',
+    );
+    expect((await fails('#1\n00:00:01,000 --> 00:00:02,000\nFirst\n', 'first.srt')).line).toBe(1);
+  });
+
+  test('timings that run backwards are warned about, naming file and line', async () => {
+    const t = await srt('1\n00:00:05,000 --> 00:00:06,000\nMINA: Later\n\n2\n00:00:01,000 --> 00:00:02,000\nOMAR: Sooner\n', 'back.srt');
+    expect(t.turns).toHaveLength(2);
+    expect(t.warnings).toEqual([
+      'back.srt:6: cue timing runs backwards: it starts at 00:00:01.000, before a cue above it (00:00:05.000); kept in the order written',
+    ]);
+  });
+
+  test('a cue with no blank line before it is read as a cue, not its number and timing as text', async () => {
+    const t = await srt('1\n00:00:01,000 --> 00:00:02,000\nMINA: First\n2\n00:00:03,000 --> 00:00:04,000\nOMAR: Second --> third\n', 'tight.srt');
+    expect(t.turns.map((x) => [x.speaker, x.start, x.end, x.text])).toEqual([
+      ['MINA', 1, 2, 'First'],
+      ['OMAR', 3, 4, 'Second --> third'],
+    ]);
+    expect(t.warnings).toEqual(['tight.srt:4: no blank line before this cue; read as a new cue']);
+  });
 });

@@ -194,3 +194,29 @@ describe('size', () => {
     expect(t.turns).toHaveLength(1);
   });
 });
+
+describe('impossible timestamps', () => {
+  // Minutes and seconds of a recording's elapsed time run 00 to 59 (common practice; the readers' clock rule): "[99:99:99]" is no time.
+  test('"[99:99:99]" starts its own turn, without a time, and is reported with file and line', async () => {
+    const t = await one('[00:01:00] Mina: Bed two is settled.\n[99:99:99] Omar: And bed three?\n[00:02:10] Mina: Waiting on bloods.\n', 'stamps.txt');
+    expect(t.turns.map((x) => [x.speaker, x.start, x.text])).toEqual([
+      ['Mina', 60, 'Bed two is settled.'],
+      ['Omar', null, 'And bed three?'],
+      ['Mina', 130, 'Waiting on bloods.'],
+    ]);
+    expect(t.warnings).toEqual(['stamps.txt:2: impossible timestamp "[99:99:99]" (minutes and seconds run 00 to 59): ignored, so this turn has no time']);
+  });
+
+  test('after the label, in Markdown, and in unlabelled paragraphs too; a ratio is not a timestamp', async () => {
+    const md = await one('Mina [12:75]: Handover at seven.\n\n**Omar:** [00:40] Fine.\n', 'stamps.md');
+    expect(md.turns.map((x) => [x.speaker, x.start])).toEqual([['Mina', null], ['Omar', 40]]);
+    expect(md.warnings).toEqual(['stamps.md:1: impossible timestamp "[12:75]" (minutes and seconds run 00 to 59): ignored, so this turn has no time']);
+    const header = await one('Mina [00:00:05]\nBed two is settled.\n\nOmar [99:99:99]\nAnd bed three?\n', 'header.txt');
+    expect(header.turns.map((x) => [x.speaker, x.start, x.text])).toEqual([['Mina', 5, 'Bed two is settled.'], ['Omar', null, 'And bed three?']]);
+    expect(header.warnings).toEqual(['header.txt:4: impossible timestamp "[99:99:99]" (minutes and seconds run 00 to 59): ignored, so this turn has no time']);
+    const plain = await one('First note.\n\n(61:00:99) Second note.\n\n(1:2) staffing ratio on nights.\n', 'notes.txt');
+    expect(plain.turns.map((x) => [x.start, x.text])).toEqual([[null, 'First note.'], [null, 'Second note.'], [null, '(1:2) staffing ratio on nights.']]);
+    expect(plain.warnings).toHaveLength(1);
+    expect(plain.warnings[0]).toMatch(/^notes\.txt:3: impossible timestamp "\(61:00:99\)"/);
+  });
+});

@@ -382,4 +382,44 @@ describe('WebVTT header and markup', () => {
   test('decodeEntities leaves unknown references as written', () => {
     expect(decodeEntities('a &amp; b &#233; &#x263A; &unknown; &')).toBe('a & b é ☺ &unknown; &');
   });
+
+  // W3C WebVTT, "WebVTT cue timings" (#webvtt-cue-timings): a cue's start time must be greater than
+  // or equal to the start times of all previous cues, and its end time greater than its start time.
+  test('timings that run backwards are kept in order but warned about, naming file and line', async () => {
+    const t = await vtt(
+      'WEBVTT\n\n00:10.000 --> 00:12.000\n<v Mina>Handover starts.\n\n00:05.000 --> 00:07.000\n<v Omar>Earlier?\n\n' +
+        '00:20.000 --> 00:18.500\n<v Mina>Ends first.\n',
+      'back.vtt',
+    );
+    expect(rows(t)).toEqual([
+      ['Mina', 10, 12, 'Handover starts.'],
+      ['Omar', 5, 7, 'Earlier?'],
+      ['Mina', 20, 18.5, 'Ends first.'],
+    ]);
+    expect(t.warnings).toEqual([
+      'back.vtt:6: cue timing runs backwards: it starts at 00:00:05.000, before a cue above it (00:00:10.000); kept in the order written',
+      'back.vtt:9: cue timing runs backwards: it ends (00:00:18.500) before it starts (00:00:20.000)',
+    ]);
+    // Equal start times are allowed by the same rule.
+    const same = await vtt('WEBVTT\n\n00:01.000 --> 00:02.000\nA\n\n00:01.000 --> 00:03.000\nB\n');
+    expect(same.warnings).toEqual([]);
+  });
+
+  test('many backwards timings are listed up to five, then counted', async () => {
+    let text = 'WEBVTT\n';
+    for (let k = 0; k < 8; k++) text += `\n00:${String(9 - k).padStart(2, '0')}.000 --> 00:${String(9 - k).padStart(2, '0')}.500\nline ${k}\n`;
+    const t = await vtt(text, 'many.vtt');
+    expect(t.warnings).toHaveLength(6);
+    expect(t.warnings[5]).toBe('many.vtt: 2 more cue timings run backwards');
+  });
+
+  test('an unclosed <v voice tag is kept as text with a warning naming file and line', async () => {
+    const t = await vtt('WEBVTT\n\n00:01.000 --> 00:04.000\n<v Mina>Bed four is stable.\n\n00:04.000 --> 00:06.000\n<v Omar Thanks, noted.\n', 'open.vtt');
+    expect(rows(t)).toEqual([
+      ['Mina', 1, 6, 'Bed four is stable. <v Omar Thanks, noted.'],
+    ]);
+    expect(t.warnings).toEqual(['open.vtt:7: voice tag "<v Omar Thanks, noted." is not closed with ">": kept as text, no speaker taken from it']);
+    // A "<" that opens no voice tag is ordinary text, not worth a warning.
+    expect((await vtt('WEBVTT\n\n00:01.000 --> 00:02.000\nsats < 90 means call\n')).warnings).toEqual([]);
+  });
 });
