@@ -40,7 +40,7 @@ const transcripts = readdirSync(corpus)
   .sort()
   .map((f) => rel(join(corpus, f)));
 
-await trellis('init', rel(study));
+await trellis('init', rel(study), '--coder', 'priya');
 await trellis('template', 'set', '--study', rel(study), rel(join(corpus, 'template.txt')), '--coder', 'priya', '--reason', 'starting template after coding t01-t04');
 await trellis('add', '--study', rel(study), ...transcripts);
 const sheet = join(corpus, 'initial-coding.csv');

@@ -3,8 +3,9 @@ import { statSync } from 'node:fs';
 import { DEFAULT_MAX_MB } from '../ingest/limits.js';
 import { readTranscriptFile } from '../ingest/read.js';
 import { warmUp } from '../text/pool.js';
+import { studyCoder } from '../study/db.js';
 import { importTranscripts, type ImportItem } from '../study/import.js';
-import { collect, defaultCoder, positiveInt, studyCommand, withStudy, type StudyOpts, coderName } from './common.js';
+import { coderName, collect, positiveInt, studyCommand, UNNAMED, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table, warn } from './output.js';
 import { progressBar } from './progress.js';
 
@@ -23,7 +24,7 @@ export function registerAdd(program: Command): void {
     .argument('<files...>', 'transcript files')
     .option('--replace', 'replace a transcript of the same name whose file has changed')
     .option('--interviewer <name>', 'a speaker label that is the interviewer (repeatable)', collect)
-    .option('--coder <name>', 'who wrote the inline {theme: ...} codes in these files', coderName, defaultCoder())
+    .option('--coder <name>', "who wrote the inline {theme: ...} codes in these files (default: the study's coder)", coderName)
     .option('--max-size <MB>', `largest file (or expanded .docx) to read, in megabytes`, positiveInt('--max-size'), DEFAULT_MAX_MB)
     .option('--id-column <name>', 'survey .csv: the respondent id column')
     .option('--text-column <name>', 'survey .csv: the answer text column')
@@ -63,7 +64,7 @@ Examples:
         importTranscripts(db, items, {
           replace: opts.replace,
           interviewers: opts.interviewer,
-          coder: opts.coder ?? defaultCoder(),
+          coder: opts.coder?.trim() || process.env.TRELLIS_CODER?.trim() || studyCoder(db) || UNNAMED,
           onProgress: (done) => bar.tick(done),
         }),
       );

@@ -1,6 +1,6 @@
 import { Command, InvalidArgumentError } from 'commander';
-import { userInfo } from 'node:os';
-import { openStudy, type DB } from '../study/db.js';
+import { openStudy, rememberCoder, studyCoder, type DB } from '../study/db.js';
+import { UserError } from '../errors.js';
 import { checkOutputPath, writeOutputFile } from '../study/files.js';
 
 export interface StudyOpts {
@@ -41,7 +41,9 @@ export function writeOut(opts: OutputOpts, data: string): void {
 export async function withStudy<T>(opts: StudyOpts, work: (db: DB) => T | Promise<T>): Promise<T> {
   const db = openStudy(opts.study);
   try {
-    return await work(db);
+    const out = await work(db);
+    if (named) rememberCoder(db, named); // a failed command leaves the study exactly as it was
+    return out;
   } finally {
     db.close();
   }
@@ -57,17 +59,28 @@ export function coderName(v: string): string {
   return name;
 }
 
-/** The coder's name when none is given: $TRELLIS_CODER, else the login name. */
-export function defaultCoder(): string {
-  return process.env.TRELLIS_CODER?.trim() || safeUser();
-}
+/** A name given with --coder in this command, to remember for the study if it has none yet. */
+let named: string | null = null;
 
-function safeUser(): string {
-  try {
-    return userInfo().username || 'unknown';
-  } catch {
-    return 'unknown';
+/** The name recorded when nobody has said who is working: never the machine's login name. */
+export const UNNAMED = 'researcher';
+
+/**
+ * Who is working: --coder, else $TRELLIS_CODER, else the study's coder (init --coder, or the first
+ * --coder given, which is remembered). Decisions need a name; a revision or an import without
+ * one is recorded under UNNAMED, with a hint.
+ */
+export function coderOf(opts: { coder?: string }, db: DB, required = true): string {
+  const given = opts.coder?.trim();
+  if (given) {
+    named = given; // remembered once the command has succeeded (withStudy)
+    return given;
   }
+  const known = process.env.TRELLIS_CODER?.trim() || studyCoder(db);
+  if (known) return known;
+  if (required) throw new UserError('say who decides: --coder NAME (remembered for this study from then on), or set TRELLIS_CODER');
+  process.stderr.write(`trellis: recorded as "${UNNAMED}"; give your name once with --coder NAME and this study remembers it\n`);
+  return UNNAMED;
 }
 
 /** Collects a repeatable option into a list. */

@@ -4,7 +4,7 @@ import { acceptAllAbove, decide, markNothingToCode, undo, type Action, type Deci
 import { currentTemplate } from '../study/template.js';
 import { pathOf } from '../template/paths.js';
 import type { Template } from '../template/types.js';
-import { probability, studyCommand, withStudy, type StudyOpts, coderName } from './common.js';
+import { coderName, coderOf, probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say } from './output.js';
 
 interface DecideOpts extends StudyOpts {
@@ -15,11 +15,6 @@ interface DecideOpts extends StudyOpts {
 }
 
 /** The coder must be named for the audit trail: --coder, or $TRELLIS_CODER. */
-export function coderOf(opts: { coder?: string }): string {
-  const c = (opts.coder ?? process.env.TRELLIS_CODER)?.trim();
-  if (!c) throw new UserError('say who decides: --coder NAME (or set TRELLIS_CODER)');
-  return c;
-}
 
 export function describeDecision(d: DecisionRow, t: Template): string {
   const path = (id: string | null) => {
@@ -76,8 +71,8 @@ Examples:
   trellis undo --coder alex`,
     )
     .action(async (id: string | undefined, action: string | undefined, opts: DecideOpts) => {
-      const coder = coderOf(opts);
       await withStudy(opts, (db) => {
+        const coder = coderOf(opts, db);
         if (opts.allAbove !== undefined) {
           if (id || action) throw new UserError('--all-above decides many suggestions: give no suggestion id');
           if (!opts.theme) throw new UserError('--all-above needs the theme to accept: --theme PATH');
@@ -110,8 +105,8 @@ Examples:
   trellis nocode t05-ward9-fy2-p014 t05-ward9-fy2-p015 --note "arranging the next interview" --coder alex`,
     )
     .action(async (ids: string[], opts: StudyOpts & { coder?: string; note?: string }) => {
-      const coder = coderOf(opts);
       await withStudy(opts, (db) => {
+        const coder = coderOf(opts, db);
         const done = markNothingToCode(db, ids, coder, opts.note);
         if (opts.json) return printJson({ decisions: done });
         const t = currentTemplate(db);
@@ -125,8 +120,8 @@ Examples:
     .option('--note <text>', 'why')
     .addHelpText('after', '\nExamples:\n  trellis undo --coder alex\n  trellis undo 57 --coder alex --note "wrong passage"')
     .action(async (id: string | undefined, opts: StudyOpts & { coder?: string; note?: string }) => {
-      const coder = coderOf(opts);
       await withStudy(opts, (db) => {
+        const coder = coderOf(opts, db);
         const n = id === undefined ? undefined : Number(id);
         if (n !== undefined && (!Number.isInteger(n) || n < 1)) throw new UserError(`"${id}" is not a decision id`);
         const d = undo(db, coder, n, opts.note);

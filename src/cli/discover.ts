@@ -5,8 +5,7 @@ import { dismissCluster, promoteCluster, runDiscovery, triageStudy } from '../st
 import { currentTemplate } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { walk } from '../template/paths.js';
-import { coderOf } from './decide.js';
-import { collect, positiveInt, studyCommand, withStudy, type StudyOpts, coderName } from './common.js';
+import { coderName, coderOf, collect, positiveInt, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { wrap } from './marks.js';
 import { plural, printJson, say, table } from './output.js';
 
@@ -99,11 +98,11 @@ Examples:
   trellis promote c07b2e --into "Workload > Interruptions" --coder priya`,
     )
     .action(async (cluster: string, opts: StudyOpts & { name?: string; parent?: string; into?: string; note?: string; coder?: string }) => {
-      const coder = coderOf(opts);
       if (opts.into !== undefined && (opts.name !== undefined || opts.parent !== undefined)) throw new UserError('give either --name (a new theme) or --into (an existing theme), not both');
       if (opts.into === undefined && opts.name === undefined) throw new UserError('say where the cluster goes: --name NAME for a new theme, or --into PATH for an existing one');
       const target = opts.into !== undefined ? { into: opts.into } : { name: opts.name!, parentPath: opts.parent };
       await withStudy(opts, (db) => {
+        const coder = coderOf(opts, db);
         const p = promoteCluster(db, resolve(opts.study), cluster, target, coder, opts.note);
         if (opts.json) return printJson(p);
         say(
@@ -120,8 +119,8 @@ Examples:
     .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)', coderName)
     .addHelpText('after', '\nExample:\n  trellis dismiss c5d0e4 --note "car park and canteen small talk" --coder priya')
     .action(async (cluster: string, opts: StudyOpts & { note: string; coder?: string }) => {
-      const coder = coderOf(opts);
       await withStudy(opts, (db) => {
+        const coder = coderOf(opts, db);
         const d = dismissCluster(db, cluster, coder, opts.note);
         if (opts.json) return printJson(d);
         say(`Cluster ${d.cluster_id} dismissed (decision #${d.decision_id}).`);

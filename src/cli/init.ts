@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { createStudy, DEFAULT_SETTINGS } from '../study/db.js';
-import { positiveInt } from './common.js';
+import { coderName, positiveInt } from './common.js';
 import { printJson, say } from './output.js';
 
 export function registerInit(program: Command): void {
@@ -9,11 +9,12 @@ export function registerInit(program: Command): void {
     .command('init [dir]')
     .description('create a study: study.db and a starter template.txt in DIR (default: this folder)')
     .option('--window <words>', 'longest passage in words before a turn is split at sentences', positiveInt('--window'), DEFAULT_SETTINGS.window)
+    .option('--coder <name>', 'your name as the audit trail should record it (remembered for this study)', coderName)
     .option('--json', 'machine-readable output on stdout')
-    .addHelpText('after', '\nExamples:\n  trellis init handover-study\n  trellis init --window 80')
-    .action((dir: string | undefined, opts: { window: number; json?: boolean }) => {
+    .addHelpText('after', '\nExamples:\n  trellis init handover-study --coder priya\n  trellis init --window 80')
+    .action((dir: string | undefined, opts: { window: number; coder?: string; json?: boolean }) => {
       const root = resolve(dir ?? '.');
-      createStudy(root, { window: opts.window }).close();
+      createStudy(root, { window: opts.window }, opts.coder).close();
       if (opts.json) printJson({ study: root, window: opts.window });
       else {
         say(`Created a study in ${root}`);

@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { UserError } from '../errors.js';
 import { addMemo, getMemo, listMemos, type Memo, type MemoTarget } from '../study/memos.js';
-import { defaultCoder, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { coderOf, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say } from './output.js';
 
 interface TargetOpts {
@@ -57,11 +57,11 @@ Examples:
 
   withTargets(studyCommand(memo, 'add', 'add a memo (on the study when no target is given)'))
     .argument('<text>', 'the memo')
-    .option('--author <name>', 'who writes it (default: $TRELLIS_CODER, else the login name)')
+    .option('--author <name>', "who writes it (default: $TRELLIS_CODER, else the study's coder)")
     .action(async (text: string, opts: StudyOpts & TargetOpts & { author?: string }) => {
       const target = targetOf(opts) ?? { kind: 'study' };
       await withStudy(opts, (db) => {
-        const m = addMemo(db, target, text, opts.author ?? defaultCoder());
+        const m = addMemo(db, target, text, coderOf({ coder: opts.author }, db));
         if (opts.json) return printJson(m);
         say(`Added ${line(m)}.`);
       });

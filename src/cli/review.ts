@@ -25,8 +25,8 @@ import {
 import { requireTranscripts } from '../study/transcripts.js';
 import { currentTemplate } from '../study/template.js';
 import { walk } from '../template/paths.js';
-import { collect, studyCommand, type StudyOpts, coderName } from './common.js';
-import { coderOf, describeDecision } from './decide.js';
+import { coderName, coderOf, collect, studyCommand, type StudyOpts } from './common.js';
+import { describeDecision } from './decide.js';
 import { useColour } from './marks.js';
 import type { Snippets } from './reasons.js';
 import { plain, plainDeep } from './output.js';
@@ -99,9 +99,9 @@ In scripts (no terminal), decide one suggestion at a time instead:
       if (!process.stdin.isTTY || !process.stdout.isTTY) throw new UserError(NEEDS_TERMINAL);
       if (opts.json) throw new UserError('review is interactive and has no --json output; for scripts use "trellis suggest --json" and "trellis decide"');
       if (!(ORDERS as readonly string[]).includes(opts.order)) throw new UserError(`--order is one of ${ORDERS.join(', ')} (got "${opts.order}")`);
-      const coder = coderOf(opts);
       const db = openStudy(opts.study);
       try {
+        const coder = coderOf(opts, db);
         requireTranscripts(db, opts.transcript);
         const start = startReview(db, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder }, () =>
           process.stdout.write('Fitting theme profiles and scoring passages...\n'),

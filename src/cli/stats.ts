@@ -53,6 +53,9 @@ Examples:
         const a = s.acceptance;
         say(`Decisions: ${a.overall.decided} decided (${a.overall.accepted} accepted, ${a.overall.recoded} re-coded, ${a.overall.rejected} rejected), ${a.overall.deferred} deferred`);
         say(`Acceptance: ${pct(a.overall.rate)}${a.bulkCounted ? ` (${a.bulkCounted} bulk decisions counted)` : ''}`);
+        if (s.bulk.decisions) {
+          say(`  one by one: ${pct(s.one_by_one.rate)} of ${s.one_by_one.decided} decided; in bulk (decide --all-above): ${s.bulk.accepted} accepted without being read one by one`);
+        }
         if (s.refined.count) say(`Refined:    ${s.refined.count} re-codes chose a sub-theme of the suggested theme; counting those as accepted, ${pct(s.refined.rate)}`);
         say(`Coverage:   ${s.coverage.coded} of ${s.coverage.participant} participant passages coded (${pct(s.coverage.share)})`);
         if (s.nothing_to_code.passages) say(`Nothing to code: ${s.coverage.nothing_to_code} more passages reviewed with no theme applying; ${s.coverage.reviewed} of ${s.coverage.participant} reviewed (${pct(s.coverage.reviewed_share)})`);

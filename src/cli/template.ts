@@ -12,7 +12,7 @@ import { integrativeCoverage } from '../measure/integrative.js';
 import { themeCounts } from '../study/status.js';
 import { reviseTemplate, setTemplate, type RevisionResult } from '../study/revise.js';
 import { currentRevision, revisionHistory } from '../study/template.js';
-import { defaultCoder, withStudy, type StudyOpts, coderName } from './common.js';
+import { coderName, coderOf, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, warn } from './output.js';
 
 type Opts = StudyOpts & { reason?: string; coder?: string };
@@ -26,7 +26,7 @@ function withCommon(cmd: Command): Command {
 function revising(cmd: Command): Command {
   return withCommon(cmd)
     .option('--reason <text>', 'why: kept in the revision history (the audit trail)')
-    .option('--coder <name>', 'who made the change', coderName, defaultCoder());
+    .option('--coder <name>', "who made the change (default: the study's coder)", coderName);
 }
 
 function report(r: RevisionResult, json?: boolean): void {
@@ -69,7 +69,7 @@ Examples:
 
   withCommon(tpl.command('set <file>').description('record FILE as the new template revision (template.txt is kept equal to it)'))
     .option('--reason <text>', 'why: kept in the revision history')
-    .option('--coder <name>', 'who made the change', coderName, defaultCoder())
+    .option('--coder <name>', "who made the change (default: the study's coder)", coderName)
     .option('--renamed <"old; new">', 'a coded theme gone from the outline is this new one (renamed or moved by hand): its codings follow (repeatable)', (v: string, all: string[] = []) => [...all, v])
     .option('--retire <path>', 'a coded theme gone from the outline is to be retired, its codings kept in its history (repeatable)', (v: string, all: string[] = []) => [...all, v])
     .addHelpText(
@@ -89,7 +89,7 @@ Examples:
       const decoded = decodeText(bytes, file);
       for (const w of decoded.warnings) warn(w); // as add does: a misread encoding must not pass unseen
       const text = decoded.text;
-      const r = await withStudy(opts, (db) => setTemplate(db, resolve(opts.study), text, file, opts.coder!, opts.reason, {
+      const r = await withStudy(opts, (db) => setTemplate(db, resolve(opts.study), text, file, coderOf(opts, db, false), opts.reason, {
           retire: opts.retire,
           renamed: (opts.renamed ?? []).map((pair) => {
             const parts = splitPathList(pair);
@@ -168,7 +168,7 @@ Examples:
     if (['move', 'merge', 'split', 'retire'].includes(name) && !opts.reason?.trim()) {
       throw new UserError(`template ${name} needs --reason "why": it is kept in the revision history (the audit trail)`);
     }
-    return withStudy(opts, (db) => report(reviseTemplate(db, resolve(opts.study), name, run, opts.coder!, opts.reason), opts.json));
+    return withStudy(opts, (db) => report(reviseTemplate(db, resolve(opts.study), name, run, coderOf(opts, db, false), opts.reason), opts.json));
   };
 
   revising(tpl.command('rename <path> <new-name>').description('rename a theme (its id, codings and history stay)')).action(

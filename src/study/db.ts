@@ -159,7 +159,7 @@ function openChecked(file: string): DB {
 }
 
 /** Creates a study in DIR: study.db and a starter template.txt. Refuses to overwrite one. */
-export function createStudy(dir: string, settings: StudySettings = DEFAULT_SETTINGS): DB {
+export function createStudy(dir: string, settings: StudySettings = DEFAULT_SETTINGS, coder?: string): DB {
   const root = resolve(dir);
   const file = join(root, DB_FILE);
   if (existsSync(file)) throw new UserError(`a study already exists here (${file})`, file);
@@ -174,6 +174,7 @@ export function createStudy(dir: string, settings: StudySettings = DEFAULT_SETTI
   db.transaction(() => {
     put.run('created_at', new Date().toISOString());
     put.run('window', String(settings.window));
+    if (coder) put.run('coder', coder);
   })();
   if (!existsSync(join(root, TEMPLATE_FILE))) writeFileAtomic(join(root, TEMPLATE_FILE), STARTER_TEMPLATE);
   return db;
@@ -221,6 +222,17 @@ function migrate(db: DB, file: string): void {
   } finally {
     db.pragma('foreign_keys = ON');
   }
+}
+
+/** The name a study records decisions and revisions under when none is given (init --coder, or the first --coder). */
+export function studyCoder(db: DB): string | null {
+  const row = db.prepare("SELECT value FROM meta WHERE key = 'coder'").get() as { value: string } | undefined;
+  return row?.value ?? null;
+}
+
+/** Remembers `name` as the study's coder, unless it has one already. */
+export function rememberCoder(db: DB, name: string): void {
+  db.prepare("INSERT OR IGNORE INTO meta (key, value) VALUES ('coder', ?)").run(name);
 }
 
 export function settingsOf(db: DB): StudySettings {

@@ -11,6 +11,10 @@ export const TOOL_CODER = 'trellis';
 
 export interface StudyStats {
   acceptance: AcceptanceReport;
+  /** Acceptance of the suggestions decided one by one, bulk acceptances left out. */
+  one_by_one: { decided: number; accepted: number; rate: number | null };
+  /** Decisions made in bulk (decide --all-above), counted apart. */
+  bulk: { decisions: number; accepted: number };
   /**
    * Participant passages with a coding, of all participant passages; and those a coder marked
    * "reviewed, nothing to code" (not coded by anyone), which are judged too.
@@ -101,8 +105,14 @@ export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyS
   const refined = records.filter((d) => d.action === 'recode' && under(d.chosenThemeId, d.themeId)).length;
   const acceptance = acceptanceReport(records);
   const { decided, accepted } = acceptance.overall;
+  // Bulk acceptances are accepted by construction: counted apart, so that the figure of suggestions
+  // judged one by one stays honest.
+  const single = acceptanceReport(records.filter((d) => !d.bulk)).overall;
+  const bulk = records.filter((d) => d.bulk);
   return {
     acceptance,
+    one_by_one: { decided: single.decided, accepted: single.accepted, rate: single.rate },
+    bulk: { decisions: bulk.length, accepted: bulk.filter((d) => d.action === 'accept').length },
     refined: { count: refined, rate: decided ? (accepted + refined) / decided : null },
     coverage: {
       ...cov,

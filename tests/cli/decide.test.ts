@@ -1,4 +1,5 @@
 import Database from 'better-sqlite3';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { CORPUS, freshStudy, snapshot, trellis } from './run.js';
@@ -58,7 +59,10 @@ describe('decide, undo and the decision log', () => {
     const none = trellis(['decide', '999999', 'accept', '--coder', 'ana'], dir);
     expect(none.status).toBe(1);
     expect(none.stderr).toMatch(/no suggestion #999999/);
-    expect(trellis(['decide', '1', 'accept'], dir, { TRELLIS_CODER: '' }).stderr).toMatch(/--coder/);
+    // Without --coder or $TRELLIS_CODER, the study's remembered coder (the first --coder) decides;
+    // a study that has none asks for one.
+    expect(trellis(['decide', '1', 'accept'], dir, { TRELLIS_CODER: '' }).stderr).toMatch(/suggestion #1 was already decided/);
+    expect(trellis(['decide', '1', 'accept'], freshStudy(), { TRELLIS_CODER: '' }).stderr).toMatch(/say who decides: --coder NAME/);
     expect(snapshot(dir)).toBe(before);
   });
 
@@ -91,5 +95,14 @@ describe('decide, undo and the decision log', () => {
     const r = json(dir, ['decide', '--all-above', String(min), '--theme', theme, '--coder', 'bo']);
     expect(r.decisions.length).toBe(expected);
     expect(r.decisions.every((d: { bulk: number; action: string }) => d.bulk === 1 && d.action === 'accept')).toBe(true);
+    // Counted apart in stats, and the report does not claim every coding was confirmed one by one.
+    const stats = json(dir, ['stats']);
+    expect(stats.bulk).toEqual({ decisions: expected, accepted: expected });
+    expect(stats.one_by_one.decided).toBe(stats.acceptance.overall.decided - expected);
+    expect(trellis(['stats'], dir).stdout).toMatch(new RegExp(`in bulk \\(decide --all-above\\): ${expected} accepted`));
+    expect(trellis(['report', '--out', 'bulk.html'], dir).status).toBe(0);
+    const html = readFileSync(join(dir, 'bulk.html'), 'utf8');
+    expect(html).toContain(`${expected} of the codings shown here were accepted in bulk`);
+    expect(html).not.toContain('every coding shown here was made or confirmed by a researcher');
   });
 });

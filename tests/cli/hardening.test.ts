@@ -351,3 +351,32 @@ describe('coded themes never vanish silently from an outline', () => {
     expect(snapshot(dir)).toBe(before);
   });
 });
+
+describe('who is recorded', () => {
+  const anon = { TRELLIS_CODER: '' };
+
+  it('the study remembers its coder (init --coder, or the first --coder) and never records the login name', () => {
+    const named = freshStudy(['--coder', 'priya']);
+    write(named, 'outline.txt', OUTLINE);
+    expect(trellis(['template', 'set', 'outline.txt'], named, anon).status).toBe(0);
+    const history = () => JSON.parse(trellis(['template', 'history', '--json'], named, anon).stdout).revisions;
+    expect(history()[0].author).toBe('priya');
+
+    const dir = freshStudy();
+    write(dir, 'outline.txt', OUTLINE);
+    const first = trellis(['template', 'set', 'outline.txt'], dir, anon);
+    expect(first.status, first.stderr).toBe(0);
+    expect(first.stderr).toMatch(/recorded as "researcher"; give your name once with --coder NAME/);
+    write(dir, 'more.txt', OUTLINE + 'Training\n');
+    expect(trellis(['template', 'set', 'more.txt', '--coder', 'sam'], dir, anon).status).toBe(0);
+    write(dir, 'most.txt', OUTLINE + 'Training\nLeadership\n');
+    expect(trellis(['template', 'set', 'most.txt'], dir, anon).status).toBe(0);
+    const authors = JSON.parse(trellis(['template', 'history', '--json'], dir, anon).stdout).revisions.map((r: { author: string }) => r.author);
+    expect(authors).toEqual(['researcher', 'sam', 'sam']);
+    const login = spawnSync('id', ['-un'], { encoding: 'utf8' }).stdout.trim();
+    if (login && !['researcher', 'sam', 'priya'].includes(login)) {
+      for (const d of [named, dir]) expect(trellis(['template', 'history'], d, anon).stdout).not.toContain(login);
+      expect(trellis(['template', 'set', '--help'], dir, anon).stdout).not.toContain(`"${login}"`);
+    }
+  });
+});
