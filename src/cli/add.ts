@@ -22,7 +22,7 @@ interface AddOpts extends StudyOpts {
 export function registerAdd(program: Command): void {
   studyCommand(program, 'add', 'import transcripts (.txt .md .docx .vtt .srt .csv); all files go in, or none')
     .argument('<files...>', 'transcript files')
-    .option('--replace', 'replace a transcript of the same name whose file has changed')
+    .option('--replace', 'replace a transcript of the same name whose file has changed; its codings follow their text')
     .option('--interviewer <name>', 'a speaker label that is the interviewer (repeatable)', collect)
     .option('--coder <name>', "who wrote the inline {theme: ...} codes in these files (default: the study's coder)", coderName)
     .option('--max-size <MB>', `largest file (or expanded .docx) to read, in megabytes`, positiveInt('--max-size'), DEFAULT_MAX_MB)
@@ -37,8 +37,13 @@ Interviewer, Int, I, Q, Moderator, Facilitator and Researcher are taken as the i
 everyone else as a participant (override with --interviewer). A plain text file with no
 speaker labels is split on blank lines, each paragraph a participant passage.
 
+With --replace (say, after de-identifying a coded transcript), each coding moves to the new
+passage with the same text, or else to the one that shares most of its words if that holds at
+least half of them; codings that fit nowhere are listed and kept apart, never dropped.
+
 Examples:
   trellis add interviews/*.txt interviews/*.docx
+  trellis add t03-harbour-hca.md --replace
   trellis add focus-group.vtt --interviewer Asha
   trellis add survey.csv --id-column resp --text-column q3_answer`,
     )
@@ -82,8 +87,16 @@ Examples:
       for (const u of report.unchanged) say(`${u.file}: "${u.name}" is already in the study, unchanged; nothing to do`);
       say(`Added ${plural(report.added.length, 'transcript')} (${plural(report.words, 'word')}).`);
       if (report.inlineCodings) say(`Recorded ${plural(report.inlineCodings, 'inline coding')}.`);
-      if (report.keptCodings || report.droppedCodings)
-        say(`Replacing kept ${plural(report.keptCodings, 'coding')} whose passage did not change; ${report.droppedCodings} dropped.`);
+      if (report.keptCodings || report.movedCodings || report.unplaced.length) {
+        say(
+          `Replacing: ${plural(report.keptCodings, 'coding')} kept on passages of the same text, ${report.movedCodings} moved to the passage ` +
+            `that shares most of their words; ${report.unplaced.length} could not be placed.`,
+        );
+      }
+      if (report.unplaced.length) {
+        say('These codings are kept apart (not dropped); re-code their passages where they now fall:');
+        say(table(['transcript', 'old passage', 'theme', 'coder'], report.unplaced.map((u) => [u.transcript, u.passage_id, u.theme, u.coder])));
+      }
     });
 }
 

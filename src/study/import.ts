@@ -1,8 +1,9 @@
 import { UserError } from '../errors.js';
+import { reanchor } from '../ingest/reanchor.js';
 import { roleOf } from '../ingest/roles.js';
 import { segment, type Passage } from '../ingest/segment.js';
 import type { Transcript } from '../ingest/types.js';
-import { findByPath } from '../template/paths.js';
+import { findByPath, walk } from '../template/paths.js';
 import type { TextAnalysis } from '../text/analysis.js';
 import { analyseMany } from '../text/pool.js';
 import { codingAdder } from './codings.js';
@@ -38,8 +39,13 @@ export interface ImportReport {
   added: ImportedTranscript[];
   unchanged: { name: string; file: string }[];
   inlineCodings: number;
-  /** Codings kept across a --replace because their passage's text did not change. */
+  /** Codings kept across a --replace on a passage of the same text. */
   keptCodings: number;
+  /** Codings moved across a --replace to the passage that overlaps their old one most. */
+  movedCodings: number;
+  /** Codings a --replace could not place: kept apart in unplaced_codings, listed here. */
+  unplaced: { transcript: string; passage_id: string; theme_id: string; theme: string; coder: string }[];
+  /** Always 0: kept for scripts that read it (codings are moved or kept apart, never dropped). */
   droppedCodings: number;
   words: number;
   warnings: string[];
@@ -120,10 +126,13 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
     const write = transcriptWriter(db);
     const addCoding = codingAdder(db);
     const keep = db.prepare(
-      'SELECT c.passage_id, p.text, c.theme_id, c.coder, c.origin, c.created_at, c.rev FROM codings c JOIN passages p ON p.id = c.passage_id WHERE p.transcript_id = ? AND c.removed_at IS NULL',
+      'SELECT c.passage_id, p.text, p.ordinal, c.theme_id, c.coder, c.origin, c.created_at, c.rev FROM codings c JOIN passages p ON p.id = c.passage_id WHERE p.transcript_id = ? AND c.removed_at IS NULL',
     );
     const restore = db.prepare(
-      'INSERT INTO codings (passage_id, theme_id, coder, origin, created_at, rev) SELECT ?, ?, ?, ?, ?, ? WHERE EXISTS (SELECT 1 FROM passages WHERE id = ? AND text = ?)',
+      'INSERT OR IGNORE INTO codings (passage_id, theme_id, coder, origin, created_at, rev) VALUES (?, ?, ?, ?, ?, ?)',
+    );
+    const setApart = db.prepare(
+      'INSERT INTO unplaced_codings (transcript, passage_id, text, theme_id, coder, origin, coded_at, unplaced_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)',
     );
     // Suggestions made for the old text no longer apply.
     const dropSuggestions = db.prepare('DELETE FROM suggestions WHERE passage_id IN (SELECT id FROM passages WHERE transcript_id = ?)');
@@ -137,10 +146,23 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
         deleteTranscript(db, replaces);
       }
       write(t, file, hash, passages);
-      for (const k of kept) {
-        const r = restore.run(k.passage_id, k.theme_id, k.coder, k.origin, k.created_at, k.rev, k.passage_id, k.text);
-        if (r.changes) report.keptCodings++;
-        else report.droppedCodings++;
+      if (kept.length) {
+        // Each coding follows its text into the edited version (src/ingest/reanchor.ts has the rule).
+        const olds = [...new Map(kept.map((k) => [k.passage_id, { id: k.passage_id, ordinal: k.ordinal, text: k.text }])).values()];
+        const placed = reanchor(olds, passages.map((p) => ({ id: p.id, ordinal: p.ordinal, text: p.text })));
+        const now = new Date().toISOString();
+        for (const k of kept) {
+          const to = placed.get(k.passage_id);
+          if (to) {
+            restore.run(to.to, k.theme_id, k.coder, k.origin, k.created_at, k.rev);
+            if (to.how === 'same text') report.keptCodings++;
+            else report.movedCodings++;
+          } else {
+            setApart.run(t.name, k.passage_id, k.text, k.theme_id, k.coder, k.origin, k.created_at, now);
+            const theme = rev ? [...walk(rev.template)].find((e) => e.node.id === k.theme_id)?.path : undefined;
+            report.unplaced.push({ transcript: t.name, passage_id: k.passage_id, theme_id: k.theme_id, theme: theme ?? k.theme_id, coder: k.coder });
+          }
+        }
       }
       report.inlineCodings += writeInlineCodes(db, t, file, passages, rev, opts.coder, addCoding);
       const participant = passages.filter((p) => p.role === 'participant').length;
@@ -155,6 +177,7 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
 interface KeptCoding {
   passage_id: string;
   text: string;
+  ordinal: number;
   theme_id: string;
   coder: string;
   origin: string;
@@ -163,7 +186,7 @@ interface KeptCoding {
 }
 
 function emptyReport(): ImportReport {
-  return { added: [], unchanged: [], inlineCodings: 0, keptCodings: 0, droppedCodings: 0, words: 0, warnings: [] };
+  return { added: [], unchanged: [], inlineCodings: 0, keptCodings: 0, movedCodings: 0, unplaced: [], droppedCodings: 0, words: 0, warnings: [] };
 }
 
 function withWarnings(report: ImportReport, items: ImportItem[]): ImportReport {

@@ -227,6 +227,21 @@ export const MIGRATIONS: string[] = [
   ALTER TABLE clusters ADD COLUMN key TEXT;
   CREATE INDEX clusters_key ON clusters (key);
   `,
+  // 8: codings that "add --replace" could not place in the edited transcript, kept (not dropped)
+  // with what they were, so the team can re-code them.
+  `
+  CREATE TABLE unplaced_codings (
+    id          INTEGER PRIMARY KEY,
+    transcript  TEXT NOT NULL,
+    passage_id  TEXT NOT NULL,   -- the old passage, gone with the old version
+    text        TEXT NOT NULL,   -- its text, as it was coded
+    theme_id    TEXT NOT NULL REFERENCES themes(id),
+    coder       TEXT NOT NULL,
+    origin      TEXT NOT NULL,
+    coded_at    TEXT NOT NULL,
+    unplaced_at TEXT NOT NULL
+  );
+  `,
 ];
 
 export const SCHEMA_VERSION = MIGRATIONS.length;

@@ -1,3 +1,4 @@
+import Database from 'better-sqlite3';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -70,14 +71,33 @@ describe('trellis add', () => {
     expect(JSON.parse(replaced.stdout).added[0]).toMatchObject({ name: 'nadia', passages: 5, replaced: true });
   });
 
-  it('keeps codings of unchanged passages across --replace', () => {
+  it('re-anchors codings across --replace: same text kept, edited text moved, the rest listed and kept apart', () => {
     const dir = seededStudy();
     write(dir, 'codes.csv', 'passage_id,themes\nnadia#2,Workload > Time on the system\nnadia#4,Allergies\n');
     expect(trellis(['sheet', 'import', 'codes.csv', '--coder', 'ana'], dir).status).toBe(0);
-    write(dir, 'nadia.txt', INTERVIEW.replace('I worry about allergies.', 'I worry about allergy banners.'));
+    // An edit that keeps most words, and a new turn inserted before both: ids shift by one.
+    const edited = INTERVIEW.replace('I worry about allergies.', 'I worry about allergy banners.').replace(
+      '[00:00:12] Nadia:',
+      '[00:00:08] Interviewer: Take your time.\n\n[00:00:12] Nadia:',
+    );
+    write(dir, 'nadia.txt', edited);
     const r = JSON.parse(trellis(['add', 'nadia.txt', '--replace', '--json'], dir).stdout);
     expect(r.keptCodings).toBe(1);
-    expect(r.droppedCodings).toBe(1);
+    expect(r.movedCodings).toBe(1);
+    expect(r.unplaced).toEqual([]);
+    expect(trellis(['export', 'codings', '--format', 'json', '--out', 'c.json'], dir).status).toBe(0);
+    const codings = JSON.parse(readFileSync(join(dir, 'c.json'), 'utf8')).codings as { passage_id: string; theme: string }[];
+    expect(codings.map((c) => `${c.passage_id} ${c.theme}`).sort()).toEqual(['nadia#3 Workload > Time on the system', 'nadia#5 Patient safety > Allergies']);
+
+    // Rewritten beyond recognition: listed, kept apart, never dropped.
+    write(dir, 'nadia.txt', INTERVIEW.replace(/\[00:01:09\] Nadia: .*/, '[00:01:09] Nadia: Nothing else comes to mind really.'));
+    const gone = trellis(['add', 'nadia.txt', '--replace'], dir);
+    expect(gone.status, gone.stderr).toBe(0);
+    expect(gone.stdout).toMatch(/1 could not be placed/);
+    expect(gone.stdout).toMatch(/nadia +nadia#5 +Patient safety > Allergies +ana/);
+    const db = new Database(join(dir, 'study.db'), { readonly: true });
+    expect(db.prepare('SELECT transcript, passage_id, coder FROM unplaced_codings').all()).toEqual([{ transcript: 'nadia', passage_id: 'nadia#5', coder: 'ana' }]);
+    db.close();
   });
 
   it('splits a plain text file without labels on blank lines, as participant passages', () => {
