@@ -4,7 +4,8 @@ import { DATA_CAUTION } from '../report/cautions.js';
 import { writeCsv } from '../sheet/csv.js';
 import { decisionLog, logColumns } from '../study/decisions.js';
 import { CODING_COLUMNS, codingsForExport, themeMatrix } from '../study/export.js';
-import { currentTemplate } from '../study/template.js';
+import { currentRevision } from '../study/template.js';
+import { collectComments } from '../template/comments.js';
 import { printOutline } from '../template/print.js';
 import { checkOut, forceOption, studyCommand, withStudy, writeOut, type OutputOpts } from './common.js';
 import { say } from './output.js';
@@ -48,8 +49,10 @@ Examples:
             const rows = decisionLog(db);
             return opts.format === 'json' ? JSON.stringify({ caution: DATA_CAUTION, decisions: rows }, null, 2) + '\n' : writeCsv(logColumns(rows), rows, DATA_CAUTION);
           }
-          default:
-            return printOutline(currentTemplate(db));
+          default: {
+            const rev = currentRevision(db);
+            return rev ? printOutline(rev.template, collectComments(rev.outline, rev.template)) : '';
+          }
         }
       });
       writeOut(opts, text);

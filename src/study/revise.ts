@@ -3,6 +3,7 @@ import { UserError } from '../errors.js';
 import { assignIds, reviveRetired } from '../template/diff.js';
 import { findByPath, pathKey, pathOf, walk } from '../template/paths.js';
 import { parseOutlineOrThrow } from '../template/parse.js';
+import { collectComments } from '../template/comments.js';
 import { printOutline } from '../template/print.js';
 import type { Change, Diagnostic, Revised, Template } from '../template/types.js';
 import { themeCounts } from './status.js';
@@ -94,7 +95,8 @@ export function reviseTemplate(
   const result = db.transaction(() => {
     const prev = currentRevision(db);
     const { template, changes } = op(prev?.template ?? { roots: [] }, themeIdAllocator(db));
-    const outline = printOutline(template);
+    // The researcher's comments in the current outline survive the rewrite.
+    const outline = printOutline(template, prev ? collectComments(prev.outline, prev.template) : undefined);
     const rev = recordRevision(db, { template, changes, outline, action, author, reason });
     writeFileAtomic(join(studyDir, TEMPLATE_FILE), outline);
     return { rev, changes, warnings: [], template };

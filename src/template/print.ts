@@ -1,5 +1,6 @@
 /** Printer for the outline format; parseOutline(printOutline(t)) gives back t (ids and lines aside). */
 
+import type { OutlineComments } from './comments.js';
 import { walk } from './paths.js';
 import type { Template, ThemeNode } from './types.js';
 
@@ -11,13 +12,23 @@ function escape(text: string): string {
   return text.replace(/(^|\s)#/g, '$1\\#');
 }
 
-export function printOutline(template: Template): string {
-  const out: string[] = [];
+/** The outline text; with `comments`, the researcher's comments go back where they belong. */
+export function printOutline(template: Template, comments?: OutlineComments): string {
+  const out: string[] = [...(comments?.header ?? [])];
+  const placed = new Set<string>();
   for (const { node, depth } of walk(template)) {
     const indent = '  '.repeat(depth);
-    out.push(`${indent}${escape(node.name)}${node.integrative ? ' [integrative]' : ''}${node.apriori ? ' [a priori]' : ''}`);
+    for (const c of comments?.before.get(node.id) ?? []) out.push(indent + c);
+    const inline = comments?.inline.get(node.id);
+    out.push(`${indent}${escape(node.name)}${node.integrative ? ' [integrative]' : ''}${node.apriori ? ' [a priori]' : ''}${inline ? `  ${inline}` : ''}`);
     out.push(...noteLines(node, `${indent}  `));
+    placed.add(node.id);
   }
+  // A retired or merged theme's comments are kept, at the end.
+  const orphans = [...(comments?.before ?? [])].filter(([id]) => !placed.has(id)).flatMap(([, cs]) => cs);
+  for (const [id, c] of comments?.inline ?? []) if (!placed.has(id)) orphans.push(c);
+  if (orphans.length) out.push('# Comments kept from themes no longer in the template:', ...orphans);
+  out.push(...(comments?.footer ?? []));
   return out.length > 0 ? `${out.join('\n')}\n` : '';
 }
 

@@ -380,3 +380,18 @@ describe('who is recorded', () => {
     }
   });
 });
+
+describe('comments in template.txt', () => {
+  it('survive template rename, move and retire, and export template', () => {
+    const dir = freshStudy();
+    write(dir, 'outline.txt', `# our template\n${OUTLINE.replace('  Staffing levels\n', '  # agency staff too\n  Staffing levels  # check with the team\n')}`);
+    expect(trellis(['template', 'set', 'outline.txt'], dir).status).toBe(0);
+    expect(trellis(['template', 'rename', 'Staffing levels', 'Staff on shift'], dir).status).toBe(0);
+    expect(trellis(['template', 'move', 'Allergies', '--top', '--reason', 'its own theme'], dir).status).toBe(0);
+    const text = readFileSync(join(dir, 'template.txt'), 'utf8');
+    expect(text).toMatch(/^# our template\n/);
+    expect(text).toContain('  # agency staff too\n  Staff on shift  # check with the team\n');
+    expect(trellis(['export', 'template', '--out', 'again.txt'], dir).status).toBe(0);
+    expect(readFileSync(join(dir, 'again.txt'), 'utf8')).toBe(text);
+  });
+});
