@@ -1,6 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import { decodeText, normaliseText } from '../../src/ingest/decode.js';
-import { UserError } from '../../src/errors.js';
+import { refusal } from '../helpers/refusal.js';
 
 const SAMPLE = 'Interviewer: Where did you train?\n\nP1: In Lyon, at the école — then Zürich.\n';
 
@@ -8,16 +8,6 @@ function utf16(text: string, order: 'le' | 'be', bom = true): Buffer {
   const le = Buffer.from((bom ? '\ufeff' : '') + text, 'utf16le');
   if (order === 'be') le.swap16();
   return le;
-}
-
-function refusal(fn: () => unknown): UserError {
-  try {
-    fn();
-  } catch (e) {
-    expect(e).toBeInstanceOf(UserError);
-    return e as UserError;
-  }
-  throw new Error('expected a UserError');
 }
 
 describe('decodeText', () => {

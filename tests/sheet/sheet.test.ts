@@ -1,7 +1,7 @@
 import { describe, expect, test } from 'vitest';
-import { UserError } from '../../src/errors.js';
 import { decodeText } from '../../src/ingest/decode.js';
 import { parseSheet, writeSheet, type SheetRow } from '../../src/sheet/sheet.js';
+import { refusal } from '../helpers/refusal.js';
 
 const ROWS: SheetRow[] = [
   { passage_id: 't01-mina:3', transcript: 't01-mina', speaker: 'Mina', role: 'participant', time: '0:01:05', text: 'Bed four; stable, "for now".', themes: ['Workload > Staffing levels', 'Patient safety'], note: 'asked twice' },
@@ -18,16 +18,6 @@ function saveWith(sep: string, rows: SheetRow[] = ROWS): string {
   const cell = (v: string) => (/["\n\r;,\t]/.test(v) || v.startsWith('=') ? `"${v.replace(/"/g, '""')}"` : v);
   const head = ['passage_id', 'transcript', 'speaker', 'role', 'time', 'text', 'themes', 'note'];
   return [head.join(sep), ...rows.map((r) => [r.passage_id, r.transcript, r.speaker, r.role, r.time, r.text, r.themes.join('; '), r.note].map(cell).join(sep))].join('\r\n') + '\r\n';
-}
-
-function refusal(fn: () => unknown): UserError {
-  try {
-    fn();
-  } catch (e) {
-    expect(e).toBeInstanceOf(UserError);
-    return e as UserError;
-  }
-  throw new Error('expected a UserError');
 }
 
 describe('parseSheet', () => {
