@@ -40,6 +40,8 @@ export function reasonText(r: Reason, snippets: Snippets): string {
       return `seed terms: ${r.terms.join(', ')}`;
     case 'seed-only':
       return 'profile from the definition and seed terms only (no coded passage yet)';
+    case 'parent':
+      return `fits ${r.theme}; no sub-theme stands out`;
     case 'context':
       return `the surrounding passages point here too (${num(r.weight)})`;
     case 'question':

@@ -29,6 +29,7 @@ import { choiceLoss, fitChoice, type ChoiceData, type ChoiceModel } from './choi
 import { fitGrouped } from './logistic.js';
 import { adjacent, question, transcript as transcriptContext } from './context.js';
 import { fingerprint } from './fingerprint.js';
+import { fitFewshot, type FewshotOptions, type FewshotState } from './fewshot.js';
 import { buildTree, chooseThemes, rolledUpLabels, type Tree } from './hierarchy.js';
 import { CENTROID, EXEMPLARS, LOGODDS, Profiles, SIGNALS, type Corpus } from './profiles.js';
 import { chooseThreshold, precisionRecallAt } from './thresholds.js';
@@ -56,13 +57,13 @@ const SCREEN_STEPS = 2;
 /** Newton steps of the base layer. */
 const BASE_STEPS = 4;
 
-export type ResolvedOptions = Required<Omit<SuggesterOptions, 'signals'>> & { signals: Record<SignalName, boolean> };
+export type ResolvedOptions = Required<Omit<SuggesterOptions, 'signals' | 'fewshot'>> & { signals: Record<SignalName, boolean>; fewshot: FewshotOptions };
 
 export function resolveOptions(o: SuggesterOptions = {}): ResolvedOptions {
   return {
     targetPrecision: o.targetPrecision ?? 0.7,
     bigrams: o.bigrams ?? false,
-    minExamples: o.minExamples ?? 5,
+    minExamples: o.minExamples ?? 3,
     minTranscripts: o.minTranscripts ?? 2,
     priorStrength: o.priorStrength ?? 500,
     neighbours: o.neighbours ?? 5,
@@ -74,6 +75,8 @@ export function resolveOptions(o: SuggesterOptions = {}): ResolvedOptions {
     competition: o.competition ?? 'level',
     rocchio: o.rocchio ?? 0.25,
     looCorrection: o.looCorrection ?? true,
+    scorer: o.scorer ?? 'fewshot',
+    fewshot: o.fewshot ?? {},
     signals: {
       centroid: o.signals?.centroid ?? true,
       logodds: o.signals?.logodds ?? true,
@@ -102,7 +105,9 @@ export interface SuggesterState {
   version: 2;
   options: ResolvedOptions;
   tfidf: TfidfState;
-  themes: { id: string; path: string; profiled: boolean; seedOnly: boolean; tooFew: boolean }[];
+  themes: { id: string; path: string; profiled: boolean; seedOnly: boolean; tooFew: boolean; scored: boolean }[];
+  /** The few-example scorer's learned state, when it gave the confidences. */
+  fewshot: FewshotState | null;
   base: LayerState;
   context: LayerState & { decay: number; scale: 'mean' | 'sqrt'; logLoss: Record<string, number> };
   /** Whether a passage is coded at all, from its log length (a spline with these knots) and role. */
@@ -418,13 +423,42 @@ export class ThemeSuggester {
       }
     }
 
+    // The few-example scorer replaces the confidences (the profiles above still give reasons).
+    const few = o.scorer === 'fewshot' ? fitFewshot(passages, codings, themes, { targetPrecision: o.targetPrecision, ...o.fewshot }, extra.negatives ?? []) : null;
+    const scored = themes.map((_, t) => (few ? few.state.themes[t]!.rolled > 0 || few.state.seeds[t]!.indices.length > 0 : profiled[t]! || (seedOnly[t]! && !!seedCalibrator)));
+    const heldOutOf: number[][] = themes.map(() => []);
+    if (few) {
+      this.conf = new Float64Array(few.cells.conf);
+      for (let cell = 0; cell < nP * nT; cell++) {
+        const c = Math.min(Math.max(this.conf[cell]!, 1e-12), 1 - 1e-12);
+        this.score[cell] = Math.log(c / (1 - c));
+        const ci = few.cells.nearest[cell]!;
+        this.nearest[cell] = ci >= 0 ? this.pIndex.get(few.state.coded[ci]!.id)! : -1;
+        this.nearestSim[cell] = ci >= 0 ? few.cells.raw[cell * 4 + 2]! : 0;
+      }
+      few.heldOut.theme.forEach((t, i) => heldOutOf[t]!.push(i));
+      for (let t = 0; t < nT; t++) tooFew[t] = scored[t]! && (few.state.themes[t]!.rolled < o.minExamples || few.state.themes[t]!.transcripts < Math.min(o.minTranscripts, codedTranscript.reduce((a, b) => a + b, 0)));
+    }
+
     // 5. Thresholds per theme, on the LOTO confidences of the coded batch.
-    const thresholds = themes.map(() => o.targetPrecision);
+    const thresholds = themes.map(() => (few ? few.state.threshold : o.targetPrecision));
     const reports: ThemeReport[] = themes.map((th, t) => {
       const warnings: string[] = [];
       let expectedPrecision: number | null = null;
       let expectedRecall: number | null = null;
-      if (profiled[t] && !tooFew[t]) {
+      if (few) {
+        const rows = heldOutOf[t]!;
+        const at = precisionRecallAt(rows.map((i) => few.heldOut.conf[i]!), rows.map((i) => few.heldOut.y[i]!), thresholds[t]!);
+        const n = few.state.themes[t]!.rolled;
+        if (!scored[t]) warnings.push('no coded passage, name terms, definition or seeds: not suggested');
+        else if (n === 0) warnings.push('no coded passage yet: profile from its name, definition and seeds only; confidence from the calibration shared by all themes, not checked on this theme');
+        else if (tooFew[t]) {
+          warnings.push(`too few examples: ${n} coded passage(s) in ${few.state.themes[t]!.transcripts} transcript(s) (needs ${o.minExamples} in ${o.minTranscripts} to be checked on its own codings); its confidence comes from the calibration shared by all themes`);
+        } else {
+          expectedPrecision = at.precision;
+          expectedRecall = at.recall;
+        }
+      } else if (profiled[t] && !tooFew[t]) {
         const confs = rowsOf[t]!.map((r) => this.conf[sets.cells[r]!]!);
         const l = rowsOf[t]!.map((r) => sets.y[r]!);
         const choice = chooseThreshold(confs, l, o.targetPrecision);
@@ -456,7 +490,7 @@ export class ThemeSuggester {
         threshold: thresholds[t]!,
         expectedPrecision,
         expectedRecall,
-        seedOnly: seedOnly[t]!,
+        seedOnly: few ? scored[t]! && few.state.themes[t]!.rolled === 0 : seedOnly[t]!,
         tooFew: tooFew[t]!,
         warnings,
       };
@@ -479,7 +513,8 @@ export class ThemeSuggester {
       version: 2,
       options: o,
       tfidf: this.vec.state,
-      themes: themes.map((th, t) => ({ id: th.id, path: th.path, profiled: profiled[t]!, seedOnly: seedOnly[t]!, tooFew: tooFew[t]! })),
+      themes: themes.map((th, t) => ({ id: th.id, path: th.path, profiled: profiled[t]!, seedOnly: few ? scored[t]! && few.state.themes[t]!.rolled === 0 : seedOnly[t]!, tooFew: tooFew[t]!, scored: scored[t]! })),
+      fewshot: few ? few.state : null,
       base,
       context: { ...ctx.layer, decay: ctx.decay, scale: ctx.scale, logLoss: lossBy },
       substance,
@@ -588,7 +623,7 @@ export class ThemeSuggester {
     const nT = st.themes.length;
     const ids = passageIds ?? this.passages.map((p) => p.id);
     const scoredThemes: number[] = [];
-    for (let t = 0; t < nT; t++) if (st.themes[t]!.profiled || (st.themes[t]!.seedOnly && st.seedCalibrator)) scoredThemes.push(t);
+    for (let t = 0; t < nT; t++) if (st.themes[t]!.scored) scoredThemes.push(t);
     const seeds = this.tree.themes.map((th) => this.seedList(th));
     const conf = this.conf;
     const score = this.score;
@@ -601,7 +636,7 @@ export class ThemeSuggester {
       const above = scored.filter((t) => conf[o + t]! >= st.thresholds[t]!);
       const chosen = chooseThemes(this.tree, above);
       const explain = scored.filter((t, r) => r < withReasons || chosen.has(t));
-      const near = explain.length && !this.options.signals.exemplars ? this.profiles.nearestExemplars(p, explain) : null;
+      const near = explain.length && !this.options.signals.exemplars && !st.fewshot ? this.profiles.nearestExemplars(p, explain) : null;
       const have = explain.some((t) => seeds[t]!.length) ? new Set(this.termLists[p]) : null;
       const candidates: Candidate[] = scored.map((t, r) => ({
         themeId: st.themes[t]!.id,
@@ -609,16 +644,18 @@ export class ThemeSuggester {
         confidence: conf[o + t]!,
         aboveThreshold: conf[o + t]! >= st.thresholds[t]!,
         chosen: chosen.has(t),
-        reasons: r < withReasons || chosen.has(t) ? this.reasons(p, t, near, seeds[t]!, have) : [],
+        reasons: r < withReasons || chosen.has(t) ? this.reasons(p, t, near, seeds[t]!, have, chosen.has(t)) : [],
       }));
       return { passageId: id, transcript: this.passages[p]!.transcript, candidates, unclaimed: chosen.size === 0 };
     });
   }
 
-  private reasons(p: number, t: number, near: { nearest: Int32Array; sim: Float64Array } | null, seeds: string[], have: Set<string> | null): Reason[] {
+  private reasons(p: number, t: number, near: { nearest: Int32Array; sim: Float64Array } | null, seeds: string[], have: Set<string> | null, chosen = false): Reason[] {
     const st = this.state;
     const nT = st.themes.length;
     const out: Reason[] = [];
+    // A parent chosen over its sub-themes: the evidence is for it and none of them clears.
+    if (chosen && !this.tree.isLeaf[t]) out.push({ kind: 'parent', theme: this.tree.themes[t]!.name });
     if (st.themes[t]!.profiled) {
       const terms = this.matchedTerms(p, t, 5);
       if (terms.length) out.push({ kind: 'terms', terms });

@@ -237,7 +237,8 @@ describe('rejected suggestions are negative evidence', () => {
       expect(after, id).toBeLessThan(0.7 * before);
     }
     // Messaging talk looks like admin talk before any decision.
-    expect(Math.min(...fresh.map((id) => conf(without, id, 'admin')))).toBeGreaterThan(0.2);
+    // (ranked first of the leaf themes, so the test is about the rejection and not a weak theme)
+    for (const id of fresh) expect(without.predict([id])[0]!.candidates.find((c) => LEAVES.has(c.themeId))!.themeId, id).toBe('admin');
   });
 
   it('leave genuine passages of the theme to it', () => {

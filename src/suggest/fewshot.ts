@@ -1,0 +1,599 @@
+/**
+ * The few-example scorer: every theme is a candidate from its first coded passage (or, with none,
+ * from its name, definition and seed terms), and one calibration shared by all themes turns its
+ * signals into the chance that the coder would give that very theme.
+ *
+ * Signals per (passage, theme), all on TF-IDF vectors (sublinear tf, smoothed idf, unit length)
+ * fitted on every passage of the study:
+ *  - mnb: multinomial log-likelihood of the passage under the theme's term distribution, shrunk
+ *    toward its ancestors' (hierarchical shrinkage: each level's distribution is its own counts
+ *    plus mu times its parent's, divided by their sum; the top level shrinks toward all coded
+ *    passages, and those toward the uniform distribution);
+ *  - cnb: Complement Naive Bayes, minus the log-likelihood under the theme's complement (the
+ *    coded passages carrying other themes), Laplace-smoothed by alpha;
+ *  - knn: cosine to the nearest coded passage of the theme or of a sub-theme;
+ *  - seed: cosine to the theme's name, definition and seed terms;
+ *  - context: the same signals of the neighbouring passages of the transcript, weighted by
+ *    decay^distance (neighbouring passages of an interview often share their themes).
+ * Text signals are standardised within each passage over the themes that have coded passages,
+ * so their meaning does not depend on a passage's length or a theme's size.
+ *
+ * The calibration is one logistic regression over all (passage, theme) cells, with the signals
+ * and what is known of the theme (its coded passages, its own and its sub-themes', its depth and
+ * its sub-themes), fitted on the coded transcripts, each scored by a model that left it out.
+ * The outcome is the theme itself (not a sub-theme of it): a parent is likely only when coders
+ * gave the parent itself.
+ */
+import { TfidfVectorizer, type TfidfState } from '../text/tfidf.js';
+import type { SparseVector } from '../text/vectors.js';
+import { buildTree, type Tree } from './hierarchy.js';
+import { fitGrouped, sigmoid } from './logistic.js';
+import { chooseThreshold } from './thresholds.js';
+import type { Coding, ModelPassage, ThemeInfo } from './types.js';
+
+export interface FewshotOptions {
+  /** Laplace smoothing of the complement counts (scikit-learn's ComplementNB alpha). */
+  alpha?: number;
+  /** Shrinkage strength toward the parent's distribution, in passages' worth of mass. */
+  mu?: number;
+  /** Weight of a neighbour at distance d in the context signals: decay^d (0 turns context off). */
+  decay?: number;
+  /** Neighbours on each side that context looks at. */
+  reach?: number;
+  /** Ridge penalty of the calibration's weights (features standardised). */
+  ridge?: number;
+  /** Precision the shared threshold must reach on the left-out coded transcripts. */
+  targetPrecision?: number;
+  /** Features of the calibration to leave out (for measurement). */
+  drop?: string[];
+}
+
+export type FewshotResolved = Required<FewshotOptions>;
+
+export function resolveFewshot(o: FewshotOptions = {}): FewshotResolved {
+  return {
+    alpha: o.alpha ?? 0.3,
+    mu: o.mu ?? 2,
+    decay: o.decay ?? 0.6,
+    reach: o.reach ?? 3,
+    ridge: o.ridge ?? 1,
+    targetPrecision: o.targetPrecision ?? 0.7,
+    drop: o.drop ?? [],
+  };
+}
+
+/** Raw signals of one passage against every theme. */
+const RAW = ['mnb', 'cnb', 'knn', 'seed'] as const;
+const NR = RAW.length;
+
+export const FEATURES = [
+  'mnb_z',
+  'cnb_z',
+  'knn',
+  'seed',
+  'ctx_mnb',
+  'ctx_cnb',
+  'ctx_knn',
+  'ctx_seed',
+  'first',
+  'log_rank',
+  'has',
+  'log_direct',
+  'log_below',
+  'depth',
+  'log_children',
+  'seed_uncoded',
+  'ctx_seed_uncoded',
+] as const;
+
+/** What the calibration learned, as plain data. */
+export interface Calibration {
+  features: string[];
+  mean: number[];
+  sd: number[];
+  weights: number[];
+  intercept: number;
+}
+
+/** The learned state: enough to score any passage, including one added after the fit. */
+export interface FewshotState {
+  version: 1;
+  options: FewshotResolved;
+  tfidf: TfidfState;
+  themes: { id: string; path: string; parent: number; depth: number; children: number; direct: number; rolled: number; transcripts: number }[];
+  /** Per theme, the summed vectors of its coded passages and of its sub-themes' (sparse). */
+  counts: { indices: number[]; values: number[] }[];
+  /** Summed vectors of every coded passage. */
+  all: { indices: number[]; values: number[] };
+  /** Coded passages (for the nearest-passage signal): id, transcript, vector, themes (rolled up). */
+  coded: { id: string; transcript: string; indices: number[]; values: number[]; themes: number[] }[];
+  /** Rejected suggestions: the passage's vector and the themes it was rejected for. */
+  rejected: { indices: number[]; values: number[]; themes: number[] }[];
+  /** Per theme, its name, definition and seed terms as a vector (empty when it has none). */
+  seeds: { indices: number[]; values: number[] }[];
+  /** Average mass (sum of weights) of a coded passage's vector: the unit of mu. */
+  unitMass: number;
+  calibration: Calibration;
+  threshold: number;
+  /** Precision and recall of the threshold on the left-out coded transcripts. */
+  expected: { precision: number; recall: number; reached: boolean };
+}
+
+/** Dense working copy of the counts, mutated while a coded transcript is left out. */
+interface Stats {
+  nT: number;
+  V: number;
+  tree: Tree;
+  order: number[]; // themes, parents before children
+  R: Float64Array; // nT * V
+  tot: Float64Array; // nT
+  G: Float64Array; // V
+  gtot: number;
+  rolled: Float64Array; // coded passages per theme (rolled up), in this fold
+  direct: Float64Array;
+  /** Rejected passages' vectors and themes (the nearest one counts against the theme). */
+  rejected: { vector: SparseVector; themes: number[] }[];
+  /** Inverted index of coded passages: per term, [coded index, weight] pairs. */
+  post: { c: number[]; w: number[] }[];
+  codedThemes: number[][];
+  codedTranscript: number[];
+  seeds: SparseVector[];
+  unit: number;
+  o: FewshotResolved;
+}
+
+export interface ScoredCells {
+  /** [passage * nT + theme] calibrated confidence. */
+  conf: Float64Array;
+  /** [passage * nT + theme] raw signals (RAW order), for reasons. */
+  raw: Float64Array;
+  /** Nearest coded passage per cell (index into state.coded), -1 when none. */
+  nearest: Int32Array;
+}
+
+const sp = (v: SparseVector) => ({ indices: [...v.indices], values: [...v.values] });
+
+export interface FewshotFit {
+  state: FewshotState;
+  /** Left-out confidences of the coded transcripts' cells, with their outcomes (for reports). */
+  heldOut: { passage: number[]; theme: number[]; conf: number[]; y: number[] };
+  /** Scores of every passage given to fit (coded transcripts: left-out scores). */
+  cells: ScoredCells;
+}
+
+/** Seed vector terms of a theme: name and definition terms, seeds twice (chosen on purpose). */
+export function seedTermsOf(th: ThemeInfo): string[] {
+  const name = th.nameTerms ?? th.name.toLowerCase().match(/\p{L}[\p{L}'-]*/gu) ?? [];
+  const seeds = th.seeds.flatMap((s) => s.split(/\s+/).filter(Boolean));
+  return [...name, ...name, ...(th.definitionTerms ?? []), ...seeds, ...seeds];
+}
+
+export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: ThemeInfo[], opts: FewshotOptions = {}, negatives: Coding[] = []): FewshotFit {
+  const o = resolveFewshot(opts);
+  const tree = buildTree(themes);
+  const nT = themes.length;
+  const pIndex = new Map(passages.map((p, i) => [p.id, i]));
+  const direct: number[][] = passages.map(() => []);
+  for (const c of codings) {
+    const p = pIndex.get(c.passageId);
+    const t = tree.index.get(c.themeId);
+    if (p === undefined || t === undefined || direct[p]!.includes(t)) continue;
+    direct[p]!.push(t);
+  }
+  const rolledOf = (ts: number[]) => [...new Set(ts.flatMap((t) => [t, ...tree.ancestors[t]!]))].sort((a, b) => a - b);
+
+  // Transcripts in input order; a transcript with a coding is coded throughout.
+  const tIndex = new Map<string, number>();
+  const members: number[][] = [];
+  const transcriptOf = new Int32Array(passages.length);
+  passages.forEach((p, i) => {
+    let ti = tIndex.get(p.transcript);
+    if (ti === undefined) tIndex.set(p.transcript, (ti = members.length)), members.push([]);
+    members[ti]!.push(i);
+    transcriptOf[i] = ti;
+  });
+  const codedT = new Uint8Array(members.length);
+  direct.forEach((d, p) => d.length && (codedT[transcriptOf[p]!] = 1));
+
+  const vec = new TfidfVectorizer();
+  const { vectors: x } = vec.fitVectorise(passages.map((p) => p.terms));
+  const V = vec.size;
+
+  const codedIdx: number[] = [];
+  for (let p = 0; p < passages.length; p++) if (direct[p]!.length) codedIdx.push(p);
+  const seedVecs = themes.map((th) => vec.vector(seedTermsOf(th)));
+
+  const state0 = {
+    tree,
+    coded: codedIdx.map((p) => ({ vector: x[p]!, themes: rolledOf(direct[p]!), direct: direct[p]!, transcript: transcriptOf[p]! })),
+  };
+  // Rejections (not of a theme the passage is coded with, or inherits from a sub-theme).
+  const negOf = new Map<number, number[]>();
+  for (const n of negatives) {
+    const p = pIndex.get(n.passageId);
+    const t = tree.index.get(n.themeId);
+    if (p === undefined || t === undefined || rolledOf(direct[p]!).includes(t)) continue;
+    const l = negOf.get(p) ?? negOf.set(p, []).get(p)!;
+    if (!l.includes(t)) l.push(t);
+  }
+  const rejected = [...negOf].sort((a, b) => a[0] - b[0]).map(([p, ts]) => ({ vector: x[p]!, themes: ts }));
+  const st = buildStats(state0.coded, tree, V, seedVecs, o, rejected);
+
+  const nP = passages.length;
+  const raw = new Float64Array(nP * nT * NR);
+  const nearest = new Int32Array(nP * nT).fill(-1);
+  // Left-out signals for the coded transcripts; full-model signals for the others.
+  const codedOfT = new Map<number, number[]>();
+  state0.coded.forEach((c, ci) => (codedOfT.get(c.transcript) ?? codedOfT.set(c.transcript, []).get(c.transcript)!).push(ci));
+  for (let ti = 0; ti < members.length; ti++) {
+    const out = codedOfT.get(ti) ?? [];
+    const restore = out.length ? leaveOut(st, state0.coded, out, -1) : null;
+    for (const p of members[ti]!) rawSignals(st, x[p]!, out.length ? ti : -1, raw, nearest, p);
+    if (restore) restore();
+  }
+  const feats = cellFeatures(st, raw, members, nP);
+
+  // Calibration rows: every cell of the coded transcripts.
+  const rows: number[] = [];
+  for (let ti = 0; ti < members.length; ti++) if (codedT[ti]) for (const p of members[ti]!) for (let t = 0; t < nT; t++) rows.push(p * nT + t);
+  const keep = FEATURES.map((f, j) => (o.drop.includes(f) ? -1 : j)).filter((j) => j >= 0);
+  const k = keep.length;
+  const mean = keep.map((j) => rows.reduce((a, cell) => a + feats[cell * NF + j]!, 0) / Math.max(rows.length, 1));
+  const sd = keep.map((j, q) => Math.sqrt(rows.reduce((a, cell) => a + (feats[cell * NF + j]! - mean[q]!) ** 2, 0) / Math.max(rows.length, 1)) || 1);
+  const X = new Float64Array(rows.length * k);
+  const y = new Uint8Array(rows.length);
+  rows.forEach((cell, i) => {
+    keep.forEach((j, q) => (X[i * k + q] = (feats[cell * NF + j]! - mean[q]!) / sd[q]!));
+    y[i] = direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0;
+  });
+  const m = fitGrouped({ x: X, k, y, group: new Int32Array(rows.length), groups: 1 }, o.ridge);
+  const calibration: Calibration = { features: keep.map((j) => FEATURES[j]!), mean, sd, weights: m.weights, intercept: m.intercepts[0]! };
+  const conf = applyCalibration(calibration, feats, nP * nT);
+  const heldConf = rows.map((cell) => conf[cell]!);
+  const choice = chooseThreshold(heldConf, y, o.targetPrecision, 5);
+
+  const themesOut = themes.map((th, t) => ({
+    id: th.id,
+    path: th.path,
+    parent: tree.parent[t]!,
+    depth: tree.ancestors[t]!.length,
+    children: themes.filter((_, u) => tree.parent[u] === t).length,
+    direct: codedIdx.filter((p) => direct[p]!.includes(t)).length,
+    rolled: state0.coded.filter((c) => c.themes.includes(t)).length,
+    transcripts: new Set(state0.coded.filter((c) => c.themes.includes(t)).map((c) => c.transcript)).size,
+  }));
+  const state: FewshotState = {
+    version: 1,
+    options: o,
+    tfidf: vec.state,
+    themes: themesOut,
+    counts: Array.from({ length: nT }, (_, t) => denseToSparse(st.R.subarray(t * V, (t + 1) * V))),
+    all: denseToSparse(st.G),
+    coded: codedIdx.map((p, ci) => ({ id: passages[p]!.id, transcript: passages[p]!.transcript, ...sp(x[p]!), themes: state0.coded[ci]!.themes })),
+    rejected: rejected.map((r) => ({ ...sp(r.vector), themes: r.themes })),
+    seeds: seedVecs.map(sp),
+    unitMass: st.unit,
+    calibration,
+    threshold: choice.threshold,
+    expected: { precision: choice.precision, recall: choice.recall, reached: choice.reached },
+  };
+  return {
+    state,
+    heldOut: { passage: rows.map((c) => (c / nT) | 0), theme: rows.map((c) => c % nT), conf: heldConf, y: [...y] },
+    cells: { conf, raw, nearest },
+  };
+}
+
+/**
+ * Scores passages with a fitted state only (they need not have been seen by the fit). Passages
+ * are given in transcript order, so that context can look at their neighbours.
+ */
+export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages: ModelPassage[]): ScoredCells {
+  const o = state.options;
+  const tree = buildTree(themes);
+  const vec = TfidfVectorizer.fromState(state.tfidf);
+  const V = vec.size;
+  const nT = state.themes.length;
+  const coded = state.coded.map((c) => ({
+    vector: { indices: Int32Array.from(c.indices), values: Float64Array.from(c.values) },
+    themes: c.themes,
+    direct: [],
+    transcript: -1,
+  }));
+  const dense = (s: { indices: number[]; values: number[] }) => ({ indices: Int32Array.from(s.indices), values: Float64Array.from(s.values) });
+  const st = buildStats(coded, tree, V, state.seeds.map(dense), o, state.rejected.map((r) => ({ vector: dense(r), themes: r.themes })));
+  const members: number[][] = [];
+  let last: string | null = null;
+  passages.forEach((p, i) => {
+    if (p.transcript !== last) members.push([]), (last = p.transcript);
+    members[members.length - 1]!.push(i);
+  });
+  const nP = passages.length;
+  const raw = new Float64Array(nP * nT * NR);
+  const nearest = new Int32Array(nP * nT).fill(-1);
+  passages.forEach((p, i) => rawSignals(st, vec.vector(p.terms), -1, raw, nearest, i));
+  const feats = cellFeatures(st, raw, members, nP);
+  return { conf: applyCalibration(state.calibration, feats, nP * nT), raw, nearest };
+}
+
+function denseToSparse(d: ArrayLike<number>): { indices: number[]; values: number[] } {
+  const indices: number[] = [];
+  const values: number[] = [];
+  for (let j = 0; j < d.length; j++) if (d[j]) indices.push(j), values.push(d[j]!);
+  return { indices, values };
+}
+
+function buildStats(
+  coded: { vector: SparseVector; themes: number[]; transcript: number }[],
+  tree: Tree,
+  V: number,
+  seeds: SparseVector[],
+  o: FewshotResolved,
+  rejected: { vector: SparseVector; themes: number[] }[] = [],
+): Stats {
+  const nT = tree.themes.length;
+  const R = new Float64Array(nT * V);
+  const tot = new Float64Array(nT);
+  const G = new Float64Array(V);
+  let gtot = 0;
+  const rolled = new Float64Array(nT);
+  const post = Array.from({ length: V }, () => ({ c: [] as number[], w: [] as number[] }));
+  coded.forEach((c, ci) => {
+    const v = c.vector;
+    let mass = 0;
+    for (let k = 0; k < v.indices.length; k++) {
+      const j = v.indices[k]!;
+      const w = v.values[k]!;
+      mass += w;
+      G[j] = G[j]! + w;
+      post[j]!.c.push(ci);
+      post[j]!.w.push(w);
+      for (const t of c.themes) R[t * V + j] = R[t * V + j]! + w;
+    }
+    gtot += mass;
+    for (const t of c.themes) (tot[t] = tot[t]! + mass), rolled[t]!++;
+  });
+  // A rejected passage joins the complement of every theme (its words are evidence of "the rest"),
+  // and one passage's worth of its vector is taken from the rejected theme's counts (Rocchio).
+  for (const r of rejected) {
+    const v = r.vector;
+    let mass = 0;
+    for (let k = 0; k < v.indices.length; k++) {
+      const j = v.indices[k]!;
+      const w = v.values[k]!;
+      mass += w;
+      G[j] = G[j]! + w;
+      for (const t of r.themes) {
+        const cut = Math.min(R[t * V + j]!, w);
+        R[t * V + j] = R[t * V + j]! - cut;
+        tot[t] = tot[t]! - cut;
+      }
+    }
+    gtot += mass;
+  }
+  const order = [...Array(nT).keys()].sort((a, b) => tree.ancestors[a]!.length - tree.ancestors[b]!.length || a - b);
+  return {
+    nT,
+    V,
+    tree,
+    order,
+    R,
+    tot,
+    G,
+    gtot,
+    rolled,
+    direct: new Float64Array(nT),
+    post,
+    rejected,
+    codedThemes: coded.map((c) => c.themes),
+    codedTranscript: coded.map((c) => c.transcript),
+    seeds,
+    unit: coded.length ? (gtot - rejected.reduce((a, r) => a + r.vector.values.reduce((b, w) => b + w, 0), 0)) / coded.length : 1,
+    o,
+  };
+}
+
+/** Takes the given coded passages out of the counts; returns the function that puts them back exactly. */
+function leaveOut(st: Stats, coded: { vector: SparseVector; themes: number[] }[], out: number[], _: number): () => void {
+  const saved: [Float64Array, number, number][] = [];
+  const save = (a: Float64Array, i: number) => saved.push([a, i, a[i]!]);
+  const gtot = st.gtot;
+  for (const ci of out) {
+    const c = coded[ci]!;
+    let mass = 0;
+    for (let k = 0; k < c.vector.indices.length; k++) {
+      const j = c.vector.indices[k]!;
+      const w = c.vector.values[k]!;
+      mass += w;
+      save(st.G, j);
+      st.G[j] = st.G[j]! - w;
+      for (const t of c.themes) {
+        save(st.R, t * st.V + j);
+        st.R[t * st.V + j] = st.R[t * st.V + j]! - w;
+      }
+    }
+    st.gtot -= mass;
+    for (const t of c.themes) {
+      save(st.tot, t);
+      save(st.rolled, t);
+      st.tot[t] = st.tot[t]! - mass;
+      st.rolled[t] = st.rolled[t]! - 1;
+    }
+  }
+  return () => {
+    for (let i = saved.length - 1; i >= 0; i--) saved[i]![0][saved[i]![1]] = saved[i]![2];
+    st.gtot = gtot;
+  };
+}
+
+/** The raw signals of one passage vector against every theme, written at row p. */
+function rawSignals(st: Stats, x: SparseVector, skipTranscript: number, raw: Float64Array, nearest: Int32Array, p: number): void {
+  const { nT, V, R, tot, G, tree, o } = st;
+  const n = x.indices.length;
+  const mu = o.mu * st.unit;
+  // Top level: all coded passages shrunk toward the uniform distribution.
+  const top = new Float64Array(n);
+  for (let k = 0; k < n; k++) top[k] = (G[x.indices[k]!]! + mu / V) / (st.gtot + mu);
+  const theta = new Float64Array(nT * n);
+  const base = p * nT * NR;
+  for (const t of st.order) {
+    const up = tree.parent[t]!;
+    let ll = 0;
+    let cl = 0;
+    const ct = st.gtot - tot[t]! + o.alpha * V;
+    for (let k = 0; k < n; k++) {
+      const j = x.indices[k]!;
+      const prior = up >= 0 ? theta[up * n + k]! : top[k]!;
+      const th = (R[t * V + j]! + mu * prior) / (tot[t]! + mu);
+      theta[t * n + k] = th;
+      ll += x.values[k]! * Math.log(th);
+      cl -= x.values[k]! * Math.log((G[j]! - R[t * V + j]! + o.alpha) / ct);
+    }
+    raw[base + t * NR] = ll;
+    raw[base + t * NR + 1] = cl;
+    // Seed cosine (both unit length).
+    const s = st.seeds[t]!;
+    let dot = 0;
+    for (let a = 0, b = 0; a < n && b < s.indices.length; ) {
+      const ia = x.indices[a]!;
+      const ib = s.indices[b]!;
+      if (ia === ib) dot += x.values[a++]! * s.values[b++]!;
+      else if (ia < ib) a++;
+      else b++;
+    }
+    raw[base + t * NR + 3] = dot;
+  }
+  // Nearest coded passage of each theme (sub-themes' passages count for the parent).
+  const sims = new Float64Array(st.codedThemes.length);
+  for (let k = 0; k < n; k++) {
+    const ps = st.post[x.indices[k]!]!;
+    const w = x.values[k]!;
+    for (let q = 0; q < ps.c.length; q++) sims[ps.c[q]!] = sims[ps.c[q]!]! + w * ps.w[q]!;
+  }
+  for (let ci = 0; ci < sims.length; ci++) {
+    if (skipTranscript >= 0 && st.codedTranscript[ci] === skipTranscript) continue;
+    const s = sims[ci]!;
+    for (const t of st.codedThemes[ci]!) {
+      if (s > raw[base + t * NR + 2]!) {
+        raw[base + t * NR + 2] = s;
+        nearest[p * nT + t] = ci;
+      }
+    }
+  }
+  // The nearest-passage signal less the similarity to the nearest rejected passage of the theme.
+  for (const r of st.rejected) {
+    const v = r.vector;
+    let dot = 0;
+    for (let a = 0, b = 0; a < n && b < v.indices.length; ) {
+      const ia = x.indices[a]!;
+      const ib = v.indices[b]!;
+      if (ia === ib) dot += x.values[a++]! * v.values[b++]!;
+      else if (ia < ib) a++;
+      else b++;
+    }
+    if (dot >= 1 - 1e-9) continue; // the rejected passage itself
+    for (const t of r.themes) raw[base + t * NR + 2] = Math.min(raw[base + t * NR + 2]!, Math.max(0, raw[base + t * NR + 2]! - dot) );
+  }
+  // Which themes have coded passages in this fold (for the standardising).
+  for (let t = 0; t < nT; t++) if (!(st.rolled[t]! > 0)) raw[base + t * NR] = raw[base + t * NR + 1] = NaN;
+}
+
+const NF = FEATURES.length;
+
+/** The calibration's features of every cell, from the raw signals (context within each run of members). */
+function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: number): Float64Array {
+  const { nT, tree, o } = st;
+  const own = new Float64Array(nP * nT * 4); // mnb_z, cnb_z, knn, seed
+  const f = new Float64Array(nP * nT * NF);
+  const zs = [0, 1];
+  for (let p = 0; p < nP; p++) {
+    for (const r of zs) {
+      let s = 0;
+      let s2 = 0;
+      let c = 0;
+      for (let t = 0; t < nT; t++) {
+        const v = raw[(p * nT + t) * NR + r]!;
+        if (Number.isNaN(v)) continue;
+        s += v;
+        s2 += v * v;
+        c++;
+      }
+      const m = c ? s / c : 0;
+      const sd = c > 1 ? Math.sqrt(Math.max(s2 / c - m * m, 0)) || 1 : 1;
+      for (let t = 0; t < nT; t++) {
+        const v = raw[(p * nT + t) * NR + r]!;
+        own[(p * nT + t) * 4 + r] = Number.isNaN(v) ? 0 : (v - m) / sd;
+      }
+    }
+    for (let t = 0; t < nT; t++) {
+      own[(p * nT + t) * 4 + 2] = raw[(p * nT + t) * NR + 2]!;
+      own[(p * nT + t) * 4 + 3] = raw[(p * nT + t) * NR + 3]!;
+    }
+  }
+  const children = new Float64Array(nT);
+  for (let t = 0; t < nT; t++) if (tree.parent[t]! >= 0) children[tree.parent[t]!]!++;
+  const below = new Float64Array(nT);
+  // Direct counts are not in Stats (rolled only): the sub-themes' share is rolled minus own,
+  // estimated as the children's rolled counts.
+  for (let t = 0; t < nT; t++) if (tree.parent[t]! >= 0) below[tree.parent[t]!] = below[tree.parent[t]!]! + st.rolled[t]!;
+  for (const m of members) {
+    for (let i = 0; i < m.length; i++) {
+      const p = m[i]!;
+      // Rank of each theme by the combined standardised score.
+      const comb = new Float64Array(nT);
+      for (let t = 0; t < nT; t++) comb[t] = own[(p * nT + t) * 4]! + own[(p * nT + t) * 4 + 1]!;
+      const rankOrder = [...Array(nT).keys()].filter((t) => st.rolled[t]! > 0).sort((a, b) => comb[b]! - comb[a]! || a - b);
+      const rank = new Float64Array(nT).fill(nT);
+      rankOrder.forEach((t, r) => (rank[t] = r + 1));
+      for (let t = 0; t < nT; t++) {
+        const cell = p * nT + t;
+        const at = cell * NF;
+        const has = st.rolled[t]! > 0 ? 1 : 0;
+        const ctx = [0, 0, 0, 0];
+        let wsum = 0;
+        if (o.decay > 0) {
+          for (let d = 1; d <= o.reach; d++) {
+            const w = o.decay ** d;
+            for (const q of [i - d, i + d]) {
+              if (q < 0 || q >= m.length) continue;
+              const c2 = (m[q]! * nT + t) * 4;
+              for (let r = 0; r < 4; r++) ctx[r] = ctx[r]! + w * own[c2 + r]!;
+              wsum += w;
+            }
+          }
+        }
+        if (wsum) for (let r = 0; r < 4; r++) ctx[r] = ctx[r]! / wsum;
+        const directN = Math.max(st.rolled[t]! - below[t]!, 0);
+        f[at] = own[cell * 4]!;
+        f[at + 1] = own[cell * 4 + 1]!;
+        f[at + 2] = own[cell * 4 + 2]!;
+        f[at + 3] = own[cell * 4 + 3]!;
+        f[at + 4] = ctx[0]!;
+        f[at + 5] = ctx[1]!;
+        f[at + 6] = ctx[2]!;
+        f[at + 7] = ctx[3]!;
+        f[at + 8] = rank[t] === 1 ? 1 : 0;
+        f[at + 9] = Math.log(rank[t]!);
+        f[at + 10] = has;
+        f[at + 11] = Math.log1p(directN);
+        f[at + 12] = Math.log1p(below[t]!);
+        f[at + 13] = tree.ancestors[t]!.length;
+        f[at + 14] = Math.log1p(children[t]!);
+        f[at + 15] = has ? 0 : own[cell * 4 + 3]!;
+        f[at + 16] = has ? 0 : ctx[3]!;
+      }
+    }
+  }
+  return f;
+}
+
+function applyCalibration(c: Calibration, feats: Float64Array, cells: number): Float64Array {
+  const idx = c.features.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
+  const out = new Float64Array(cells);
+  for (let cell = 0; cell < cells; cell++) {
+    let z = c.intercept;
+    for (let q = 0; q < idx.length; q++) z += (c.weights[q]! * (feats[cell * NF + idx[q]!]! - c.mean[q]!)) / c.sd[q]!;
+    out[cell] = sigmoid(z);
+  }
+  return out;
+}
