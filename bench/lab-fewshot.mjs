@@ -22,6 +22,10 @@ export const VARIANTS = {
   default: {},
   'no-context': { decay: 0 },
   'decay-0.8': { decay: 0.8 },
+  'reach-6': { decay: 0.8, reach: 6 },
+  'ridge-10': { ridge: 10 },
+  'ridge-30': { ridge: 30 },
+  'ridge-100': { ridge: 100 },
   'mu-0.5': { mu: 0.5 },
   'mu-8': { mu: 8 },
   'alpha-1': { alpha: 1 },
@@ -30,6 +34,8 @@ export const VARIANTS = {
   'no-knn': { drop: ['knn', 'ctx_knn'] },
   'no-seed': { drop: ['seed', 'ctx_seed', 'seed_uncoded', 'ctx_seed_uncoded'] },
   'no-rank': { drop: ['first', 'log_rank'] },
+  'no-seed-model': { drop: ['seed_only_model'] },
+  'no-seed-z': { drop: ['seed_z', 'ctx_seed_z'] },
 };
 const variants = opt('--variants', 'default').split(',');
 

@@ -56,7 +56,9 @@ export function resolveFewshot(o: FewshotOptions = {}): FewshotResolved {
     mu: o.mu ?? 2,
     decay: o.decay ?? 0.6,
     reach: o.reach ?? 3,
-    ridge: o.ridge ?? 1,
+    // Measured: 10 beat 1 on the interviews protocol (the left-out batch transcripts share
+    // sources, so they look easier than new ones) and matched it on the survey one.
+    ridge: o.ridge ?? 10,
     targetPrecision: o.targetPrecision ?? 0.7,
     drop: o.drop ?? [],
   };
@@ -84,7 +86,12 @@ export const FEATURES = [
   'log_children',
   'seed_uncoded',
   'ctx_seed_uncoded',
+  'seed_z',
+  'ctx_seed_z',
 ] as const;
+
+/** Features of the name-and-seeds calibration, used for themes with no coded passage. */
+export const SEED_FEATURES = ['seed', 'ctx_seed', 'seed_z', 'ctx_seed_z', 'depth', 'log_children'] as const;
 
 /** What the calibration learned, as plain data. */
 export interface Calibration {
@@ -113,10 +120,32 @@ export interface FewshotState {
   seeds: { indices: number[]; values: number[] }[];
   /** Average mass (sum of weights) of a coded passage's vector: the unit of mu. */
   unitMass: number;
+  seedScale: SeedScale;
   calibration: Calibration;
+  /** For themes with no coded passage: the name-and-seeds match alone. */
+  seedCalibration: Calibration | null;
   threshold: number;
   /** Precision and recall of the threshold on the left-out coded transcripts. */
   expected: { precision: number; recall: number; reached: boolean };
+}
+
+/** Mean and standard deviation of each theme's seed cosine over the passages of the fit. */
+export interface SeedScale {
+  mean: number[];
+  sd: number[];
+}
+
+function seedScaleOf(raw: Float64Array, nP: number, nT: number): SeedScale {
+  const mean = new Array<number>(nT).fill(0);
+  const sd = new Array<number>(nT).fill(0);
+  for (let t = 0; t < nT; t++) {
+    let s1 = 0;
+    let s2 = 0;
+    for (let p = 0; p < nP; p++) (s1 += raw[(p * nT + t) * NR + 3]!), (s2 += raw[(p * nT + t) * NR + 3]! ** 2);
+    mean[t] = s1 / Math.max(nP, 1);
+    sd[t] = Math.sqrt(Math.max(s2 / Math.max(nP, 1) - mean[t]! ** 2, 0)) || 1;
+  }
+  return { mean, sd };
 }
 
 /** Dense working copy of the counts, mutated while a coded transcript is left out. */
@@ -231,24 +260,20 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
     for (const p of members[ti]!) rawSignals(st, x[p]!, out.length ? ti : -1, raw, nearest, p);
     if (restore) restore();
   }
-  const feats = cellFeatures(st, raw, members, nP);
+  const seedScale = seedScaleOf(raw, nP, nT);
+  const feats = cellFeatures(st, raw, members, nP, seedScale);
 
   // Calibration rows: every cell of the coded transcripts.
   const rows: number[] = [];
   for (let ti = 0; ti < members.length; ti++) if (codedT[ti]) for (const p of members[ti]!) for (let t = 0; t < nT; t++) rows.push(p * nT + t);
-  const keep = FEATURES.map((f, j) => (o.drop.includes(f) ? -1 : j)).filter((j) => j >= 0);
-  const k = keep.length;
-  const mean = keep.map((j) => rows.reduce((a, cell) => a + feats[cell * NF + j]!, 0) / Math.max(rows.length, 1));
-  const sd = keep.map((j, q) => Math.sqrt(rows.reduce((a, cell) => a + (feats[cell * NF + j]! - mean[q]!) ** 2, 0) / Math.max(rows.length, 1)) || 1);
-  const X = new Float64Array(rows.length * k);
-  const y = new Uint8Array(rows.length);
-  rows.forEach((cell, i) => {
-    keep.forEach((j, q) => (X[i * k + q] = (feats[cell * NF + j]! - mean[q]!) / sd[q]!));
-    y[i] = direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0;
-  });
-  const m = fitGrouped({ x: X, k, y, group: new Int32Array(rows.length), groups: 1 }, o.ridge);
-  const calibration: Calibration = { features: keep.map((j) => FEATURES[j]!), mean, sd, weights: m.weights, intercept: m.intercepts[0]! };
-  const conf = applyCalibration(calibration, feats, nP * nT);
+  const y = Uint8Array.from(rows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0));
+  const calibration = fitCalibration(FEATURES.filter((f) => !o.drop.includes(f)), rows, y, feats, o.ridge);
+  // Themes with no coded passage: how a name-and-seeds match alone predicts a coding, learned on
+  // the themes that have coded passages (as if they had none).
+  const HAS = FEATURES.indexOf('has');
+  const seedRows = rows.filter((cell) => feats[cell * NF + HAS] === 1);
+  const seedCalibration = o.drop.includes('seed_only_model') ? null : fitCalibration([...SEED_FEATURES], seedRows, Uint8Array.from(seedRows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0)), feats, o.ridge);
+  const conf = applyCalibration(calibration, seedCalibration, feats, nP * nT);
   const heldConf = rows.map((cell) => conf[cell]!);
   const choice = chooseThreshold(heldConf, y, o.targetPrecision, 5);
 
@@ -273,7 +298,9 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
     rejected: rejected.map((r) => ({ ...sp(r.vector), themes: r.themes })),
     seeds: seedVecs.map(sp),
     unitMass: st.unit,
+    seedScale,
     calibration,
+    seedCalibration,
     threshold: choice.threshold,
     expected: { precision: choice.precision, recall: choice.recall, reached: choice.reached },
   };
@@ -312,8 +339,8 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   const raw = new Float64Array(nP * nT * NR);
   const nearest = new Int32Array(nP * nT).fill(-1);
   passages.forEach((p, i) => rawSignals(st, vec.vector(p.terms), -1, raw, nearest, i));
-  const feats = cellFeatures(st, raw, members, nP);
-  return { conf: applyCalibration(state.calibration, feats, nP * nT), raw, nearest };
+  const feats = cellFeatures(st, raw, members, nP, state.seedScale);
+  return { conf: applyCalibration(state.calibration, state.seedCalibration, feats, nP * nT), raw, nearest };
 }
 
 function denseToSparse(d: ArrayLike<number>): { indices: number[]; values: number[] } {
@@ -501,9 +528,10 @@ function rawSignals(st: Stats, x: SparseVector, skipTranscript: number, raw: Flo
 const NF = FEATURES.length;
 
 /** The calibration's features of every cell, from the raw signals (context within each run of members). */
-function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: number): Float64Array {
+function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: number, seedScale: SeedScale): Float64Array {
   const { nT, tree, o } = st;
-  const own = new Float64Array(nP * nT * 4); // mnb_z, cnb_z, knn, seed
+  const W = 5;
+  const own = new Float64Array(nP * nT * W); // mnb_z, cnb_z, knn, seed, seed_z
   const f = new Float64Array(nP * nT * NF);
   const zs = [0, 1];
   for (let p = 0; p < nP; p++) {
@@ -522,13 +550,16 @@ function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: num
       const sd = c > 1 ? Math.sqrt(Math.max(s2 / c - m * m, 0)) || 1 : 1;
       for (let t = 0; t < nT; t++) {
         const v = raw[(p * nT + t) * NR + r]!;
-        own[(p * nT + t) * 4 + r] = Number.isNaN(v) ? 0 : (v - m) / sd;
+        own[(p * nT + t) * W + r] = Number.isNaN(v) ? 0 : (v - m) / sd;
       }
     }
     for (let t = 0; t < nT; t++) {
-      own[(p * nT + t) * 4 + 2] = raw[(p * nT + t) * NR + 2]!;
-      own[(p * nT + t) * 4 + 3] = raw[(p * nT + t) * NR + 3]!;
+      own[(p * nT + t) * W + 2] = raw[(p * nT + t) * NR + 2]!;
+      own[(p * nT + t) * W + 3] = raw[(p * nT + t) * NR + 3]!;
     }
+    // The seed cosine standardised over the fit's passages, theme by theme: a theme described
+    // in many words matches more passages a little, and this says how unusual the match is.
+    for (let t = 0; t < nT; t++) own[(p * nT + t) * W + 4] = (raw[(p * nT + t) * NR + 3]! - seedScale.mean[t]!) / seedScale.sd[t]!;
   }
   const children = new Float64Array(nT);
   for (let t = 0; t < nT; t++) if (tree.parent[t]! >= 0) children[tree.parent[t]!]!++;
@@ -541,7 +572,7 @@ function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: num
       const p = m[i]!;
       // Rank of each theme by the combined standardised score.
       const comb = new Float64Array(nT);
-      for (let t = 0; t < nT; t++) comb[t] = own[(p * nT + t) * 4]! + own[(p * nT + t) * 4 + 1]!;
+      for (let t = 0; t < nT; t++) comb[t] = own[(p * nT + t) * W]! + own[(p * nT + t) * W + 1]!;
       const rankOrder = [...Array(nT).keys()].filter((t) => st.rolled[t]! > 0).sort((a, b) => comb[b]! - comb[a]! || a - b);
       const rank = new Float64Array(nT).fill(nT);
       rankOrder.forEach((t, r) => (rank[t] = r + 1));
@@ -549,25 +580,25 @@ function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: num
         const cell = p * nT + t;
         const at = cell * NF;
         const has = st.rolled[t]! > 0 ? 1 : 0;
-        const ctx = [0, 0, 0, 0];
+        const ctx = [0, 0, 0, 0, 0];
         let wsum = 0;
         if (o.decay > 0) {
           for (let d = 1; d <= o.reach; d++) {
             const w = o.decay ** d;
             for (const q of [i - d, i + d]) {
               if (q < 0 || q >= m.length) continue;
-              const c2 = (m[q]! * nT + t) * 4;
-              for (let r = 0; r < 4; r++) ctx[r] = ctx[r]! + w * own[c2 + r]!;
+              const c2 = (m[q]! * nT + t) * W;
+              for (let r = 0; r < W; r++) ctx[r] = ctx[r]! + w * own[c2 + r]!;
               wsum += w;
             }
           }
         }
-        if (wsum) for (let r = 0; r < 4; r++) ctx[r] = ctx[r]! / wsum;
+        if (wsum) for (let r = 0; r < W; r++) ctx[r] = ctx[r]! / wsum;
         const directN = Math.max(st.rolled[t]! - below[t]!, 0);
-        f[at] = own[cell * 4]!;
-        f[at + 1] = own[cell * 4 + 1]!;
-        f[at + 2] = own[cell * 4 + 2]!;
-        f[at + 3] = own[cell * 4 + 3]!;
+        f[at] = own[cell * W + 0]!;
+        f[at + 1] = own[cell * W + 1]!;
+        f[at + 2] = own[cell * W + 2]!;
+        f[at + 3] = own[cell * W + 3]!;
         f[at + 4] = ctx[0]!;
         f[at + 5] = ctx[1]!;
         f[at + 6] = ctx[2]!;
@@ -579,20 +610,40 @@ function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: num
         f[at + 12] = Math.log1p(below[t]!);
         f[at + 13] = tree.ancestors[t]!.length;
         f[at + 14] = Math.log1p(children[t]!);
-        f[at + 15] = has ? 0 : own[cell * 4 + 3]!;
+        f[at + 15] = has ? 0 : own[cell * W + 3]!;
         f[at + 16] = has ? 0 : ctx[3]!;
+        f[at + 17] = own[cell * W + 4]!;
+        f[at + 18] = ctx[4]!;
       }
     }
   }
   return f;
 }
 
-function applyCalibration(c: Calibration, feats: Float64Array, cells: number): Float64Array {
-  const idx = c.features.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
+/** A logistic regression on the named features of the given cells, standardised over them. */
+function fitCalibration(names: string[], rows: number[], y: Uint8Array, feats: Float64Array, ridge: number): Calibration {
+  const idx = names.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
+  const k = idx.length;
+  const n = Math.max(rows.length, 1);
+  const mean = idx.map((j) => rows.reduce((a, cell) => a + feats[cell * NF + j]!, 0) / n);
+  const sd = idx.map((j, q) => Math.sqrt(rows.reduce((a, cell) => a + (feats[cell * NF + j]! - mean[q]!) ** 2, 0) / n) || 1);
+  const X = new Float64Array(rows.length * k);
+  rows.forEach((cell, i) => idx.forEach((j, q) => (X[i * k + q] = (feats[cell * NF + j]! - mean[q]!) / sd[q]!)));
+  const m = fitGrouped({ x: X, k, y, group: new Int32Array(rows.length), groups: 1 }, ridge);
+  return { features: names, mean, sd, weights: m.weights, intercept: m.intercepts[0]! };
+}
+
+function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Float64Array, cells: number): Float64Array {
+  const HAS = FEATURES.indexOf('has');
+  const ix = (cal: Calibration) => cal.features.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
+  const idx = ix(c);
+  const sidx = seedC ? ix(seedC) : [];
   const out = new Float64Array(cells);
   for (let cell = 0; cell < cells; cell++) {
-    let z = c.intercept;
-    for (let q = 0; q < idx.length; q++) z += (c.weights[q]! * (feats[cell * NF + idx[q]!]! - c.mean[q]!)) / c.sd[q]!;
+    const cal = seedC && feats[cell * NF + HAS] === 0 ? seedC : c;
+    const use = cal === c ? idx : sidx;
+    let z = cal.intercept;
+    for (let q = 0; q < use.length; q++) z += (cal.weights[q]! * (feats[cell * NF + use[q]!]! - cal.mean[q]!)) / cal.sd[q]!;
     out[cell] = sigmoid(z);
   }
   return out;
