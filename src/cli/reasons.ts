@@ -33,7 +33,7 @@ export const exemplarCited = (s: Cited): { transcript?: string; snippet?: string
 export function reasonText(r: Reason, snippets: Snippets): string {
   switch (r.kind) {
     case 'terms':
-      return `distinctive terms: ${r.terms.map((t) => `${t.term} ${num(t.weight)}`).join(', ')}`;
+      return `distinctive terms: ${r.terms.map((t) => `${t.written ?? t.term} ${num(t.weight)}`).join(', ')}${r.fragment ? ` in "${r.fragment}"` : ''}`;
     case 'exemplar':
       return `most like coded passage ${r.passageId} (similarity ${num(r.similarity)})${exemplarTail(snippets.get(r.passageId))}`;
     case 'seeds':

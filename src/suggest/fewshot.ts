@@ -44,6 +44,12 @@ export interface FewshotOptions {
   ridge?: number;
   /** Precision the shared threshold must reach on the left-out coded transcripts. */
   targetPrecision?: number;
+  /** Weight of an uncoded passage in the semi-supervised EM rounds (0: none). */
+  em?: number;
+  /** EM rounds after the first fit. */
+  emRounds?: number;
+  /** How the threshold is set: 'heldout' precision on the left-out coded transcripts (default), or 'expected' precision on the passages to code. */
+  threshold?: 'expected' | 'heldout';
   /** Features of the calibration to leave out (for measurement). */
   drop?: string[];
 }
@@ -60,6 +66,11 @@ export function resolveFewshot(o: FewshotOptions = {}): FewshotResolved {
     // sources, so they look easier than new ones) and matched it on the survey one.
     ridge: o.ridge ?? 10,
     targetPrecision: o.targetPrecision ?? 0.7,
+    threshold: o.threshold ?? 'heldout',
+    // Measured (docs/suggest-experiments.md): one round at weight 1 gained 0.01-0.07 on every
+    // ranking figure of both few-shot protocols; a second round gained less than it cost.
+    em: o.em ?? 1,
+    emRounds: o.emRounds ?? 1,
     drop: o.drop ?? [],
   };
 }
@@ -114,6 +125,8 @@ export interface FewshotState {
   all: { indices: number[]; values: number[] };
   /** Coded passages (for the nearest-passage signal): id, transcript, vector, themes (rolled up). */
   coded: { id: string; transcript: string; indices: number[]; values: number[]; themes: number[] }[];
+  /** The uncoded passages' soft counts (semi-supervised EM), added to `counts` and `all`. */
+  soft: Soft;
   /** Rejected suggestions: the passage's vector and the themes it was rejected for. */
   rejected: { indices: number[]; values: number[]; themes: number[] }[];
   /** Per theme, its name, definition and seed terms as a vector (empty when it has none). */
@@ -249,33 +262,69 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
   const st = buildStats(state0.coded, tree, V, seedVecs, o, rejected);
 
   const nP = passages.length;
-  const raw = new Float64Array(nP * nT * NR);
-  const nearest = new Int32Array(nP * nT).fill(-1);
-  // Left-out signals for the coded transcripts; full-model signals for the others.
+  // Base counts, kept so that each round of the uncoded passages' soft counts starts from them.
+  const base = { R: st.R.slice(), tot: st.tot.slice(), G: st.G.slice(), gtot: st.gtot };
+  let soft: Soft = { counts: themes.map(() => ({ indices: [], values: [] })), all: { indices: [], values: [] }, mass: 0 };
+  let raw!: Float64Array;
+  let nearest!: Int32Array;
+  let rows!: number[];
+  let y!: Uint8Array;
+  let calibration!: Calibration;
+  let seedCalibration!: Calibration | null;
+  let conf!: Float64Array;
+  let seedScale!: SeedScale;
   const codedOfT = new Map<number, number[]>();
   state0.coded.forEach((c, ci) => (codedOfT.get(c.transcript) ?? codedOfT.set(c.transcript, []).get(c.transcript)!).push(ci));
-  for (let ti = 0; ti < members.length; ti++) {
-    const out = codedOfT.get(ti) ?? [];
-    const restore = out.length ? leaveOut(st, state0.coded, out, -1) : null;
-    for (const p of members[ti]!) rawSignals(st, x[p]!, out.length ? ti : -1, raw, nearest, p);
-    if (restore) restore();
-  }
-  const seedScale = seedScaleOf(raw, nP, nT);
-  const feats = cellFeatures(st, raw, members, nP, seedScale);
+  const like = rejectedLike(x, rejected, nT);
+  for (let round = 0; round <= (o.em > 0 ? o.emRounds : 0); round++) {
+    if (round > 0) {
+      // Semi-supervised EM (multinomial models): the uncoded passages join the counts of the
+      // themes in proportion to their confidences, weighted by em, and the model is refitted.
+      soft = softCounts(conf, x, codedT, transcriptOf, tree, V, o.em, negOf, like);
+      st.R.set(base.R);
+      st.tot.set(base.tot);
+      st.G.set(base.G);
+      st.gtot = base.gtot;
+      addSoft(st, soft);
+    }
+    raw = new Float64Array(nP * nT * NR);
+    nearest = new Int32Array(nP * nT).fill(-1);
+    // Left-out signals for the coded transcripts; full-model signals for the others.
+    for (let ti = 0; ti < members.length; ti++) {
+      const out = codedOfT.get(ti) ?? [];
+      const restore = out.length ? leaveOut(st, state0.coded, out, -1) : null;
+      for (const p of members[ti]!) {
+        // An uncoded passage is scored without its own soft counts (as a new passage would be).
+        const back = round > 0 && !out.length ? softOut(st, softShare(conf, p, nT, tree, o.em, negOf.get(p), like), x[p]!) : null;
+        rawSignals(st, x[p]!, out.length ? ti : -1, raw, nearest, p);
+        if (back) back();
+      }
+      if (restore) restore();
+    }
+    seedScale = seedScaleOf(raw, nP, nT);
+    const feats = cellFeatures(st, raw, members, nP, seedScale, like);
 
-  // Calibration rows: every cell of the coded transcripts.
-  const rows: number[] = [];
-  for (let ti = 0; ti < members.length; ti++) if (codedT[ti]) for (const p of members[ti]!) for (let t = 0; t < nT; t++) rows.push(p * nT + t);
-  const y = Uint8Array.from(rows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0));
-  const calibration = fitCalibration(FEATURES.filter((f) => !o.drop.includes(f)), rows, y, feats, o.ridge);
-  // Themes with no coded passage: how a name-and-seeds match alone predicts a coding, learned on
-  // the themes that have coded passages (as if they had none).
-  const HAS = FEATURES.indexOf('has');
-  const seedRows = rows.filter((cell) => feats[cell * NF + HAS] === 1);
-  const seedCalibration = o.drop.includes('seed_only_model') ? null : fitCalibration([...SEED_FEATURES], seedRows, Uint8Array.from(seedRows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0)), feats, o.ridge);
-  const conf = applyCalibration(calibration, seedCalibration, feats, nP * nT);
+    // Calibration rows: every cell of the coded transcripts, and each rejection elsewhere (an
+    // observation "not this theme").
+    rows = [];
+    for (let ti = 0; ti < members.length; ti++) if (codedT[ti]) for (const p of members[ti]!) for (let t = 0; t < nT; t++) rows.push(p * nT + t);
+    for (const [p, ts] of [...negOf].sort((a, b) => a[0] - b[0])) if (!codedT[transcriptOf[p]!]) for (const t of ts) rows.push(p * nT + t);
+    y = Uint8Array.from(rows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0));
+    calibration = fitCalibration(FEATURES.filter((f) => !o.drop.includes(f)), rows, y, feats, o.ridge);
+    // Themes with no coded passage: how a name-and-seeds match alone predicts a coding, learned on
+    // the themes that have coded passages (as if they had none).
+    const HAS = FEATURES.indexOf('has');
+    const seedRows = rows.filter((cell) => feats[cell * NF + HAS] === 1);
+    seedCalibration = o.drop.includes('seed_only_model') ? null : fitCalibration([...SEED_FEATURES], seedRows, Uint8Array.from(seedRows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0)), feats, o.ridge);
+    conf = applyCalibration(calibration, seedCalibration, feats, nP * nT, like);
+  }
   const heldConf = rows.map((cell) => conf[cell]!);
-  const choice = chooseThreshold(heldConf, y, o.targetPrecision, 5);
+  const held = chooseThreshold(heldConf, y, o.targetPrecision, 5);
+  // The threshold: by default the lowest confidence at which the left-out coded transcripts'
+  // suggestions above it reached targetPrecision. The alternative, the expected precision of the
+  // passages still to code (mean calibrated confidence above the cut), was measured: it kept
+  // fewer suggestions and lost macro-F1, while its precision stayed far below the target too.
+  const choice = o.threshold === 'heldout' ? held : expectedThreshold(conf, codedT, transcriptOf, nT, o.targetPrecision, held);
 
   const themesOut = themes.map((th, t) => ({
     id: th.id,
@@ -292,10 +341,11 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
     options: o,
     tfidf: vec.state,
     themes: themesOut,
-    counts: Array.from({ length: nT }, (_, t) => denseToSparse(st.R.subarray(t * V, (t + 1) * V))),
-    all: denseToSparse(st.G),
+    counts: Array.from({ length: nT }, (_, t) => denseToSparse(base.R.subarray(t * V, (t + 1) * V))),
+    all: denseToSparse(base.G),
     coded: codedIdx.map((p, ci) => ({ id: passages[p]!.id, transcript: passages[p]!.transcript, ...sp(x[p]!), themes: state0.coded[ci]!.themes })),
     rejected: rejected.map((r) => ({ ...sp(r.vector), themes: r.themes })),
+    soft,
     seeds: seedVecs.map(sp),
     unitMass: st.unit,
     seedScale,
@@ -329,6 +379,7 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   }));
   const dense = (s: { indices: number[]; values: number[] }) => ({ indices: Int32Array.from(s.indices), values: Float64Array.from(s.values) });
   const st = buildStats(coded, tree, V, state.seeds.map(dense), o, state.rejected.map((r) => ({ vector: dense(r), themes: r.themes })));
+  addSoft(st, state.soft);
   const members: number[][] = [];
   let last: string | null = null;
   passages.forEach((p, i) => {
@@ -339,8 +390,144 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   const raw = new Float64Array(nP * nT * NR);
   const nearest = new Int32Array(nP * nT).fill(-1);
   passages.forEach((p, i) => rawSignals(st, vec.vector(p.terms), -1, raw, nearest, i));
-  const feats = cellFeatures(st, raw, members, nP, state.seedScale);
-  return { conf: applyCalibration(state.calibration, state.seedCalibration, feats, nP * nT), raw, nearest };
+  const like = rejectedLike(
+    passages.map((p) => vec.vector(p.terms)),
+    state.rejected.map((r) => ({ vector: dense(r), themes: r.themes })),
+    nT,
+  );
+  const feats = cellFeatures(st, raw, members, nP, state.seedScale, like);
+  return { conf: applyCalibration(state.calibration, state.seedCalibration, feats, nP * nT, like), raw, nearest };
+}
+
+/** Soft counts: per theme and over all themes, sparse, with the total mass added to `all`. */
+export interface Soft {
+  counts: { indices: number[]; values: number[] }[];
+  all: { indices: number[]; values: number[] };
+  mass: number;
+}
+
+/** An uncoded passage's soft weights: per theme (rolled up to ancestors), and over all themes. */
+function softShare(conf: Float64Array, p: number, nT: number, tree: Tree, weight: number, rejected?: number[], like?: Float64Array): { theme: Float64Array; all: number } {
+  const share = new Float64Array(nT);
+  let total = 0;
+  for (let t = 0; t < nT; t++) {
+    // A theme a coder rejected for the passage gets none of it; a passage like one rejected for
+    // the theme gets less, by its cosine to that passage.
+    const c = rejected?.includes(t) ? 0 : conf[p * nT + t]! * (like ? 1 - like[p * nT + t]! : 1);
+    total += c;
+    share[t] = share[t]! + c;
+    for (const a of tree.ancestors[t]!) share[a] = share[a]! + c;
+  }
+  for (let t = 0; t < nT; t++) share[t] = share[t]! > 1e-3 ? weight * Math.min(1, share[t]!) : 0;
+  return { theme: share, all: weight * Math.min(1, total) };
+}
+
+/** Takes one passage's soft counts out; returns the function that puts them back exactly. */
+function softOut(st: Stats, w: { theme: Float64Array; all: number }, v: SparseVector): () => void {
+  const saved: [Float64Array, number, number][] = [];
+  const gtot = st.gtot;
+  const sub = (a: Float64Array, i: number, d: number) => {
+    saved.push([a, i, a[i]!]);
+    a[i] = a[i]! - d;
+  };
+  let mass = 0;
+  for (let k = 0; k < v.indices.length; k++) mass += v.values[k]!;
+  for (let k = 0; k < v.indices.length; k++) {
+    const j = v.indices[k]!;
+    sub(st.G, j, w.all * v.values[k]!);
+    for (let t = 0; t < st.nT; t++) if (w.theme[t]) sub(st.R, t * st.V + j, w.theme[t]! * v.values[k]!);
+  }
+  for (let t = 0; t < st.nT; t++) if (w.theme[t]) sub(st.tot, t, w.theme[t]! * mass);
+  st.gtot -= w.all * mass;
+  return () => {
+    for (let i = saved.length - 1; i >= 0; i--) saved[i]![0][saved[i]![1]] = saved[i]![2];
+    st.gtot = gtot;
+  };
+}
+
+function softCounts(conf: Float64Array, x: SparseVector[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, V: number, weight: number, negOf: Map<number, number[]>, like: Float64Array): Soft {
+  const nT = tree.themes.length;
+  const R = new Float64Array(nT * V);
+  const G = new Float64Array(V);
+  let mass = 0;
+  for (let p = 0; p < x.length; p++) {
+    if (codedT[transcriptOf[p]!]) continue;
+    const v = x[p]!;
+    const w = softShare(conf, p, nT, tree, weight, negOf.get(p), like);
+    const g = w.all;
+    for (let k = 0; k < v.indices.length; k++) {
+      const j = v.indices[k]!;
+      G[j] = G[j]! + g * v.values[k]!;
+      mass += g * v.values[k]!;
+      for (let t = 0; t < nT; t++) if (w.theme[t]) R[t * V + j] = R[t * V + j]! + w.theme[t]! * v.values[k]!;
+    }
+  }
+  return { counts: Array.from({ length: nT }, (_, t) => denseToSparse(R.subarray(t * V, (t + 1) * V))), all: denseToSparse(G), mass };
+}
+
+function addSoft(st: Stats, soft: Soft): void {
+  soft.counts.forEach((c, t) => {
+    for (let k = 0; k < c.indices.length; k++) {
+      st.R[t * st.V + c.indices[k]!] = st.R[t * st.V + c.indices[k]!]! + c.values[k]!;
+      st.tot[t] = st.tot[t]! + c.values[k]!;
+    }
+  });
+  for (let k = 0; k < soft.all.indices.length; k++) st.G[soft.all.indices[k]!] = st.G[soft.all.indices[k]!]! + soft.all.values[k]!;
+  st.gtot += soft.mass;
+}
+
+/**
+ * The lowest confidence c at which the mean confidence of the uncoded transcripts' cells at or
+ * above c reaches the target (their expected precision, if the confidences are calibrated);
+ * recall is reported from the left-out coded transcripts at that threshold.
+ */
+function expectedThreshold(
+  conf: Float64Array,
+  codedT: Uint8Array,
+  transcriptOf: Int32Array,
+  nT: number,
+  target: number,
+  held: { threshold: number; precision: number; recall: number; reached: boolean },
+): { threshold: number; precision: number; recall: number; reached: boolean } {
+  const cs: number[] = [];
+  for (let cell = 0; cell < conf.length; cell++) if (!codedT[transcriptOf[(cell / nT) | 0]!]) cs.push(conf[cell]!);
+  if (!cs.length) return held;
+  cs.sort((a, b) => b - a);
+  let sum = 0;
+  let best = -1;
+  for (let i = 0; i < cs.length; i++) {
+    sum += cs[i]!;
+    if (i + 1 < cs.length && cs[i + 1] === cs[i]) continue;
+    if (sum / (i + 1) >= target) best = i;
+  }
+  if (best < 0) return { ...held, threshold: Math.max(cs[0]!, target), reached: false };
+  return { threshold: cs[best]!, precision: target, recall: held.recall, reached: true };
+}
+
+/** Each passage's largest cosine to a passage rejected for each theme (not counting itself); empty when there are no rejections. */
+function rejectedLike(x: SparseVector[], rejected: { vector: SparseVector; themes: number[] }[], nT: number): Float64Array {
+  const like = new Float64Array(rejected.length ? x.length * nT : 0);
+  if (!rejected.length) return like;
+  for (let p = 0; p < x.length; p++) {
+    for (const r of rejected) {
+      const d = sparseDot(x[p]!, r.vector);
+      if (d >= 1 - 1e-9) continue;
+      for (const t of r.themes) like[p * nT + t] = Math.max(like[p * nT + t]!, d);
+    }
+  }
+  return like;
+}
+
+function sparseDot(a: SparseVector, b: SparseVector): number {
+  let dot = 0;
+  for (let i = 0, j = 0; i < a.indices.length && j < b.indices.length; ) {
+    const ia = a.indices[i]!;
+    const ib = b.indices[j]!;
+    if (ia === ib) dot += a.values[i++]! * b.values[j++]!;
+    else if (ia < ib) i++;
+    else j++;
+  }
+  return dot;
 }
 
 function denseToSparse(d: ArrayLike<number>): { indices: number[]; values: number[] } {
@@ -528,7 +715,7 @@ function rawSignals(st: Stats, x: SparseVector, skipTranscript: number, raw: Flo
 const NF = FEATURES.length;
 
 /** The calibration's features of every cell, from the raw signals (context within each run of members). */
-function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: number, seedScale: SeedScale): Float64Array {
+function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: number, seedScale: SeedScale, like: Float64Array): Float64Array {
   const { nT, tree, o } = st;
   const W = 5;
   const own = new Float64Array(nP * nT * W); // mnb_z, cnb_z, knn, seed, seed_z
@@ -633,7 +820,12 @@ function fitCalibration(names: string[], rows: number[], y: Uint8Array, feats: F
   return { features: names, mean, sd, weights: m.weights, intercept: m.intercepts[0]! };
 }
 
-function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Float64Array, cells: number): Float64Array {
+/**
+ * Calibrated confidences. A rejection counts against its theme on passages like the rejected
+ * one: the confidence keeps the share 1 - cosine^1.5 (a handful of rejections are too few for the
+ * calibration to learn their weight, measured on the test study of rejected messaging talk).
+ */
+function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Float64Array, cells: number, like: Float64Array): Float64Array {
   const HAS = FEATURES.indexOf('has');
   const ix = (cal: Calibration) => cal.features.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
   const idx = ix(c);
@@ -644,7 +836,7 @@ function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Floa
     const use = cal === c ? idx : sidx;
     let z = cal.intercept;
     for (let q = 0; q < use.length; q++) z += (cal.weights[q]! * (feats[cell * NF + use[q]!]! - cal.mean[q]!)) / cal.sd[q]!;
-    out[cell] = sigmoid(z);
+    out[cell] = sigmoid(z) * (like.length ? 1 - like[cell]! ** 1.5 : 1);
   }
   return out;
 }

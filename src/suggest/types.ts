@@ -119,7 +119,8 @@ export interface ThemeReport {
 }
 
 export type Reason =
-  | { kind: 'terms'; terms: { term: string; weight: number }[] }
+  /** Terms are lemmas; the study adds each as the passage writes it, and the stretch that matched. */
+  | { kind: 'terms'; terms: { term: string; weight: number; written?: string }[]; fragment?: string }
   | { kind: 'exemplar'; passageId: string; similarity: number }
   | { kind: 'seeds'; terms: string[] }
   | { kind: 'seed-only' } // "profile from definition and seeds only"
