@@ -12,6 +12,7 @@ import { parse } from 'csv-parse/sync';
 import { openStudy } from '../dist/study/db.js';
 import { modelInputs } from '../dist/study/model.js';
 import { fitFewshot } from '../dist/suggest/fewshot.js';
+import { ThemeSuggester } from '../dist/suggest/index.js';
 
 const OUT = join(import.meta.dirname, 'out', 'fewshot');
 const args = process.argv.slice(2);
@@ -132,6 +133,21 @@ for (const run of runs) {
   for (const [pid, p] of d.passages) if (p.split === 'test' && p.themes.length) truthOf.set(pid, new Set(p.themes));
   const index = new Map(ps.map((p, i) => [p.id, i]));
   for (const v of variants) {
+    if (v === 'suggester') {
+      // The whole suggester, ranked as `suggest` ranks (chosen themes first, then by confidence).
+      const t0 = performance.now();
+      const m = new ThemeSuggester().fit(ps, codings, themes);
+      const pred = m.predict([...truthOf.keys()], { reasons: 0 });
+      const secs = (performance.now() - t0) / 1000;
+      const items = pred.map((p) => {
+        const ch = p.candidates.filter((c) => c.chosen);
+        const ranked = [...ch, ...p.candidates.filter((c) => !c.chosen)].slice(0, 10);
+        return [p.passageId, ranked.map((c) => ({ theme: pathOf[themes.findIndex((t) => t.id === c.themeId)], confidence: c.confidence, above: c.aboveThreshold }))];
+      });
+      const s = score(items, truthOf, d.coded);
+      console.log(`${run.padEnd(13)} ${v.padEnd(12)} top1 ${f(s.top1)} top3 ${f(s.top3)} lrap ${f(s.lrap)} F1 ${f(s.macro_f1)} P ${s.precision.toFixed(2)} R ${s.recall.toFixed(2)} above ${s.above.toFixed(2)} ece ${f(s.ece)} ${secs.toFixed(1)}s`);
+      continue;
+    }
     const t0 = performance.now();
     const fit = fitFewshot(ps, codings, themes, VARIANTS[v]);
     const secs = (performance.now() - t0) / 1000;

@@ -6,7 +6,7 @@ import type { DB } from '../study/db.js';
 import { clock } from '../sheet/sheet.js';
 import { collect, positiveInt, probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { markTerms, wrap } from './marks.js';
-import { plural, printJson, printJsonStream, say, table } from './output.js';
+import { plural, printJson, printJsonStream, say, table, warn } from './output.js';
 import { progressBar } from './progress.js';
 import { markedTerms, reasonText, type Snippets } from './reasons.js';
 import { passageJson, passageJsonText } from './suggest-json.js';
@@ -81,8 +81,22 @@ Examples:
         }
         const snippets = snippetCache(db);
         const path = (id: string) => run.paths.get(id) ?? id;
+        // Say what is weak, naming the themes: their confidence cannot be checked yet.
+        const few = run.reports.filter((r) => r.tooFew);
+        const seedOnly = run.reports.filter((r) => r.seedOnly);
+        const list = (rs: typeof few) => rs.map((r) => `${r.path} (${plural(r.exemplars, 'coded passage')}${r.transcripts ? ` in ${plural(r.transcripts, 'transcript')}` : ''})`);
+        if (few.length) {
+          warn(`${plural(few.length, 'theme')} with too few coded examples for their confidence to be trusted: ${list(few).join('; ')}. Code more passages of them, or read their confidences as rough.`);
+        }
+        if (seedOnly.length) warn(`${plural(seedOnly.length, 'theme')} suggested from name, definition and seed terms only (no coded passage): ${seedOnly.map((r) => r.path).join('; ')}.`);
         if (opts.json) {
-          const head = { run_id: run.runId, revision: run.rev, fingerprint: run.fingerprint };
+          const head = {
+            run_id: run.runId,
+            revision: run.rev,
+            fingerprint: run.fingerprint,
+            few_examples: few.map((r) => ({ theme: r.path, coded_passages: r.exemplars, transcripts: r.transcripts })),
+            seed_only: seedOnly.map((r) => r.path),
+          };
           // Bulk runs stream compact JSON; a few passages are indented for reading.
           if (run.passages.length > 200) return printJsonStream(head, 'passages', run.passages, passageJsonText(path, snippets));
           return printJson({ ...head, passages: run.passages.map(passageJson(path, snippets)) });

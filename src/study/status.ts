@@ -2,6 +2,8 @@ import { countThemes } from '../template/number.js';
 import type { Template } from '../template/types.js';
 import type { DB } from './db.js';
 import { currentRevision } from './template.js';
+import { themeStrength, type Strength } from '../suggest/strength.js';
+import { walk } from '../template/paths.js';
 
 export interface ThemeCount {
   id: string;
@@ -9,6 +11,10 @@ export interface ThemeCount {
   direct: number;
   /** Passages coded to it or any of its sub-themes (each passage once). */
   total: number;
+  /** Transcripts holding those passages. */
+  transcripts: number;
+  /** Whether its suggestions' confidence can be checked on its own codings (src/suggest/strength.ts). */
+  strength: Strength;
 }
 
 export interface StudyStatus {
@@ -66,6 +72,11 @@ export function themeCounts(db: DB, t: Template): ThemeCount[] {
     theme_id: string;
     passage_id: string;
   }[];
+  const transcriptOf = new Map(
+    (db.prepare('SELECT DISTINCT c.passage_id AS id, p.transcript_id AS t FROM codings c JOIN passages p ON p.id = c.passage_id WHERE c.removed_at IS NULL').all() as { id: string; t: number }[]).map((r) => [r.id, r.t]),
+  );
+  const batch = new Set(transcriptOf.values()).size;
+  const described = new Map([...walk(t)].map((e) => [e.node.id, Boolean(e.node.name.trim() || e.node.definition.trim() || e.node.seeds.length)]));
   const byTheme = new Map<string, Set<string>>();
   for (const r of rows) {
     let s = byTheme.get(r.theme_id);
@@ -76,9 +87,10 @@ export function themeCounts(db: DB, t: Template): ThemeCount[] {
   const visit = (node: Template['roots'][number]): Set<string> => {
     const all = new Set(byTheme.get(node.id) ?? []);
     const slot = out.length;
-    out.push({ id: node.id, direct: all.size, total: 0 });
+    out.push({ id: node.id, direct: all.size, total: 0, transcripts: 0, strength: 'not suggested' });
     for (const c of node.children) for (const pid of visit(c)) all.add(pid);
-    out[slot]!.total = all.size;
+    const ts = new Set([...all].map((pid) => transcriptOf.get(pid)));
+    Object.assign(out[slot]!, { total: all.size, transcripts: ts.size, strength: themeStrength(all.size, ts.size, batch, described.get(node.id) ?? false) });
     return all;
   };
   t.roots.forEach(visit);

@@ -99,6 +99,8 @@ export const FEATURES = [
   'ctx_seed_uncoded',
   'seed_z',
   'ctx_seed_z',
+  'log_words',
+  'interviewer',
 ] as const;
 
 /** Features of the name-and-seeds calibration, used for themes with no coded passage. */
@@ -182,6 +184,9 @@ interface Stats {
   seeds: SparseVector[];
   unit: number;
   o: FewshotResolved;
+  /** Per scored passage: its words, and 1 for an interviewer's turn. */
+  words: number[];
+  interviewer: number[];
 }
 
 export interface ScoredCells {
@@ -260,6 +265,8 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
   }
   const rejected = [...negOf].sort((a, b) => a[0] - b[0]).map(([p, ts]) => ({ vector: x[p]!, themes: ts }));
   const st = buildStats(state0.coded, tree, V, seedVecs, o, rejected);
+  st.words = passages.map((p) => p.words ?? p.terms.length);
+  st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
 
   const nP = passages.length;
   // Base counts, kept so that each round of the uncoded passages' soft counts starts from them.
@@ -319,7 +326,9 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
     conf = applyCalibration(calibration, seedCalibration, feats, nP * nT, like);
   }
   const heldConf = rows.map((cell) => conf[cell]!);
-  const held = chooseThreshold(heldConf, y, o.targetPrecision, 5);
+  let held = chooseThreshold(heldConf, y, o.targetPrecision, 5);
+  // Out of reach on the coded batch: the threshold that did best there (F1), said so in reports.
+  if (!held.reached) held = { ...bestF1(heldConf, y), reached: false };
   // The threshold: by default the lowest confidence at which the left-out coded transcripts'
   // suggestions above it reached targetPrecision. The alternative, the expected precision of the
   // passages still to code (mean calibrated confidence above the cut), was measured: it kept
@@ -380,6 +389,8 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   const dense = (s: { indices: number[]; values: number[] }) => ({ indices: Int32Array.from(s.indices), values: Float64Array.from(s.values) });
   const st = buildStats(coded, tree, V, state.seeds.map(dense), o, state.rejected.map((r) => ({ vector: dense(r), themes: r.themes })));
   addSoft(st, state.soft);
+  st.words = passages.map((p) => p.words ?? p.terms.length);
+  st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
   const members: number[][] = [];
   let last: string | null = null;
   passages.forEach((p, i) => {
@@ -413,7 +424,7 @@ function softShare(conf: Float64Array, p: number, nT: number, tree: Tree, weight
   for (let t = 0; t < nT; t++) {
     // A theme a coder rejected for the passage gets none of it; a passage like one rejected for
     // the theme gets less, by its cosine to that passage.
-    const c = rejected?.includes(t) ? 0 : conf[p * nT + t]! * (like ? 1 - like[p * nT + t]! : 1);
+    const c = rejected?.includes(t) ? 0 : conf[p * nT + t]! * (like && like.length ? 1 - like[p * nT + t]! : 1);
     total += c;
     share[t] = share[t]! + c;
     for (const a of tree.ancestors[t]!) share[a] = share[a]! + c;
@@ -518,6 +529,22 @@ function rejectedLike(x: SparseVector[], rejected: { vector: SparseVector; theme
   return like;
 }
 
+/** The cut of the highest F1 (ties: the higher cut), with its precision and recall. */
+function bestF1(conf: number[], y: ArrayLike<number>): { threshold: number; precision: number; recall: number } {
+  const order = conf.map((_, i) => i).sort((a, b) => conf[b]! - conf[a]! || a - b);
+  let pos = 0;
+  for (let i = 0; i < y.length; i++) pos += y[i]!;
+  let tp = 0;
+  let best = { threshold: 1, precision: 0, recall: 0, f1: -1 };
+  for (let r = 0; r < order.length; r++) {
+    tp += y[order[r]!]!;
+    if (r + 1 < order.length && conf[order[r + 1]!] === conf[order[r]!]) continue;
+    const f1 = pos ? (2 * tp) / (r + 1 + pos) : 0;
+    if (f1 > best.f1) best = { threshold: conf[order[r]!]!, precision: tp / (r + 1), recall: pos ? tp / pos : 0, f1 };
+  }
+  return { threshold: best.threshold, precision: best.precision, recall: best.recall };
+}
+
 function sparseDot(a: SparseVector, b: SparseVector): number {
   let dot = 0;
   for (let i = 0, j = 0; i < a.indices.length && j < b.indices.length; ) {
@@ -602,6 +629,8 @@ function buildStats(
     codedThemes: coded.map((c) => c.themes),
     codedTranscript: coded.map((c) => c.transcript),
     seeds,
+    words: [],
+    interviewer: [],
     unit: coded.length ? (gtot - rejected.reduce((a, r) => a + r.vector.values.reduce((b, w) => b + w, 0), 0)) / coded.length : 1,
     o,
   };
@@ -801,6 +830,8 @@ function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: num
         f[at + 16] = has ? 0 : ctx[3]!;
         f[at + 17] = own[cell * W + 4]!;
         f[at + 18] = ctx[4]!;
+        f[at + 19] = Math.log1p(st.words[p] ?? 0);
+        f[at + 20] = st.interviewer[p] ?? 0;
       }
     }
   }
@@ -821,12 +852,14 @@ function fitCalibration(names: string[], rows: number[], y: Uint8Array, feats: F
 }
 
 /**
- * Calibrated confidences. A rejection counts against its theme on passages like the rejected
- * one: the confidence keeps the share 1 - cosine^1.5 (a handful of rejections are too few for the
- * calibration to learn their weight, measured on the test study of rejected messaging talk).
+ * Calibrated confidences. A rejection counts against its theme on passages more like the
+ * rejected passage (cosine l) than like any coded passage of the theme (cosine k): the
+ * confidence keeps the share (1 - l) / (1 - k). A handful of rejections are too few for the
+ * calibration to learn a weight for them.
  */
 function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Float64Array, cells: number, like: Float64Array): Float64Array {
   const HAS = FEATURES.indexOf('has');
+  const KNN = FEATURES.indexOf('knn');
   const ix = (cal: Calibration) => cal.features.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
   const idx = ix(c);
   const sidx = seedC ? ix(seedC) : [];
@@ -836,7 +869,13 @@ function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Floa
     const use = cal === c ? idx : sidx;
     let z = cal.intercept;
     for (let q = 0; q < use.length; q++) z += (cal.weights[q]! * (feats[cell * NF + use[q]!]! - cal.mean[q]!)) / cal.sd[q]!;
-    out[cell] = sigmoid(z) * (like.length ? 1 - like[cell]! ** 1.5 : 1);
+    let keep = 1;
+    if (like.length) {
+      const l = like[cell]!;
+      const k = Math.min(feats[cell * NF + KNN]!, 1 - 1e-9);
+      if (l > k) keep = (1 - l) / (1 - Math.max(k, 0));
+    }
+    out[cell] = sigmoid(z) * keep;
   }
   return out;
 }

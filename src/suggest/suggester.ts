@@ -30,6 +30,7 @@ import { choiceLoss, fitChoice, type ChoiceData, type ChoiceModel } from './choi
 import { fitGrouped } from './logistic.js';
 import { adjacent, question, transcript as transcriptContext } from './context.js';
 import { fingerprint } from './fingerprint.js';
+import { MIN_EXAMPLES, MIN_TRANSCRIPTS, themeStrength } from './strength.js';
 import { fitFewshot, type FewshotOptions, type FewshotState } from './fewshot.js';
 import { buildTree, chooseThemes, rolledUpLabels, type Tree } from './hierarchy.js';
 import { CENTROID, EXEMPLARS, LOGODDS, Profiles, SIGNALS, type Corpus } from './profiles.js';
@@ -64,8 +65,8 @@ export function resolveOptions(o: SuggesterOptions = {}): ResolvedOptions {
   return {
     targetPrecision: o.targetPrecision ?? 0.7,
     bigrams: o.bigrams ?? false,
-    minExamples: o.minExamples ?? 3,
-    minTranscripts: o.minTranscripts ?? 2,
+    minExamples: o.minExamples ?? MIN_EXAMPLES,
+    minTranscripts: o.minTranscripts ?? MIN_TRANSCRIPTS,
     priorStrength: o.priorStrength ?? 500,
     neighbours: o.neighbours ?? 5,
     decays: o.decays ?? [0.3, 0.6, 0.9, 1],
@@ -445,7 +446,8 @@ export class ThemeSuggester {
         this.nearestSim[cell] = ci >= 0 ? few.cells.raw[cell * 4 + 2]! : 0;
       }
       few.heldOut.theme.forEach((t, i) => heldOutOf[t]!.push(i));
-      for (let t = 0; t < nT; t++) tooFew[t] = scored[t]! && (few.state.themes[t]!.rolled < o.minExamples || few.state.themes[t]!.transcripts < Math.min(o.minTranscripts, codedTranscript.reduce((a, b) => a + b, 0)));
+      const batch = codedTranscript.reduce((a, b) => a + b, 0);
+      for (let t = 0; t < nT; t++) tooFew[t] = scored[t]! && themeStrength(few.state.themes[t]!.rolled, few.state.themes[t]!.transcripts, batch, true, o.minExamples, o.minTranscripts) === 'few examples';
     }
 
     // 5. Thresholds per theme, on the LOTO confidences of the coded batch.
