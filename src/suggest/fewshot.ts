@@ -196,6 +196,8 @@ export interface ScoredCells {
   raw: Float64Array;
   /** Nearest coded passage per cell (index into state.coded), -1 when none. */
   nearest: Int32Array;
+  /** The part of each cell's logit that its neighbouring passages give (for reasons). */
+  context: Float64Array;
 }
 
 const sp = (v: SparseVector) => ({ indices: [...v.indices], values: [...v.values] });
@@ -215,7 +217,14 @@ export function seedTermsOf(th: ThemeInfo): string[] {
   return [...name, ...name, ...(th.definitionTerms ?? []), ...seeds, ...seeds];
 }
 
-export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: ThemeInfo[], opts: FewshotOptions = {}, negatives: Coding[] = []): FewshotFit {
+export function fitFewshot(
+  passages: ModelPassage[],
+  codings: Coding[],
+  themes: ThemeInfo[],
+  opts: FewshotOptions = {},
+  negatives: Coding[] = [],
+  progress: (done: number) => void = () => {},
+): FewshotFit {
   const o = resolveFewshot(opts);
   const tree = buildTree(themes);
   const nT = themes.length;
@@ -279,6 +288,7 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
   let calibration!: Calibration;
   let seedCalibration!: Calibration | null;
   let conf!: Float64Array;
+  let context!: Float64Array;
   let seedScale!: SeedScale;
   const codedOfT = new Map<number, number[]>();
   state0.coded.forEach((c, ci) => (codedOfT.get(c.transcript) ?? codedOfT.set(c.transcript, []).get(c.transcript)!).push(ci));
@@ -297,7 +307,9 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
     raw = new Float64Array(nP * nT * NR);
     nearest = new Int32Array(nP * nT).fill(-1);
     // Left-out signals for the coded transcripts; full-model signals for the others.
+    const rounds = (o.em > 0 ? o.emRounds : 0) + 1;
     for (let ti = 0; ti < members.length; ti++) {
+      if (ti % 250 === 0) progress((round + ti / members.length) / rounds);
       const out = codedOfT.get(ti) ?? [];
       const restore = out.length ? leaveOut(st, state0.coded, out, -1) : null;
       for (const p of members[ti]!) {
@@ -323,7 +335,8 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
     const HAS = FEATURES.indexOf('has');
     const seedRows = rows.filter((cell) => feats[cell * NF + HAS] === 1);
     seedCalibration = o.drop.includes('seed_only_model') ? null : fitCalibration([...SEED_FEATURES], seedRows, Uint8Array.from(seedRows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0)), feats, o.ridge);
-    conf = applyCalibration(calibration, seedCalibration, feats, nP * nT, like);
+    context = new Float64Array(nP * nT);
+    conf = applyCalibration(calibration, seedCalibration, feats, nP * nT, like, context);
   }
   const heldConf = rows.map((cell) => conf[cell]!);
   let held = chooseThreshold(heldConf, y, o.targetPrecision, 5);
@@ -366,7 +379,7 @@ export function fitFewshot(passages: ModelPassage[], codings: Coding[], themes: 
   return {
     state,
     heldOut: { passage: rows.map((c) => (c / nT) | 0), theme: rows.map((c) => c % nT), conf: heldConf, y: [...y] },
-    cells: { conf, raw, nearest },
+    cells: { conf, raw, nearest, context },
   };
 }
 
@@ -407,7 +420,8 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
     nT,
   );
   const feats = cellFeatures(st, raw, members, nP, state.seedScale, like);
-  return { conf: applyCalibration(state.calibration, state.seedCalibration, feats, nP * nT, like), raw, nearest };
+  const context = new Float64Array(nP * nT);
+  return { conf: applyCalibration(state.calibration, state.seedCalibration, feats, nP * nT, like, context), raw, nearest, context };
 }
 
 /** Soft counts: per theme and over all themes, sparse, with the total mass added to `all`. */
@@ -857,9 +871,10 @@ function fitCalibration(names: string[], rows: number[], y: Uint8Array, feats: F
  * confidence keeps the share (1 - l) / (1 - k). A handful of rejections are too few for the
  * calibration to learn a weight for them.
  */
-function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Float64Array, cells: number, like: Float64Array): Float64Array {
+function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Float64Array, cells: number, like: Float64Array, context?: Float64Array): Float64Array {
   const HAS = FEATURES.indexOf('has');
   const KNN = FEATURES.indexOf('knn');
+  const CONTEXT = FEATURES.map((f) => f.startsWith('ctx_'));
   const ix = (cal: Calibration) => cal.features.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
   const idx = ix(c);
   const sidx = seedC ? ix(seedC) : [];
@@ -868,7 +883,13 @@ function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Floa
     const cal = seedC && feats[cell * NF + HAS] === 0 ? seedC : c;
     const use = cal === c ? idx : sidx;
     let z = cal.intercept;
-    for (let q = 0; q < use.length; q++) z += (cal.weights[q]! * (feats[cell * NF + use[q]!]! - cal.mean[q]!)) / cal.sd[q]!;
+    let ctx = 0;
+    for (let q = 0; q < use.length; q++) {
+      const part = (cal.weights[q]! * (feats[cell * NF + use[q]!]! - cal.mean[q]!)) / cal.sd[q]!;
+      z += part;
+      if (CONTEXT[use[q]!]) ctx += part;
+    }
+    if (context) context[cell] = ctx;
     let keep = 1;
     if (like.length) {
       const l = like[cell]!;

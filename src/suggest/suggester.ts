@@ -244,8 +244,24 @@ export class ThemeSuggester {
     const seedOnly = themes.map((th, t) => !profiled[t] && this.seedTerms(th).length > 0);
     const tooFew = themes.map((_, t) => profiled[t]! && (prof.positives[t]! < o.minExamples || prof.positiveTranscripts[t]! < o.minTranscripts));
 
-    // 1. LOTO signals of every passage (full profiles for transcripts with no labels).
     const nP = passages.length;
+    // The layers' state, kept empty when the few-example scorer gives the confidences.
+    let sets: Sets = { cells: new Int32Array(0), theme: new Int32Array(0), y: new Uint8Array(0), start: Int32Array.of(0), partial: new Uint8Array(0) };
+    let base: LayerState = { inputs: [], mean: [], sd: [], weights: [], intercepts: [] };
+    let substance: SuggesterState['substance'] = null;
+    const lossBy: Record<string, number> = {};
+    let ctx: { layer: LayerState; decay: number; scale: 'mean' | 'sqrt' } = { layer: base, decay: NaN, scale: 'sqrt' };
+    const rowsOf: number[][] = themes.map(() => []);
+    let seedCalibrator: Platt | null = null;
+    this.nearest = new Int32Array(nP * nT).fill(-1);
+    this.nearestSim = new Float64Array(nP * nT);
+    this.score = new Float64Array(nP * nT);
+    this.ctxPart = new Float64Array(nP * nT);
+    this.qPart = new Float64Array(nP * nT);
+    this.conf = new Float64Array(nP * nT);
+    this.seedVecs = themes.map(() => null);
+    if (o.scorer === 'layers') {
+    // 1. LOTO signals of every passage (full profiles for transcripts with no labels).
     const F = new Float64Array(nP * nT * SIGNALS);
     const valid = new Uint8Array(nP * nT);
     this.nearest = new Int32Array(nP * nT);
@@ -275,7 +291,7 @@ export class ThemeSuggester {
       if (profiled[t]) (groupOf.get(levelOf[t]!) ?? groupOf.set(levelOf[t]!, []).get(levelOf[t]!)!).push(t);
     });
     const groups = [...groupOf.values()];
-    const sets = trainingSets(groups, valid, members, codedTranscript, labelsInBatch, negs, nT);
+    sets = trainingSets(groups, valid, members, codedTranscript, labelsInBatch, negs, nT);
 
     // 2. Base layer.
     const baseInputs = BASE_SIGNALS.filter((s) => o.signals[s]);
@@ -286,7 +302,7 @@ export class ThemeSuggester {
       return { name: s, cell: col };
     });
     // u only feeds the context features: a few Newton steps place it well enough.
-    const base = fitLayer(baseCols, sets, nT, o.ridge, undefined, BASE_STEPS).layer;
+    base = fitLayer(baseCols, sets, nT, o.ridge, undefined, BASE_STEPS).layer;
     progress(FIT_SHARES.base);
     const u = new Float64Array(nP * nT);
     for (let j = 0; j < baseCols.length; j++) {
@@ -304,7 +320,6 @@ export class ThemeSuggester {
     if (o.signals.adjacent) fixed.push({ name: 'adjacent', cell: adjacent(ctxIn) });
     if (hasQuestion) fixed.push({ name: 'question', cell: question(ctxIn) });
     const knots: number[] = [];
-    let substance: SuggesterState['substance'] = null;
     if (o.signals.length) {
       // Short turns ("yes", "mm") and interviewer turns are seldom coded at all. Whether a passage
       // is coded, from its log length (a linear spline bending at quantiles) and the speaker's
@@ -335,7 +350,6 @@ export class ThemeSuggester {
     const decays = o.signals.transcript ? o.decays : [NaN];
     const scales = o.signals.transcript ? o.contextScales : (['mean'] as const);
     let best: { layer: LayerState; data: ChoiceData; loss: number; decay: number; scale: 'mean' | 'sqrt'; cols: Column[]; index: number } | null = null;
-    const lossBy: Record<string, number> = {};
     // The first candidate starts where the base layer and the length model leave off: weight
     // sd(x) on a standardised x is weight 1 on x itself.
     const sdOf = (col: Column) => rowStats(col, sets, nT).sd;
@@ -377,15 +391,16 @@ export class ThemeSuggester {
       best!.layer = refitLayer(best!.layer, best!.data, o.ridge);
       best!.loss = choiceLoss(best!.layer, best!.data);
     }
-    const ctx = best!;
+    const won = best!;
+    ctx = won;
 
     // Scores, the parts due to context (for reasons), and confidences within each group.
     this.score = new Float64Array(nP * nT);
     this.ctxPart = new Float64Array(nP * nT);
     this.qPart = new Float64Array(nP * nT);
-    ctx.cols.forEach((col, j) => {
-      const w = ctx.layer.weights[j]! / ctx.layer.sd[j]!;
-      const m = ctx.layer.mean[j]!;
+    won.cols.forEach((col, j) => {
+      const w = won.layer.weights[j]! / won.layer.sd[j]!;
+      const m = won.layer.mean[j]!;
       const part = col.name === 'adjacent' || col.name === 'transcript' ? this.ctxPart : col.name === 'question' ? this.qPart : null;
       for (let cell = 0; cell < nP * nT; cell++) {
         const v = w * ((col.cell ? col.cell[cell]! : col.passage![(cell / nT) | 0]!) - m);
@@ -415,13 +430,12 @@ export class ThemeSuggester {
 
     progress(FIT_SHARES.context);
     // 4. Seed-only themes: how a centroid cosine maps to a coding, pooled over all themes.
-    const rowsOf: number[][] = themes.map(() => []);
     for (let s = 0; s + 1 < sets.start.length; s++) {
       if (sets.partial[s]) continue;
       for (let r = sets.start[s]!; r < sets.start[s + 1]!; r++) rowsOf[sets.theme[r]!]!.push(r);
     }
     const trainRows = rowsOf.flat();
-    const seedCalibrator = seedOnly.some(Boolean) && trainRows.length ? fitPlatt(trainRows.map((r) => F[sets.cells[r]! * SIGNALS + CENTROID]!), trainRows.map((r) => sets.y[r]!)) : null;
+    seedCalibrator = seedOnly.some(Boolean) && trainRows.length ? fitPlatt(trainRows.map((r) => F[sets.cells[r]! * SIGNALS + CENTROID]!), trainRows.map((r) => sets.y[r]!)) : null;
     this.seedVecs = themes.map((th, t) => (seedOnly[t] ? this.vec.vector(withBigrams(this.seedTerms(th), o.bigrams)) : null));
     for (let t = 0; t < nT; t++) {
       if (!seedOnly[t] || !seedCalibrator) continue;
@@ -432,12 +446,16 @@ export class ThemeSuggester {
       }
     }
 
+    }
     // The few-example scorer replaces the confidences (the profiles above still give reasons).
-    const few = o.scorer === 'fewshot' ? fitFewshot(passages, codings, themes, { targetPrecision: o.targetPrecision, ...o.fewshot }, extra.negatives ?? []) : null;
+    if (o.scorer === 'fewshot') progress(0);
+    const few =
+      o.scorer === 'fewshot' ? fitFewshot(passages, codings, themes, { targetPrecision: o.targetPrecision, ...o.fewshot }, extra.negatives ?? [], (d) => progress(0.95 * d)) : null;
     const scored = themes.map((_, t) => (few ? few.state.themes[t]!.rolled > 0 || few.state.seeds[t]!.indices.length > 0 : profiled[t]! || (seedOnly[t]! && !!seedCalibrator)));
     const heldOutOf: number[][] = themes.map(() => []);
     if (few) {
       this.conf = new Float64Array(few.cells.conf);
+      this.ctxPart = new Float64Array(few.cells.context);
       for (let cell = 0; cell < nP * nT; cell++) {
         const c = Math.min(Math.max(this.conf[cell]!, 1e-12), 1 - 1e-12);
         this.score[cell] = Math.log(c / (1 - c));
