@@ -29,7 +29,7 @@ describe('few-example scorer: Complement Naive Bayes signal', () => {
     const { docs, labels, classes, jll } = ref.complement_nb as { docs: string[][]; labels: string[]; classes: string[]; jll: number[][] };
     const themes = classes.map((c) => theme(c));
     const codings: Coding[] = labels.map((l, i) => ({ passageId: `p${i}`, themeId: l }));
-    const fit = fitFewshot(passagesOf(docs), codings, themes, { em: 0 });
+    const fit = fitFewshot(passagesOf(docs), codings, themes, { em: 0, alpha: 0.3 });
     const nT = themes.length;
     jll.forEach((row, i) => {
       const p = labels.length + i;
@@ -42,7 +42,7 @@ describe('few-example scorer: shrinkage toward the parent', () => {
   // Worked by hand. Passages of one term each, so every TF-IDF vector is that term at weight 1.
   // Template: P > {C1, C2}, and Q. Coded: ["a"] -> C1, ["b"] -> C2, ["b"] -> Q; scored: ["a"].
   // Counts: C1 {a:1}, C2 {b:1}, P (rolled up) {a:1, b:1}, Q {b:1}; all coded {a:1, b:2}, mass 3.
-  // Unit mass = 3 / 3 passages = 1, so mu = 2 (the default mu, in passages). V = 2 terms.
+  // Unit mass = 3 / 3 passages = 1, so mu = 2 (mu is given in passages' worth). V = 2 terms.
   //   top:  theta(a) = (1 + 2 * 1/2) / (3 + 2)     = 0.4
   //   P:    theta(a) = (1 + 2 * 0.4) / (2 + 2)     = 0.45
   //   C1:   theta(a) = (1 + 2 * 0.45) / (1 + 2)    = 1.9 / 3
@@ -55,7 +55,7 @@ describe('few-example scorer: shrinkage toward the parent', () => {
     { passageId: 'p1', themeId: 'C2' },
     { passageId: 'p2', themeId: 'Q' },
   ];
-  const fit = fitFewshot(passagesOf([['a'], ['b'], ['b'], ['a']]), codings, themes, { em: 0 });
+  const fit = fitFewshot(passagesOf([['a'], ['b'], ['b'], ['a']]), codings, themes, { em: 0, mu: 2 });
   const mnb = (t: number) => fit.cells.raw[(3 * 4 + t) * RAW]!;
   it('mixes each theme with its parent by their masses', () => {
     expect(mnb(0)).toBeCloseTo(Math.log(0.45), 12);
