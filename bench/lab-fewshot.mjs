@@ -52,6 +52,7 @@ export const VARIANTS = {
   'no-knn': { drop: ['knn', 'ctx_knn'] },
   'no-seed': { drop: ['seed', 'ctx_seed', 'seed_uncoded', 'ctx_seed_uncoded'] },
   'no-rank': { drop: ['first', 'log_rank'] },
+  'no-transcript': { drop: ['tr_mnb', 'tr_cnb', 'tr_knn'] },
   'no-seed-model': { drop: ['seed_only_model'] },
   'no-seed-z': { drop: ['seed_z', 'ctx_seed_z'] },
 };

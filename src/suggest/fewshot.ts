@@ -104,6 +104,9 @@ export const FEATURES = [
   'ctx_seed_z',
   'log_words',
   'interviewer',
+  'tr_mnb',
+  'tr_cnb',
+  'tr_knn',
 ] as const;
 
 /** Features of the name-and-seeds calibration, used for themes with no coded passage. */
@@ -320,9 +323,8 @@ export function fitFewshot(
       const restore = out.length ? leaveOut(st, state0.coded, out, -1) : null;
       for (const p of members[ti]!) {
         // An uncoded passage is scored without its own soft counts (as a new passage would be).
-        const back = round > 0 && !out.length && o.emLeaveOut ? softOut(st, softShare(conf, p, nT, tree, o.em, negOf.get(p), like), x[p]!) : null;
-        rawSignals(st, x[p]!, out.length ? ti : -1, raw, nearest, p, round > 0);
-        if (back) back();
+        const self = round > 0 && !out.length && o.emLeaveOut ? softShare(conf, p, nT, tree, o.em, negOf.get(p), like) : null;
+        rawSignals(st, x[p]!, out.length ? ti : -1, raw, nearest, p, round > 0, self);
       }
       if (restore) restore();
     }
@@ -453,29 +455,6 @@ function softShare(conf: Float64Array, p: number, nT: number, tree: Tree, weight
   return { theme: share, all: weight * Math.min(1, total) };
 }
 
-/** Takes one passage's soft counts out; returns the function that puts them back exactly. */
-function softOut(st: Stats, w: { theme: Float64Array; all: number }, v: SparseVector): () => void {
-  const saved: [Float64Array, number, number][] = [];
-  const gtot = st.gtot;
-  const sub = (a: Float64Array, i: number, d: number) => {
-    saved.push([a, i, a[i]!]);
-    a[i] = a[i]! - d;
-  };
-  let mass = 0;
-  for (let k = 0; k < v.indices.length; k++) mass += v.values[k]!;
-  for (let k = 0; k < v.indices.length; k++) {
-    const j = v.indices[k]!;
-    sub(st.G, j, w.all * v.values[k]!);
-    for (let t = 0; t < st.nT; t++) if (w.theme[t]) sub(st.R, t * st.V + j, w.theme[t]! * v.values[k]!);
-  }
-  for (let t = 0; t < st.nT; t++) if (w.theme[t]) sub(st.tot, t, w.theme[t]! * mass);
-  st.gtot -= w.all * mass;
-  return () => {
-    for (let i = saved.length - 1; i >= 0; i--) saved[i]![0][saved[i]![1]] = saved[i]![2];
-    st.gtot = gtot;
-  };
-}
-
 function softCounts(conf: Float64Array, x: SparseVector[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, V: number, weight: number, negOf: Map<number, number[]>, like: Float64Array): Soft {
   const nT = tree.themes.length;
   const R = new Float64Array(nT * V);
@@ -486,11 +465,13 @@ function softCounts(conf: Float64Array, x: SparseVector[], codedT: Uint8Array, t
     const v = x[p]!;
     const w = softShare(conf, p, nT, tree, weight, negOf.get(p), like);
     const g = w.all;
+    const on: number[] = [];
+    for (let t = 0; t < nT; t++) if (w.theme[t]) on.push(t);
     for (let k = 0; k < v.indices.length; k++) {
       const j = v.indices[k]!;
       G[j] = G[j]! + g * v.values[k]!;
       mass += g * v.values[k]!;
-      for (let t = 0; t < nT; t++) if (w.theme[t]) R[t * V + j] = R[t * V + j]! + w.theme[t]! * v.values[k]!;
+      for (const t of on) R[t * V + j] = R[t * V + j]! + w.theme[t]! * v.values[k]!;
     }
   }
   return { counts: Array.from({ length: nT }, (_, t) => denseToSparse(R.subarray(t * V, (t + 1) * V))), all: denseToSparse(G), mass };
@@ -694,42 +675,52 @@ function leaveOut(st: Stats, coded: { vector: SparseVector; themes: number[] }[]
  * @param nbOnly only the two Naive Bayes signals (the seed and nearest-passage signals do not
  *   change between EM rounds: they are kept from the first)
  */
-function rawSignals(st: Stats, x: SparseVector, skipTranscript: number, raw: Float64Array, nearest: Int32Array, p: number, nbOnly = false): void {
+function rawSignals(
+  st: Stats,
+  x: SparseVector,
+  skipTranscript: number,
+  raw: Float64Array,
+  nearest: Int32Array,
+  p: number,
+  nbOnly = false,
+  self: { theme: Float64Array; all: number } | null = null,
+): void {
   const { nT, V, R, tot, G, tree, o } = st;
   const n = x.indices.length;
   const mu = o.mu * st.unit;
+  // The passage's own soft counts, taken out on the fly (self.theme[t] and self.all times its vector).
+  let mass = 0;
+  for (let k = 0; k < n; k++) mass += x.values[k]!;
+  const selfAll = self ? self.all : 0;
+  const gtot = st.gtot - selfAll * mass;
   // Top level: all coded passages shrunk toward the uniform distribution.
   const top = new Float64Array(n);
-  for (let k = 0; k < n; k++) top[k] = (G[x.indices[k]!]! + mu / V) / (st.gtot + mu);
+  for (let k = 0; k < n; k++) top[k] = (G[x.indices[k]!]! - selfAll * x.values[k]! + mu / V) / (gtot + mu);
   const theta = new Float64Array(nT * n);
   const base = p * nT * NR;
   for (const t of st.order) {
+    if (!nbOnly) raw[base + t * NR + 3] = sparseDot(x, st.seeds[t]!); // seed cosine (both unit length)
+    // A theme with no coded passage has none below it either: its Naive Bayes signals are unused.
+    if (!(st.rolled[t]! > 0)) continue;
     const up = tree.parent[t]!;
+    const sw = self ? self.theme[t]! : 0;
+    const tt = tot[t]! - sw * mass;
     let ll = 0;
     let cl = 0;
-    const ct = st.gtot - tot[t]! + o.alpha * V;
+    const ct = gtot - tt + o.alpha * V;
+    const row = t * V;
     for (let k = 0; k < n; k++) {
       const j = x.indices[k]!;
+      const xv = x.values[k]!;
+      const r = R[row + j]! - sw * xv;
       const prior = up >= 0 ? theta[up * n + k]! : top[k]!;
-      const th = (R[t * V + j]! + mu * prior) / (tot[t]! + mu);
+      const th = (r + mu * prior) / (tt + mu);
       theta[t * n + k] = th;
-      ll += x.values[k]! * Math.log(th);
-      cl -= x.values[k]! * Math.log((G[j]! - R[t * V + j]! + o.alpha) / ct);
+      ll += xv * Math.log(th);
+      cl -= xv * Math.log((G[j]! - selfAll * xv - r + o.alpha) / ct);
     }
     raw[base + t * NR] = ll;
     raw[base + t * NR + 1] = cl;
-    if (nbOnly) continue;
-    // Seed cosine (both unit length).
-    const s = st.seeds[t]!;
-    let dot = 0;
-    for (let a = 0, b = 0; a < n && b < s.indices.length; ) {
-      const ia = x.indices[a]!;
-      const ib = s.indices[b]!;
-      if (ia === ib) dot += x.values[a++]! * s.values[b++]!;
-      else if (ia < ib) a++;
-      else b++;
-    }
-    raw[base + t * NR + 3] = dot;
   }
   if (!nbOnly) nearestSignals(st, x, skipTranscript, raw, nearest, p);
   // Which themes have coded passages in this fold (for the standardising).
@@ -820,7 +811,12 @@ function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: num
   const comb = new Float64Array(nT);
   const rank = new Float64Array(nT);
   const ranked = [...Array(nT).keys()].filter((t) => st.rolled[t]! > 0);
+  const trSum = new Float64Array(nT * 3);
   for (const m of members) {
+    // Whole-transcript context: the mean of the other passages' signals (a transcript about one
+    // thing throughout; the calibration learns how far that holds in this study).
+    trSum.fill(0);
+    for (const q of m) for (let t = 0; t < nT; t++) for (let r = 0; r < 3; r++) trSum[t * 3 + r] = trSum[t * 3 + r]! + own[(q * nT + t) * W + r]!;
     for (let i = 0; i < m.length; i++) {
       const p = m[i]!;
       // Rank of each theme by the combined standardised score.
@@ -869,6 +865,7 @@ function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: num
         f[at + 18] = ctx[4]!;
         f[at + 19] = Math.log1p(st.words[p] ?? 0);
         f[at + 20] = st.interviewer[p] ?? 0;
+        for (let r = 0; r < 3; r++) f[at + 21 + r] = m.length > 1 ? (trSum[t * 3 + r]! - own[cell * W + r]!) / (m.length - 1) : 0;
       }
     }
   }
