@@ -56,13 +56,15 @@ export function registerSuggest(program: Command): void {
     .addHelpText(
       'after',
       `
-trellis learns a profile for every theme from the coded passages (and from the definition
-and seed terms of an a priori theme not yet coded), checks it by leaving out one transcript
-at a time, and turns scores into confidences: the estimated chance that the coder would give
-this theme. A candidate is above threshold when its confidence reaches the theme's threshold,
-set so that the theme's suggestions were right at least --target-precision of the time.
-A passage with no candidate above threshold is unclaimed. Suggestions are aids: nothing is
-coded until a researcher decides.
+trellis learns a profile for every theme from its first coded passage on (a theme with none
+is matched on its name, definition and seed terms, and says so), and turns the evidence into
+confidences with one calibration shared by all themes, fitted by leaving out one coded
+transcript at a time: the estimated chance that the coder would give this very theme (a parent
+only where coders give the parent itself). A candidate is above threshold when its confidence
+reaches the threshold at which the left-out transcripts' suggestions were right at least
+--target-precision of the time; a passage may have several. Themes with too few coded passages
+for their confidence to be checked are named in a warning. A passage with no candidate above
+threshold is unclaimed. Suggestions are aids: nothing is coded until a researcher decides.
 
 Examples:
   trellis suggest --transcript t05-ward9-fy2
