@@ -3,6 +3,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { fitFewshot, scoreFewshot } from '../../src/suggest/fewshot.js';
 import { fitGrouped } from '../../src/suggest/logistic.js';
+import { ThemeSuggester } from '../../src/suggest/suggester.js';
 import type { Coding, ModelPassage, ThemeInfo } from '../../src/suggest/types.js';
 
 const ref = JSON.parse(readFileSync(join(import.meta.dirname, '../reference/fewshot.json'), 'utf8'));
@@ -132,5 +133,41 @@ describe('few-example scorer: every theme a candidate', () => {
     const later: ModelPassage = { id: 'new', transcript: 'later', ordinal: 1, role: 'participant', terms: ['overtime', 'rota', 'unknownword'] };
     const s = scoreFewshot(fit.state, themes, [later]);
     expect([0, 1, 2, 3].sort((a, b) => s.conf[b]! - s.conf[a]!)[0]).toBe(0);
+  });
+});
+
+describe('the exact theme first, a parent only where no sub-theme stands out', () => {
+  // Invented: Workload (coded itself for general talk of being busy) with sub-themes Staffing
+  // and Rota, each coded on talk of its own; transcripts t1-t6 coded, t7 not.
+  const talk: Record<string, string[][]> = {
+    work: [['busy', 'pressure', 'tired', 'demand'], ['pressure', 'busy', 'exhausted', 'demand'], ['tired', 'busy', 'pressure', 'load']],
+    staff: [['agency', 'vacancy', 'short', 'staff'], ['vacancy', 'staff', 'agency', 'bank'], ['short', 'staff', 'bank', 'agency']],
+    rota: [['rota', 'shift', 'swap', 'weekend'], ['shift', 'weekend', 'rota', 'night'], ['swap', 'rota', 'night', 'shift']],
+  };
+  const themes = [theme('work', null, { nameTerms: ['workload'] }), theme('staff', 'work', { nameTerms: ['staffing'] }), theme('rota', 'work', { nameTerms: ['rota'] })];
+  const passages: ModelPassage[] = [];
+  const codings: Coding[] = [];
+  for (let t = 1; t <= 7; t++) {
+    for (const th of ['work', 'staff', 'rota']) {
+      for (let k = 0; k < 2; k++) {
+        const id = `t${t}#${passages.length}`;
+        passages.push({ id, transcript: `t${t}`, ordinal: passages.length, role: 'participant', terms: talk[th]![(t + k) % 3]! });
+        if (t < 7) codings.push({ passageId: id, themeId: th });
+      }
+    }
+  }
+  const model = new ThemeSuggester().fit(passages, codings, themes);
+  const fresh = model.predict(passages.filter((p) => p.transcript === 't7').map((p) => p.id));
+  const truth = (i: number) => ['work', 'staff', 'rota'][Math.floor(i / 2)]!;
+
+  it('ranks the sub-theme itself first for talk of it, and the parent first for talk of the parent', () => {
+    fresh.forEach((p, i) => expect(p.candidates[0]!.themeId, p.passageId).toBe(truth(i)));
+  });
+  it('says so when it suggests the parent: no sub-theme stands out', () => {
+    const parent = fresh.filter((_, i) => truth(i) === 'work').flatMap((p) => p.candidates.filter((c) => c.chosen && c.themeId === 'work'));
+    expect(parent.length).toBeGreaterThan(0);
+    for (const c of parent) expect(c.reasons).toContainEqual({ kind: 'parent', theme: 'work' });
+    // A sub-theme chosen is never explained so.
+    for (const p of fresh) for (const c of p.candidates) if (c.themeId !== 'work') expect(c.reasons.some((r) => r.kind === 'parent')).toBe(false);
   });
 });
