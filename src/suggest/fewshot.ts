@@ -175,7 +175,7 @@ interface Stats {
   V: number;
   tree: Tree;
   order: number[]; // themes, parents before children
-  R: Float64Array; // nT * V
+  R: Float64Array; // V * nT, term-major: a passage's terms read each theme's counts side by side
   tot: Float64Array; // nT
   G: Float64Array; // V
   gtot: number;
@@ -371,7 +371,7 @@ export function fitFewshot(
     options: o,
     tfidf: vec.state,
     themes: themesOut,
-    counts: Array.from({ length: nT }, (_, t) => denseToSparse(base.R.subarray(t * V, (t + 1) * V))),
+    counts: Array.from({ length: nT }, (_, t) => themeColumn(base.R, t, nT, V)),
     all: denseToSparse(base.G),
     coded: codedIdx.map((p, ci) => ({ id: passages[p]!.id, transcript: passages[p]!.transcript, ...sp(x[p]!), themes: state0.coded[ci]!.themes })),
     rejected: rejected.map((r) => ({ ...sp(r.vector), themes: r.themes })),
@@ -480,7 +480,7 @@ function softCounts(conf: Float64Array, x: SparseVector[], codedT: Uint8Array, t
 function addSoft(st: Stats, soft: Soft): void {
   soft.counts.forEach((c, t) => {
     for (let k = 0; k < c.indices.length; k++) {
-      st.R[t * st.V + c.indices[k]!] = st.R[t * st.V + c.indices[k]!]! + c.values[k]!;
+      st.R[c.indices[k]! * st.nT + t] = st.R[c.indices[k]! * st.nT + t]! + c.values[k]!;
       st.tot[t] = st.tot[t]! + c.values[k]!;
     }
   });
@@ -558,6 +558,17 @@ function sparseDot(a: SparseVector, b: SparseVector): number {
   return dot;
 }
 
+/** One theme's column of a term-major count matrix, as a sparse vector. */
+function themeColumn(R: Float64Array, t: number, nT: number, V: number): { indices: number[]; values: number[] } {
+  const indices: number[] = [];
+  const values: number[] = [];
+  for (let j = 0; j < V; j++) {
+    const v = R[j * nT + t]!;
+    if (v) indices.push(j), values.push(v);
+  }
+  return { indices, values };
+}
+
 function denseToSparse(d: ArrayLike<number>): { indices: number[]; values: number[] } {
   const indices: number[] = [];
   const values: number[] = [];
@@ -590,7 +601,7 @@ function buildStats(
       G[j] = G[j]! + w;
       post[j]!.c.push(ci);
       post[j]!.w.push(w);
-      for (const t of c.themes) R[t * V + j] = R[t * V + j]! + w;
+      for (const t of c.themes) R[j * nT + t] = R[j * nT + t]! + w;
     }
     gtot += mass;
     for (const t of c.themes) (tot[t] = tot[t]! + mass), rolled[t]!++;
@@ -606,8 +617,8 @@ function buildStats(
       mass += w;
       G[j] = G[j]! + w;
       for (const t of r.themes) {
-        const cut = Math.min(R[t * V + j]!, w);
-        R[t * V + j] = R[t * V + j]! - cut;
+        const cut = Math.min(R[j * nT + t]!, w);
+        R[j * nT + t] = R[j * nT + t]! - cut;
         tot[t] = tot[t]! - cut;
       }
     }
@@ -652,8 +663,8 @@ function leaveOut(st: Stats, coded: { vector: SparseVector; themes: number[] }[]
       save(st.G, j);
       st.G[j] = st.G[j]! - w;
       for (const t of c.themes) {
-        save(st.R, t * st.V + j);
-        st.R[t * st.V + j] = st.R[t * st.V + j]! - w;
+        save(st.R, j * st.nT + t);
+        st.R[j * st.nT + t] = st.R[j * st.nT + t]! - w;
       }
     }
     st.gtot -= mass;
@@ -696,31 +707,44 @@ function rawSignals(
   // Top level: all coded passages shrunk toward the uniform distribution.
   const top = new Float64Array(n);
   for (let k = 0; k < n; k++) top[k] = (G[x.indices[k]!]! - selfAll * x.values[k]! + mu / V) / (gtot + mu);
-  const theta = new Float64Array(nT * n);
   const base = p * nT * NR;
-  for (const t of st.order) {
-    if (!nbOnly) raw[base + t * NR + 3] = sparseDot(x, st.seeds[t]!); // seed cosine (both unit length)
-    // A theme with no coded passage has none below it either: its Naive Bayes signals are unused.
-    if (!(st.rolled[t]! > 0)) continue;
-    const up = tree.parent[t]!;
-    const sw = self ? self.theme[t]! : 0;
-    const tt = tot[t]! - sw * mass;
-    let ll = 0;
-    let cl = 0;
-    const ct = gtot - tt + o.alpha * V;
-    const row = t * V;
-    for (let k = 0; k < n; k++) {
-      const j = x.indices[k]!;
-      const xv = x.values[k]!;
-      const r = R[row + j]! - sw * xv;
-      const prior = up >= 0 ? theta[up * n + k]! : top[k]!;
-      const th = (r + mu * prior) / (tt + mu);
-      theta[t * n + k] = th;
-      ll += xv * Math.log(th);
-      cl -= xv * Math.log((G[j]! - selfAll * xv - r + o.alpha) / ct);
+  if (!nbOnly) for (let t = 0; t < nT; t++) raw[base + t * NR + 3] = sparseDot(x, st.seeds[t]!); // seed cosine (both unit length)
+  // Themes with coded passages, parents before children (a theme with none has none below it:
+  // its Naive Bayes signals are unused), with their totals less the passage's own soft share.
+  const live: number[] = [];
+  for (const t of st.order) if (st.rolled[t]! > 0) live.push(t);
+  const tt = new Float64Array(nT);
+  const ct = new Float64Array(nT);
+  const sw = self ? self.theme : null;
+  for (const t of live) {
+    tt[t] = tot[t]! - (sw ? sw[t]! : 0) * mass;
+    ct[t] = gtot - tt[t]! + o.alpha * V;
+  }
+  const ll = new Float64Array(nT);
+  const cl = new Float64Array(nT);
+  const thetaK = new Float64Array(nT);
+  // Term by term, every theme's counts of the term side by side (R is term-major); the sums over
+  // terms run in the passage's term order, theme by theme.
+  for (let k = 0; k < n; k++) {
+    const j = x.indices[k]!;
+    const xv = x.values[k]!;
+    const off = j * nT;
+    const gj = G[j]! - selfAll * xv;
+    const topK = top[k]!;
+    for (let q = 0; q < live.length; q++) {
+      const t = live[q]!;
+      const up = tree.parent[t]!;
+      const r = R[off + t]! - (sw ? sw[t]! * xv : 0);
+      const prior = up >= 0 ? thetaK[up]! : topK;
+      const th = (r + mu * prior) / (tt[t]! + mu);
+      thetaK[t] = th;
+      ll[t] = ll[t]! + xv * Math.log(th);
+      cl[t] = cl[t]! - xv * Math.log((gj - r + o.alpha) / ct[t]!);
     }
-    raw[base + t * NR] = ll;
-    raw[base + t * NR + 1] = cl;
+  }
+  for (const t of live) {
+    raw[base + t * NR] = ll[t]!;
+    raw[base + t * NR + 1] = cl[t]!;
   }
   if (!nbOnly) nearestSignals(st, x, skipTranscript, raw, nearest, p);
   // Which themes have coded passages in this fold (for the standardising).
@@ -768,11 +792,12 @@ function nearestSignals(st: Stats, x: SparseVector, skipTranscript: number, raw:
 const NF = FEATURES.length;
 
 /** The calibration's features of every cell, from the raw signals (context within each run of members). */
-function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: number, seedScale: SeedScale, like: Float64Array): Float64Array {
+function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: number, seedScale: SeedScale, like: Float64Array): Float32Array {
   const { nT, tree, o } = st;
   const W = 5;
   const own = new Float64Array(nP * nT * W); // mnb_z, cnb_z, knn, seed, seed_z
-  const f = new Float64Array(nP * nT * NF);
+  // Single precision: the features of 4,000 passages by 190 themes would take 150 MB in double.
+  const f = new Float32Array(nP * nT * NF);
   const zs = [0, 1];
   for (let p = 0; p < nP; p++) {
     for (const r of zs) {
@@ -873,7 +898,7 @@ function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: num
 }
 
 /** A logistic regression on the named features of the given cells, standardised over them. */
-function fitCalibration(names: string[], rows: number[], y: Uint8Array, feats: Float64Array, ridge: number, start?: Calibration | null): Calibration {
+function fitCalibration(names: string[], rows: number[], y: Uint8Array, feats: Float32Array, ridge: number, start?: Calibration | null): Calibration {
   const idx = names.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
   const k = idx.length;
   const n = Math.max(rows.length, 1);
@@ -893,7 +918,7 @@ function fitCalibration(names: string[], rows: number[], y: Uint8Array, feats: F
  * confidence keeps the share (1 - l) / (1 - k). A handful of rejections are too few for the
  * calibration to learn a weight for them.
  */
-function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Float64Array, cells: number, like: Float64Array, context?: Float64Array): Float64Array {
+function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Float32Array, cells: number, like: Float64Array, context?: Float64Array): Float64Array {
   const HAS = FEATURES.indexOf('has');
   const KNN = FEATURES.indexOf('knn');
   const CONTEXT = FEATURES.map((f) => f.startsWith('ctx_'));

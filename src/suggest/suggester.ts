@@ -557,7 +557,11 @@ export class ThemeSuggester {
         negatives: usedNegatives,
       },
     };
-    this.fp = fingerprint([JSON.stringify(this.st), prof.s, prof.y, this.score, this.conf]);
+    // The few-example scorer's counts are summarised by the confidences they gave (their JSON
+    // would be millions of numbers): its calibration, threshold and options are hashed as text.
+    const f = this.st.fewshot;
+    const light = f ? { ...this.st, fewshot: { options: f.options, calibration: f.calibration, seedCalibration: f.seedCalibration, threshold: f.threshold, seedScale: f.seedScale } } : this.st;
+    this.fp = fingerprint([JSON.stringify(light), prof.s, prof.y, this.score, this.conf]);
     return this;
   }
 
