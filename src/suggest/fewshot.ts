@@ -471,10 +471,11 @@ function softCounts(conf: Float64Array, x: SparseVector[], codedT: Uint8Array, t
       const j = v.indices[k]!;
       G[j] = G[j]! + g * v.values[k]!;
       mass += g * v.values[k]!;
-      for (const t of on) R[t * V + j] = R[t * V + j]! + w.theme[t]! * v.values[k]!;
+      const off = j * nT;
+      for (const t of on) R[off + t] = R[off + t]! + w.theme[t]! * v.values[k]!;
     }
   }
-  return { counts: Array.from({ length: nT }, (_, t) => denseToSparse(R.subarray(t * V, (t + 1) * V))), all: denseToSparse(G), mass };
+  return { counts: Array.from({ length: nT }, (_, t) => themeColumn(R, t, nT, V)), all: denseToSparse(G), mass };
 }
 
 function addSoft(st: Stats, soft: Soft): void {
