@@ -94,6 +94,8 @@ export type SignalName =
 
 export interface TermWeight {
   term: string;
+  /** The term as the study writes it, when the edge has looked it up (the term is a lemma). */
+  written?: string;
   /** Weighted log-odds ratio (theme vs the rest of the coded batch). */
   weight: number;
   z: number;

@@ -50,3 +50,21 @@ export function matchedFragment(text: string, lemmas: readonly string[], spans: 
   const body = text.slice(from, to).replace(/\s+/g, ' ').trim();
   return { written, fragment: `${from > 0 ? '…' : ''}${body}${to < text.length ? '…' : ''}` };
 }
+
+/**
+ * The form a study writes a lemma in, from the counts of its surface forms: the lemma itself
+ * when the study writes it so; else the most frequent lower-case form (a word capitalised only
+ * at the start of a sentence; "centre" for the lemma "center"), else the most frequent form (a
+ * name such as "HCAs"); ties by code-unit order. The lemma when no form is seen.
+ */
+export function commonForm(lemma: string, forms: ReadonlyMap<string, number> | undefined): string {
+  if (!forms || !forms.size) return lemma;
+  if (forms.has(lemma)) return lemma;
+  const pick = (keep: (f: string) => boolean) => {
+    let best: string | null = null;
+    let n = 0;
+    for (const [f, c] of forms) if (keep(f) && (c > n || (c === n && best !== null && f < best))) (best = f), (n = c);
+    return best;
+  };
+  return pick((f) => f === f.toLowerCase()) ?? pick(() => true) ?? lemma;
+}

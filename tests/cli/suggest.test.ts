@@ -132,6 +132,18 @@ describe('trellis suggest after a first batch of three coded transcripts', () =>
     expect(stderr).toContain(out.few_examples[0]!.theme);
   });
 
+  it("profiles the themes' top terms as the study writes them (British spelling kept)", () => {
+    const r = trellis(['profile', '--json', '--terms', '30'], dir);
+    expect(r.status, r.stderr).toBe(0);
+    const terms = (JSON.parse(r.stdout).themes as { topTerms: { term: string; written: string }[] }[]).flatMap((t) => t.topTerms);
+    expect(terms.length).toBeGreaterThan(20);
+    for (const t of terms) expect(typeof t.written).toBe('string');
+    // The analysis spells the lemma "center"; the interviews write "centre".
+    const centre = terms.filter((t) => t.term === 'center');
+    expect(centre.length).toBeGreaterThan(0);
+    for (const t of centre) expect(t.written).toBe('centre');
+  });
+
   it('shows distinctive terms as written and the stretch of the passage they come from, no function words', () => {
     const terms = out.passages.flatMap((p) => p.candidates.flatMap((c) => c.reasons.filter((r) => r.kind === 'terms')));
     expect(terms.length).toBeGreaterThan(0);

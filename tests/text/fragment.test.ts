@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { matchedFragment } from '../../src/text/fragment.js';
+import { commonForm, matchedFragment } from '../../src/text/fragment.js';
 
 /** Tokens of `text` split on spaces, with their offsets (a hand-made analysis). */
 function tokens(text: string, lemma: (w: string) => string) {
@@ -35,5 +35,19 @@ describe('matchedFragment', () => {
 
   it('says nothing when no term matches', () => {
     expect(matchedFragment(text, lemmas, spans, ['salary'])).toEqual({ written: {}, fragment: '' });
+  });
+});
+
+describe('commonForm', () => {
+  // Worked by hand from invented counts.
+  it('keeps the lemma where the study writes it so', () => {
+    expect(commonForm('ward', new Map([['ward', 2], ['wards', 5], ['Ward', 9]]))).toBe('ward');
+  });
+  it("gives the study's own spelling where the analysis spells the lemma otherwise", () => {
+    expect(commonForm('center', new Map([['centre', 3], ['Centre', 4], ['centres', 1]]))).toBe('centre');
+  });
+  it('keeps capitals only for a word never written in lower case', () => {
+    expect(commonForm('hcas', new Map([['HCAs', 4], ['HCAS', 1]]))).toBe('HCAs');
+    expect(commonForm('salary', undefined)).toBe('salary');
   });
 });
