@@ -169,7 +169,8 @@ for (const run of runs) {
     for (const pid of truthOf.keys()) {
       const p = index.get(pid);
       const order = [...Array(nT).keys()].sort((a, b) => fit.cells.conf[p * nT + b] - fit.cells.conf[p * nT + a] || a - b).slice(0, 10);
-      items.push([pid, order.map((t) => ({ theme: pathOf[t], confidence: fit.cells.conf[p * nT + t], above: fit.cells.conf[p * nT + t] >= fit.state.threshold }))]);
+      const thr = process.env.THRESHOLD ? Math.max(Number(process.env.THRESHOLD), fit.state.threshold) : fit.state.threshold;
+      items.push([pid, order.map((t) => ({ theme: pathOf[t], confidence: fit.cells.conf[p * nT + t], above: fit.cells.conf[p * nT + t] >= thr }))]);
     }
     const s = score(items, truthOf, d.coded);
     if (process.env.WEIGHTS) console.log(fit.state.calibration.features.map((n, q) => `${n} ${fit.state.calibration.weights[q].toFixed(2)}`).join(", "));

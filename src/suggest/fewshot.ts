@@ -279,7 +279,18 @@ export function fitFewshot(
     if (!l.includes(t)) l.push(t);
   }
   const rejected = [...negOf].sort((a, b) => a[0] - b[0]).map(([p, ts]) => ({ vector: x[p]!, themes: ts }));
-  const st = buildStats(state0.coded, tree, V, seedVecs, o, rejected);
+  // With one coded transcript, leaving it out would leave nothing: the folds are its passages.
+  const byPassage = new Set(state0.coded.map((c) => c.transcript)).size < 2;
+  const foldOf = (ci: number) => (byPassage ? members.length + ci : state0.coded[ci]!.transcript);
+  const codedCi = new Map(codedIdx.map((p, ci) => [p, ci]));
+  const st = buildStats(
+    state0.coded.map((c, ci) => ({ ...c, transcript: foldOf(ci) })),
+    tree,
+    V,
+    seedVecs,
+    o,
+    rejected,
+  );
   st.words = passages.map((p) => p.words ?? p.terms.length);
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
 
@@ -319,6 +330,15 @@ export function fitFewshot(
     const rounds = (o.em > 0 ? o.emRounds : 0) + 1;
     for (let ti = 0; ti < members.length; ti++) {
       if (ti % 250 === 0) progress((round + ti / members.length) / rounds);
+      if (byPassage && codedT[ti]) {
+        for (const p of members[ti]!) {
+          const ci = codedCi.get(p);
+          const restore = ci !== undefined ? leaveOut(st, state0.coded, [ci], -1) : null;
+          rawSignals(st, x[p]!, ci !== undefined ? foldOf(ci) : -1, raw, nearest, p, round > 0, null);
+          if (restore) restore();
+        }
+        continue;
+      }
       const out = codedOfT.get(ti) ?? [];
       const restore = out.length ? leaveOut(st, state0.coded, out, -1) : null;
       for (const p of members[ti]!) {

@@ -171,3 +171,30 @@ describe('the exact theme first, a parent only where no sub-theme stands out', (
     for (const p of fresh) for (const c of p.candidates) if (c.themeId !== 'work') expect(c.reasons.some((r) => r.kind === 'parent')).toBe(false);
   });
 });
+
+describe('a first batch of one coded transcript', () => {
+  // Invented: one interview coded, passage by passage; the second not yet.
+  const talk = [
+    ['rota', 'overtime', 'shift'],
+    ['manager', 'support', 'listen'],
+    ['shift', 'rota', 'late'],
+    ['support', 'manager', 'help'],
+    ['overtime', 'late', 'rota'],
+    ['listen', 'help', 'support'],
+  ];
+  const passages: ModelPassage[] = [
+    ...talk.map((terms, i) => ({ id: `a#${i}`, transcript: 'a', ordinal: i, role: 'participant' as const, terms })),
+    { id: 'b#0', transcript: 'b', ordinal: 0, role: 'participant', terms: ['rota', 'shift', 'weekend'] },
+    { id: 'b#1', transcript: 'b', ordinal: 1, role: 'participant', terms: ['manager', 'listen', 'kind'] },
+  ];
+  const themes = [theme('hours'), theme('support')];
+  const codings: Coding[] = talk.map((_, i) => ({ passageId: `a#${i}`, themeId: i % 2 ? 'support' : 'hours' }));
+  const fit = fitFewshot(passages, codings, themes, {});
+
+  it('calibrates on its passages left out in turn, so the text evidence carries weight', () => {
+    const w = (n: string) => fit.state.calibration.weights[fit.state.calibration.features.indexOf(n)]!;
+    expect(w('cnb_z') + w('mnb_z') + w('knn')).toBeGreaterThan(0.1);
+    expect(fit.cells.conf[6 * 2 + 0]!).toBeGreaterThan(fit.cells.conf[6 * 2 + 1]!);
+    expect(fit.cells.conf[7 * 2 + 1]!).toBeGreaterThan(fit.cells.conf[7 * 2 + 0]!);
+  });
+});
