@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { findByPath } from '../template/paths.js';
 import { fitModel } from '../study/suggestions.js';
+import { writtenForms } from '../study/passages.js';
 import { currentTemplate } from '../study/template.js';
 import { probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, table } from './output.js';
@@ -17,17 +18,20 @@ export function registerProfile(program: Command): void {
       await withStudy(opts, (db) => {
         const only = theme ? findByPath(currentTemplate(db), theme).id : null;
         const { model } = fitModel(db, { targetPrecision: opts.targetPrecision });
-        const reports = model.themeReports().filter((r) => !only || r.themeId === only);
-        if (opts.json) return printJson({ fingerprint: model.fingerprint, themes: reports.map((r) => ({ ...r, topTerms: r.topTerms.slice(0, opts.terms) })) });
+        const reports = model.themeReports().filter((r) => !only || r.themeId === only).map((r) => ({ ...r, topTerms: r.topTerms.slice(0, opts.terms) }));
+        // Terms as the study writes them (the analysis may spell a lemma otherwise).
+        const forms = writtenForms(db, reports.flatMap((r) => r.topTerms.map((t) => t.term)));
+        for (const r of reports) r.topTerms = r.topTerms.map((t) => ({ ...t, written: forms.get(t.term) ?? t.term }));
+        if (opts.json) return printJson({ fingerprint: model.fingerprint, themes: reports });
         for (const r of reports) {
           say(`${r.path}`);
           say(
             `  ${r.exemplars} coded passages in ${r.transcripts} transcripts; threshold ${r.threshold.toFixed(2)}; ` +
               `expected precision ${pct(r.expectedPrecision)}, recall ${pct(r.expectedRecall)}${r.seedOnly ? ' (profile from definition and seeds only)' : ''}`,
           );
-          const terms = r.topTerms.slice(0, opts.terms);
+          const terms = r.topTerms;
           if (terms.length) {
-            say(table(['term', 'log-odds', 'z'], terms.map((t) => [t.term, t.weight.toFixed(2), t.z.toFixed(1)])).split('\n').map((l) => '    ' + l).join('\n'));
+            say(table(['term', 'log-odds', 'z'], terms.map((t) => [t.written ?? t.term, t.weight.toFixed(2), t.z.toFixed(1)])).split('\n').map((l) => '    ' + l).join('\n'));
           }
           for (const w of r.warnings) say(`  warning: ${w}`);
           say('');

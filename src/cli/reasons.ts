@@ -33,13 +33,15 @@ export const exemplarCited = (s: Cited): { transcript?: string; snippet?: string
 export function reasonText(r: Reason, snippets: Snippets): string {
   switch (r.kind) {
     case 'terms':
-      return `distinctive terms: ${r.terms.map((t) => `${t.term} ${num(t.weight)}`).join(', ')}`;
+      return `distinctive terms: ${r.terms.map((t) => `${t.written ?? t.term} ${num(t.weight)}`).join(', ')}${r.fragment ? ` in "${r.fragment}"` : ''}`;
     case 'exemplar':
       return `most like coded passage ${r.passageId} (similarity ${num(r.similarity)})${exemplarTail(snippets.get(r.passageId))}`;
     case 'seeds':
       return `seed terms: ${r.terms.join(', ')}`;
     case 'seed-only':
       return 'profile from the definition and seed terms only (no coded passage yet)';
+    case 'parent':
+      return `fits ${r.theme}; no sub-theme stands out`;
     case 'context':
       return `the surrounding passages point here too (${num(r.weight)})`;
     case 'question':

@@ -21,6 +21,8 @@ export interface Showing {
   item: ReviewItem;
   view: PassageView;
   rejected: ReadonlySet<number>;
+  /** Candidates accepted (or re-coded to another theme) on this passage: it stays on screen for more. */
+  accepted: ReadonlySet<number>;
   /** 1-based place in the queue; null for a passage brought back from outside it. */
   position: number | null;
 }
@@ -109,10 +111,11 @@ function candidateLines(s: Showing, st: Style, snippets: Snippets): string[] {
   const out: string[] = [];
   s.item.candidates.forEach((c, i) => {
     const rejected = s.rejected.has(c.suggestionId);
+    const accepted = s.accepted.has(c.suggestionId);
     const mark = c.above ? '*' : ' ';
     const head = `  ${i + 1}  ${c.confidence.toFixed(2)} ${mark}  `;
     const room = st.width - head.length;
-    const path = clip(c.path, room - (rejected ? 22 : 0)) + (rejected ? '   (rejected: not offered)' : '');
+    const path = clip(c.path, room - (rejected ? 22 : accepted ? 14 : 0)) + (rejected ? '   (rejected: not offered)' : accepted ? '   (accepted)' : '');
     out.push(rejected ? dim(head + path) : head.replace(/^( {2}\d)/, (d) => bold(d)) + (i === 0 ? bold(path) : path));
     // The stored run keeps reasons for the best three; a later candidate goes without.
     if (!rejected && c.reasons.length) out.push(dim(' '.repeat(head.length) + clip(reasonText(c.reasons[0]!, snippets), st.width - head.length)));

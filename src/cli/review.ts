@@ -15,6 +15,7 @@ import {
   recodeToNewTheme,
   reviewDecide,
   reviewNothingToCode,
+  standingAccepts,
   standingRejects,
   startReview,
   undoLatest,
@@ -66,14 +67,15 @@ are not coded and have no standing decision. The footer counts as trellis stats 
 out of decided, where a re-code is decided but not accepted and a defer is not yet decided.
 
 Keys (single keys, no Enter):
-  1-5    accept that candidate
+  1-5    accept that candidate; the passage stays, so a second or third theme can be accepted
   x      reject: then 1-5 for that candidate, or x again for the top one
-  r      re-code: search the template by typing, or create a new sub-theme there and then
+  r      re-code: search the template by typing, or create a new sub-theme there and then;
+         after an accept it adds the theme (the accepted one stays)
   d      defer: the passage is skipped for the rest of this session
   0      reviewed, nothing to code: no theme applies (logged; it leaves the queue)
   n      a note, kept with your next decision
   u      undo your latest standing decision, and go back to its passage
-  Enter  after a reject: on to the next passage
+  Enter  after a decision: on to the next passage
   ↑ ↓    scroll a passage longer than the screen
   ?      the keys;   q or Ctrl-C quit;   Esc cancels a prompt
 
@@ -120,8 +122,9 @@ In scripts (no terminal), decide one suggestion at a time instead:
 }
 
 interface Current extends Showing {
-  /** This session has a standing decision on the passage (a reject): Enter moves on. */
+  /** This session has a standing decision on the passage (an accept, re-code or reject): Enter moves on. */
   decidedHere: boolean;
+  accepted: Set<number>;
 }
 
 const SIGNALS = ['SIGTERM', 'SIGHUP', 'SIGINT'] as const;
@@ -280,9 +283,11 @@ class Session {
         this.queue.closed.add(item.passageId);
         continue;
       }
-      const rejected = standingRejects(this.db, item.candidates.map((c) => c.suggestionId));
-      this.current = { item, view, rejected, position: this.queue.positionOf(item.passageId), decidedHere: rejected.size > 0 };
-      if (rejected.size >= item.candidates.length) {
+      const ids = item.candidates.map((c) => c.suggestionId);
+      const rejected = standingRejects(this.db, ids);
+      const accepted = standingAccepts(this.db, ids);
+      this.current = { item, view, rejected, accepted, position: this.queue.positionOf(item.passageId), decidedHere: rejected.size + accepted.size > 0 };
+      if (rejected.size + accepted.size >= item.candidates.length) {
         this.queue.done.add(item.passageId);
         continue;
       }
@@ -291,7 +296,8 @@ class Session {
   }
 
   private openCandidates(): ReviewCandidate[] {
-    return this.current ? this.current.item.candidates.filter((c) => !this.current!.rejected.has(c.suggestionId)) : [];
+    const cur = this.current;
+    return cur ? cur.item.candidates.filter((c) => !cur.rejected.has(c.suggestionId) && !cur.accepted.has(c.suggestionId)) : [];
   }
 
   private describe(d: DecisionRow): string {
@@ -414,17 +420,33 @@ class Session {
       this.message = `Candidate ${n} (${c.path}) is rejected already; u undoes that.`;
       return undefined;
     }
+    if (cur.accepted.has(c.suggestionId)) {
+      this.message = `Candidate ${n} (${c.path}) is accepted already; u undoes that.`;
+      return undefined;
+    }
     return c;
   }
 
   private accept(n: number): void {
     const c = this.candidate(n);
     if (!c) return;
-    const pid = this.current!.item.passageId;
-    if (this.decideOn(c, 'accept')) {
-      this.queue.done.add(pid);
+    if (this.decideOn(c, 'accept')) this.stayFor(c.suggestionId);
+  }
+
+  /**
+   * After an accept or a re-code the passage stays on screen, so that a second or third theme
+   * can be accepted or added; the researcher moves on with Enter. With no candidate left open
+   * it moves on by itself.
+   */
+  private stayFor(suggestionId: number): void {
+    const cur = this.current!;
+    cur.accepted = new Set([...cur.accepted, suggestionId]);
+    cur.decidedHere = true;
+    if (this.openCandidates().length === 0) {
+      this.queue.done.add(cur.item.passageId);
       this.advance();
-    }
+      this.message += '. Every candidate is decided: on to the next passage.';
+    } else this.message += '. Accept another, r to add a theme, or Enter for the next passage.';
   }
 
   private reject(n: number): void {
@@ -535,16 +557,18 @@ class Session {
   }
 
   private recodeTo(e: ThemeEntry): void {
-    const cur = this.current!;
-    const pid = cur.item.passageId;
     this.mode = { kind: 'main' };
     // The chosen theme is one of the open candidates: that is an accept of it, not a re-code.
-    const same = this.openCandidates().find((c) => c.themeId === e.id);
-    const done = same ? this.decideOn(same, 'accept') : this.decideOn(this.openCandidates()[0]!, 'accept', e.path);
-    if (done) {
-      this.queue.done.add(pid);
-      this.advance();
+    const open = this.openCandidates();
+    if (!open.length) {
+      this.message = 'Every candidate of this passage is decided: Enter for the next passage (u undoes).';
+      return;
     }
+    // Re-coded after an accept, the passage gets the theme as well (the accepted one stays).
+    const same = open.find((c) => c.themeId === e.id);
+    const on = same ?? open[0]!;
+    const done = same ? this.decideOn(same, 'accept') : this.decideOn(on, 'accept', e.path);
+    if (done) this.stayFor(on.suggestionId);
   }
 
   private onName(key: Key, mode: Extract<Mode, { kind: 'name' }>): void {
@@ -560,7 +584,12 @@ class Session {
       return;
     }
     const cur = this.current!;
-    const top = this.openCandidates()[0]!;
+    const top = this.openCandidates()[0];
+    if (!top) {
+      this.mode = { kind: 'main' };
+      this.message = 'Every candidate of this passage is decided: Enter for the next passage (u undoes).';
+      return;
+    }
     let rev: number | null = null;
     let path = '';
     const d = this.commit(() => {
@@ -575,9 +604,9 @@ class Session {
       this.mode = { kind: 'main' };
       return;
     }
+    this.mode = { kind: 'main' };
     this.message = `saved: template revision ${rev} adds ${path}; ${this.describe(d)}`;
-    this.queue.done.add(cur.item.passageId);
-    this.advance();
+    this.stayFor(top.suggestionId);
   }
 
   // ---- undo
@@ -602,7 +631,8 @@ class Session {
     if (cur && cur.item.passageId === undone.passage_id) {
       // A reject on the passage on screen: it stays, with that candidate back.
       cur.rejected = standingRejects(this.db, cur.item.candidates.map((c) => c.suggestionId));
-      cur.decidedHere = cur.rejected.size > 0;
+      cur.accepted = standingAccepts(this.db, cur.item.candidates.map((c) => c.suggestionId));
+      cur.decidedHere = cur.rejected.size + cur.accepted.size > 0;
       this.message = what;
       return;
     }

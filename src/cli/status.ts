@@ -1,9 +1,23 @@
 import type { Command } from 'commander';
 import { walk } from '../template/paths.js';
-import { studyStatus } from '../study/status.js';
+import { studyStatus, type ThemeCount } from '../study/status.js';
 import { currentTemplate } from '../study/template.js';
 import { studyCommand, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, table } from './output.js';
+
+/** What a researcher should make of a theme's suggestions. */
+function strengthText(s: ThemeCount['strength']): string {
+  switch (s) {
+    case 'checked':
+      return 'confidence checked on its codings';
+    case 'few examples':
+      return 'few examples: confidence not yet trustworthy';
+    case 'name and seeds only':
+      return 'from its name and seeds only';
+    case 'not suggested':
+      return 'not suggested';
+  }
+}
 
 export function registerStatus(program: Command): void {
   studyCommand(program, 'status', 'where the study stands: transcripts, passages, coding progress, template')
@@ -32,10 +46,10 @@ export function registerStatus(program: Command): void {
           say('');
           say(
             table(
-              ['theme', 'passages', 'with sub-themes'],
+              ['theme', 'passages', 'with sub-themes', 'transcripts', 'suggestions'],
               s.perTheme.map((c) => {
                 const n = names.get(c.id)!;
-                return [`${'  '.repeat(n.depth)}${n.number} ${n.path.split(' > ').pop()}`, c.direct, c.total];
+                return [`${'  '.repeat(n.depth)}${n.number} ${n.path.split(' > ').pop()}`, c.direct, c.total, c.transcripts, strengthText(c.strength)];
               }),
             ),
           );

@@ -6,7 +6,7 @@ import type { DB } from '../study/db.js';
 import { clock } from '../sheet/sheet.js';
 import { collect, positiveInt, probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { markTerms, wrap } from './marks.js';
-import { plural, printJson, printJsonStream, say, table } from './output.js';
+import { plural, printJson, printJsonStream, say, table, warn } from './output.js';
 import { progressBar } from './progress.js';
 import { markedTerms, reasonText, type Snippets } from './reasons.js';
 import { passageJson, passageJsonText } from './suggest-json.js';
@@ -56,14 +56,15 @@ export function registerSuggest(program: Command): void {
     .addHelpText(
       'after',
       `
-trellis learns a profile for every theme from the coded passages (and from the definition
-and seed terms of an a priori theme not yet coded), checks it by leaving out one transcript
-at a time, and turns scores into confidences: the estimated chance that the coder would give
-this theme. A candidate is above threshold when its confidence reaches the theme's threshold,
-set so that at least --target-precision of the theme's suggestions matched the coders' own
-codings when their transcript was left out.
-A passage with no candidate above threshold is unclaimed. Suggestions are aids: nothing is
-coded until a researcher decides.
+trellis learns a profile for every theme from its first coded passage on (a theme with none
+is matched on its name, definition and seed terms, and says so), and turns the evidence into
+confidences with one calibration shared by all themes, fitted by leaving out one coded
+transcript at a time: the estimated chance that the coder would give this very theme (a parent
+only where coders give the parent itself). A candidate is above threshold when its confidence
+reaches the threshold at which the left-out transcripts' suggestions were right at least
+--target-precision of the time; a passage may have several. Themes with too few coded passages
+for their confidence to be checked are named in a warning. A passage with no candidate above
+threshold is unclaimed. Suggestions are aids: nothing is coded until a researcher decides.
 
 Examples:
   trellis suggest --transcript t05-ward9-fy2
@@ -82,8 +83,22 @@ Examples:
         }
         const snippets = snippetCache(db);
         const path = (id: string) => run.paths.get(id) ?? id;
+        // Say what is weak, naming the themes: their confidence cannot be checked yet.
+        const few = run.reports.filter((r) => r.tooFew);
+        const seedOnly = run.reports.filter((r) => r.seedOnly);
+        const list = (rs: typeof few) => rs.map((r) => `${r.path} (${plural(r.exemplars, 'coded passage')}${r.transcripts ? ` in ${plural(r.transcripts, 'transcript')}` : ''})`);
+        if (few.length) {
+          warn(`${plural(few.length, 'theme')} with too few coded examples for their confidence to be trusted: ${list(few).join('; ')}. Code more passages of them, or read their confidences as rough.`);
+        }
+        if (seedOnly.length) warn(`${plural(seedOnly.length, 'theme')} suggested from name, definition and seed terms only (no coded passage): ${seedOnly.map((r) => r.path).join('; ')}.`);
         if (opts.json) {
-          const head = { run_id: run.runId, revision: run.rev, fingerprint: run.fingerprint };
+          const head = {
+            run_id: run.runId,
+            revision: run.rev,
+            fingerprint: run.fingerprint,
+            few_examples: few.map((r) => ({ theme: r.path, coded_passages: r.exemplars, transcripts: r.transcripts })),
+            seed_only: seedOnly.map((r) => r.path),
+          };
           // Bulk runs stream compact JSON; a few passages are indented for reading.
           if (run.passages.length > 200) return printJsonStream(head, 'passages', run.passages, passageJsonText(path, snippets));
           return printJson({ ...head, passages: run.passages.map(passageJson(path, snippets)) });

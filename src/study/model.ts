@@ -61,6 +61,7 @@ export function modelInputs(db: DB): ModelInputs {
     definition: e.node.definition,
     seeds: e.node.seeds.map((s) => contentLemmas(analyse(s)).join(' ')).filter(Boolean),
     // (Blank notes need no analysis, and so no loading of the language model.)
+    nameTerms: contentLemmas(analyse(e.node.name)),
     definitionTerms: `${e.node.definition} ${e.node.include}`.trim() ? contentLemmas(analyse(`${e.node.definition} ${e.node.include}`)) : [],
   }));
   return { passages, codings, themes, uncoded };

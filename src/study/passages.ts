@@ -1,3 +1,4 @@
+import { commonForm } from '../text/fragment.js';
 import type { Role } from '../ingest/segment.js';
 import type { DB } from './db.js';
 
@@ -68,4 +69,28 @@ export function passageTokens(db: DB, ids: string[]): Map<string, { text: string
 /** How many passages the study holds (to decide whether a run is long enough for a progress bar). */
 export function passageCount(db: DB): number {
   return (db.prepare('SELECT COUNT(*) AS n FROM passages').get() as { n: number }).n;
+}
+
+/**
+ * How the study writes each of these lemmas (src/text/fragment.ts commonForm), read from the
+ * stored tokens of every passage: the analysis may spell a lemma otherwise ("colour" -> "color").
+ */
+export function writtenForms(db: DB, lemmas: Iterable<string>): Map<string, string> {
+  const want = new Set(lemmas);
+  const counts = new Map<string, Map<string, number>>();
+  if (want.size) {
+    for (const r of db.prepare('SELECT text, lemmas, spans FROM passages').iterate() as Iterable<{ text: string; lemmas: string; spans: Buffer }>) {
+      if (!r.lemmas) continue;
+      const ls = r.lemmas.split(' ');
+      let spans: Int32Array | null = null;
+      for (let i = 0; i < ls.length; i++) {
+        if (!want.has(ls[i]!)) continue;
+        spans ??= new Int32Array(new Uint8Array(r.spans).buffer);
+        const form = r.text.slice(spans[2 * i]!, spans[2 * i + 1]!);
+        const m = counts.get(ls[i]!) ?? counts.set(ls[i]!, new Map()).get(ls[i]!)!;
+        m.set(form, (m.get(form) ?? 0) + 1);
+      }
+    }
+  }
+  return new Map([...want].map((l) => [l, commonForm(l, counts.get(l))]));
 }

@@ -271,10 +271,19 @@ export function undoLatest(db: DB, coder: string, note?: string): { undo: Decisi
 
 /** Suggestion ids among these with a standing reject (shown struck out, not offered again). */
 export function standingRejects(db: DB, suggestionIds: number[]): Set<number> {
+  return standing(db, suggestionIds, ['reject']);
+}
+
+/** Of these suggestions, those with a standing accept or re-code (the passage carries a theme from them). */
+export function standingAccepts(db: DB, suggestionIds: number[]): Set<number> {
+  return standing(db, suggestionIds, ['accept', 'recode']);
+}
+
+function standing(db: DB, suggestionIds: number[], actions: string[]): Set<number> {
   if (!suggestionIds.length) return new Set();
   const rows = db
     .prepare(
-      `SELECT d.suggestion_id AS id FROM decisions d WHERE d.action = 'reject' AND d.suggestion_id IN (${suggestionIds.map(() => '?').join(',')})
+      `SELECT d.suggestion_id AS id FROM decisions d WHERE d.action IN (${actions.map((a) => `'${a}'`).join(',')}) AND d.suggestion_id IN (${suggestionIds.map(() => '?').join(',')})
        AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)`,
     )
     .all(...suggestionIds) as { id: number }[];

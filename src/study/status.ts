@@ -3,6 +3,7 @@ import { walk } from '../template/paths.js';
 import type { Template } from '../template/types.js';
 import type { DB } from './db.js';
 import { currentRevision } from './template.js';
+import { themeStrength, type Strength } from '../suggest/strength.js';
 
 export interface ThemeCount {
   id: string;
@@ -10,6 +11,10 @@ export interface ThemeCount {
   direct: number;
   /** Passages coded to it or any of its sub-themes (each passage once). */
   total: number;
+  /** Transcripts holding those passages. */
+  transcripts: number;
+  /** Whether its suggestions' confidence can be checked on its own codings (src/suggest/strength.ts). */
+  strength: Strength;
 }
 
 export interface StudyStatus {
@@ -67,6 +72,11 @@ export function themeCounts(db: DB, t: Template): ThemeCount[] {
     theme_id: string;
     passage_id: string;
   }[];
+  const transcriptOf = new Map(
+    (db.prepare('SELECT DISTINCT c.passage_id AS id, p.transcript_id AS t FROM codings c JOIN passages p ON p.id = c.passage_id WHERE c.removed_at IS NULL').all() as { id: string; t: number }[]).map((r) => [r.id, r.t]),
+  );
+  const batch = new Set(transcriptOf.values()).size;
+  const described = new Map([...walk(t)].map((e) => [e.node.id, Boolean(e.node.name.trim() || e.node.definition.trim() || e.node.seeds.length)]));
   const byTheme = new Map<string, Set<string>>();
   for (const r of rows) {
     let s = byTheme.get(r.theme_id);
@@ -75,7 +85,7 @@ export function themeCounts(db: DB, t: Template): ThemeCount[] {
   }
   // Sub-themes before their parents (the walk backwards), so each parent gathers finished sets.
   const entries = [...walk(t)];
-  const out: ThemeCount[] = entries.map((e) => ({ id: e.node.id, direct: byTheme.get(e.node.id)?.size ?? 0, total: 0 }));
+  const out: ThemeCount[] = entries.map((e) => ({ id: e.node.id, direct: byTheme.get(e.node.id)?.size ?? 0, total: 0, transcripts: 0, strength: 'not suggested' }));
   const gathered = new Map<string, Set<string>>();
   for (let i = entries.length - 1; i >= 0; i--) {
     const node = entries[i]!.node;
@@ -85,7 +95,8 @@ export function themeCounts(db: DB, t: Template): ThemeCount[] {
       gathered.delete(c.id);
     }
     gathered.set(node.id, all);
-    out[i]!.total = all.size;
+    const ts = new Set([...all].map((pid) => transcriptOf.get(pid)));
+    Object.assign(out[i]!, { total: all.size, transcripts: ts.size, strength: themeStrength(all.size, ts.size, batch, described.get(node.id) ?? false) });
   }
   return out;
 }

@@ -3,6 +3,8 @@ import { ThemeSuggester } from '../suggest/suggester.js';
 import type { Candidate, PassageSuggestions, Reason, SuggesterOptions, ThemeReport } from '../suggest/types.js';
 import type { DB } from './db.js';
 import { modelInputs } from './model.js';
+import { passageTokens } from './passages.js';
+import { matchedFragment } from '../text/fragment.js';
 import { nothingToCode, rejections } from './decisions.js';
 import { currentRevision } from './template.js';
 
@@ -72,6 +74,21 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
     p.candidates = top ? ranked.slice(0, top) : chosen.length ? chosen : ranked.slice(0, 1);
     return p;
   });
+
+  // Distinctive terms as each passage writes them, and the stretch of it they come from.
+  const tokens = passageTokens(db, kept.filter((p) => p.candidates.some((c) => c.reasons.some((r) => r.kind === 'terms'))).map((p) => p.passageId));
+  for (const p of kept) {
+    const tk = tokens.get(p.passageId);
+    if (!tk) continue;
+    for (const c of p.candidates) {
+      for (const r of c.reasons) {
+        if (r.kind !== 'terms') continue;
+        const f = matchedFragment(tk.text, tk.lemmas, tk.spans, r.terms.map((t) => t.term));
+        for (const t of r.terms) if (f.written[t.term]) t.written = f.written[t.term];
+        if (f.fragment) r.fragment = f.fragment;
+      }
+    }
+  }
 
   return db.transaction(() => {
     const runId = Number(

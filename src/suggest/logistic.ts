@@ -33,7 +33,11 @@ function softplus(z: number): number {
  * @param ridge penalty on the shared weights (features should be standardised)
  * @param interceptRidge small penalty keeping intercepts finite for a theme with no positives
  */
-export function fitGrouped(d: GroupedData, ridge = 1, interceptRidge = 1e-3): GroupedModel {
+/**
+ * @param tol stop when the objective changes by less than this share of it
+ * @param start weights and intercepts to start from (a nearby earlier fit), else zero weights and base rates
+ */
+export function fitGrouped(d: GroupedData, ridge = 1, interceptRidge = 1e-3, tol = 1e-8, start?: GroupedModel): GroupedModel {
   const { k, groups } = d;
   const n = d.y.length;
   const dim = k + groups;
@@ -46,6 +50,10 @@ export function fitGrouped(d: GroupedData, ridge = 1, interceptRidge = 1e-3): Gr
     if (d.y[i]) pos[d.group[i]!]!++;
   }
   for (let g = 0; g < groups; g++) beta[k + g] = Math.log((pos[g]! + 0.5) / (cnt[g]! - pos[g]! + 0.5));
+  if (start && start.weights.length === k && start.intercepts.length === groups) {
+    start.weights.forEach((w, j) => (beta[j] = w));
+    start.intercepts.forEach((b, g) => (beta[k + g] = b));
+  }
 
   const model = (): GroupedModel => ({ weights: [...beta.subarray(0, k)], intercepts: [...beta.subarray(k)] });
   const objective = (b: Float64Array): number => {
@@ -88,7 +96,7 @@ export function fitGrouped(d: GroupedData, ridge = 1, interceptRidge = 1e-3): Gr
     if (nf === null) break;
     const change = Math.abs(f - nf);
     f = nf;
-    if (change < 1e-8 * Math.max(1, Math.abs(f))) return model();
+    if (change < tol * Math.max(1, Math.abs(f))) return model();
   }
   return model();
 }

@@ -14,6 +14,8 @@ export interface ThemeInfo {
   seeds: string[];
   /** Non-stop lemmas of the definition, when the edge has analysed it; else split from `definition`. */
   definitionTerms?: string[];
+  /** Non-stop lemmas of the theme's own name, when the edge has analysed it; else split from `name`. */
+  nameTerms?: string[];
 }
 
 export interface ModelPassage {
@@ -68,6 +70,14 @@ export interface SuggesterOptions {
   rocchio?: number;
   /** Add back to LOTO signals the gain of one more transcript, estimated leave-two-out (default true). */
   looCorrection?: boolean;
+  /**
+   * Which scorer gives the confidences: 'fewshot' (default: every theme a candidate from its first
+   * coded passage, one calibration shared by all themes; src/suggest/fewshot.ts) or 'layers'
+   * (the conditional logit over themes of one depth, themes profiled from their coded passages).
+   */
+  scorer?: 'fewshot' | 'layers';
+  /** Options of the few-example scorer. */
+  fewshot?: import('./fewshot.js').FewshotOptions;
   /** Candidate signals; all by default. The lab switches them off to measure each. */
   signals?: Partial<Record<SignalName, boolean>>;
 }
@@ -84,6 +94,8 @@ export type SignalName =
 
 export interface TermWeight {
   term: string;
+  /** The term as the study writes it, when the edge has looked it up (the term is a lemma). */
+  written?: string;
   /** Weighted log-odds ratio (theme vs the rest of the coded batch). */
   weight: number;
   z: number;
@@ -109,10 +121,12 @@ export interface ThemeReport {
 }
 
 export type Reason =
-  | { kind: 'terms'; terms: { term: string; weight: number }[] }
+  /** Terms are lemmas; the study adds each as the passage writes it, and the stretch that matched. */
+  | { kind: 'terms'; terms: { term: string; weight: number; written?: string }[]; fragment?: string }
   | { kind: 'exemplar'; passageId: string; similarity: number }
   | { kind: 'seeds'; terms: string[] }
   | { kind: 'seed-only' } // "profile from definition and seeds only"
+  | { kind: 'parent'; theme: string } // "fits X; no sub-theme stands out"
   | { kind: 'context'; weight: number }
   | { kind: 'question'; weight: number };
 

@@ -90,7 +90,9 @@ describe('decide, undo and the decision log', () => {
   it('bulk-accepts deliberately, logged as bulk', () => {
     const s: Suggested = json(dir, ['suggest', '--top', '3']);
     const theme = s.passages[0]!.candidates[0]!.theme;
-    const min = 0.3;
+    // The highest confidence of that theme, rounded down: at least one suggestion is accepted.
+    const top = Math.max(...s.passages.flatMap((p) => p.candidates.filter((c) => c.theme === theme).map((c) => c.confidence)));
+    const min = Math.max(0.01, Math.floor(top * 100) / 100);
     const expected = s.passages.filter((p) => p.candidates.some((c) => c.theme === theme && c.confidence >= min)).length;
     const r = json(dir, ['decide', '--all-above', String(min), '--theme', theme, '--coder', 'bo']);
     expect(r.decisions.length).toBe(expected);

@@ -104,7 +104,7 @@ function review(dir: string, coder: string, extra: string[] = []): ReviewTermina
 
 /** The candidate theme paths on the screen drawn last, in their numbered order. */
 function candidatesOn(screen: string): string[] {
-  return [...screen.matchAll(/^ {2}(\d) {2}\d\.\d\d [* ] {2}(.+?)(?: {3}\(rejected.*)?$/gm)].map((m) => m[2]!.trim());
+  return [...screen.matchAll(/^ {2}(\d) {2}\d\.\d\d [* ] {2}(.+?)(?: {3}\((?:rejected|accepted).*)?$/gm)].map((m) => m[2]!.trim());
 }
 
 describe('trellis review', () => {
@@ -131,6 +131,11 @@ describe('trellis review', () => {
     t.send('1');
     const s1 = await step(t, SAVED);
     expect(s1[1]).toBe(`accepted ${top1} for ${p1}`);
+    // The passage stays, the accepted candidate marked, so that another theme can be given; Enter moves on.
+    expect(t.screen).toContain(`${top1}   (accepted)`);
+    expect(passageOn(t)).toBe(p1);
+    t.send('\r');
+    await step(t, PASSAGE);
 
     const p2 = passageOn(t);
     expect(p2).not.toBe(p1);
@@ -172,6 +177,9 @@ describe('trellis review', () => {
     t.send('\r');
     const s4 = await step(t, SAVED);
     expect(s4[1]).toMatch(new RegExp(`^re-coded ${p4}: ${allergies} instead of `));
+    expect(passageOn(t)).toBe(p4);
+    t.send('\r');
+    await step(t, PASSAGE);
     expect(passageOn(t)).not.toBe(p4);
 
     // Undo takes back the re-code and shows its passage again.
@@ -185,6 +193,9 @@ describe('trellis review', () => {
     const s5 = await step(t, SAVED);
     expect(s5[1]).toBe(`accepted ${top4} for ${p4}`);
     expect(t.screen).toContain('accepted 2 of 3 decided (67%)');
+    // The accept keeps the passage on screen; Enter moves on.
+    t.send('\r');
+    await step(t, PASSAGE);
 
     // 0: reviewed, nothing to code. A decision on the passage, not on a suggestion.
     const p6 = passageOn(t);
@@ -239,6 +250,39 @@ describe('trellis review', () => {
     t.send('\x1b[A'); // up: back to the start
     await step(t, '(start of the passage)');
     expect(await t.quit()).toBe(0);
+  });
+
+  it('gives one passage two accepted themes and adds a third by a re-code, then moves on at Enter', async () => {
+    const dir = copyStudy();
+    const t = review(dir, 'ana');
+    await step(t, PASSAGE);
+    const p1 = passageOn(t);
+    const [first, second] = candidatesOn(t.screen);
+    expect(candidatesOn(t.screen).length).toBeGreaterThanOrEqual(3);
+    t.send('1');
+    await step(t, SAVED);
+    t.send('1');
+    await step(t, 'is accepted already');
+    t.send('2');
+    const s2 = await step(t, SAVED);
+    expect(s2[1]).toBe(`accepted ${second} for ${p1}`);
+    expect(passageOn(t)).toBe(p1);
+    const allergies = 'Patient safety > Information at handover > Medication details > Allergies';
+    expect(candidatesOn(t.screen)).not.toContain(allergies);
+    t.send('r');
+    await step(t, 'Re-code');
+    t.send('allerg');
+    await step(t, `1  ${allergies}`);
+    t.send('\r');
+    await step(t, SAVED);
+    expect(passageOn(t)).toBe(p1);
+    t.send('\r');
+    await step(t, PASSAGE);
+    expect(passageOn(t)).not.toBe(p1);
+    expect(await t.quit()).toBe(0);
+    const mine = codingsOf(dir, 'ana').filter((c) => c.passage === p1);
+    expect(mine.map((c) => c.theme).sort()).toEqual([first!, second!, allergies].sort());
+    expect(status(dir).perCoder.find((c) => c.coder === 'ana')).toEqual({ coder: 'ana', codings: 3, passages: 1 });
   });
 
   it('creates a new sub-theme on the spot: a template revision, and the passage coded to it', async () => {
@@ -319,8 +363,12 @@ describe('trellis review', () => {
       const press = async (t: ReviewTerminal) => {
         t.send('1');
         const m = await step(t, outcome);
-        if (m[1]) saved.push(Number(m[1]));
-        else conflicts++;
+        if (m[1]) {
+          saved.push(Number(m[1]));
+          // An accept keeps the passage on screen: Enter moves on (a conflict moves on by itself).
+          t.send('\r');
+          await step(t, PASSAGE);
+        } else conflicts++;
       };
       // Both at once on the same passage: exactly one of them decides it.
       await Promise.all([press(a), press(b)]);
@@ -358,6 +406,8 @@ describe('trellis review', () => {
       passages.push(passageOn(t));
       t.send('1');
       ids.push(Number((await step(t, SAVED))[2]));
+      t.send('\r');
+      await step(t, PASSAGE);
     }
     // Undo the second in the session, then decide its passage again: that is the latest standing.
     t.send('u');

@@ -1,6 +1,7 @@
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { CORPUS, freshStudy, snapshot, trellis } from './run.js';
+import { CORPUS, freshStudy, snapshot, trellis, write } from './run.js';
 
 const FILES = ['t01-larch-staff-nurse.txt', 't02-kestrel-fy1.txt', 't03-harbour-hca.md', 't04-orchard-staff-nurse.vtt', 't08-orchard-hca.txt'];
 
@@ -92,5 +93,63 @@ describe('trellis suggest', () => {
     const allergies = all.find((x: { path: string }) => x.path.endsWith('> Allergies'));
     expect(allergies.tooFew).toBe(true);
     expect(allergies.expectedPrecision).toBeNull();
+  });
+});
+
+describe('trellis suggest after a first batch of three coded transcripts', () => {
+  let dir: string;
+  let out: { few_examples: { theme: string; coded_passages: number; transcripts: number }[]; passages: { candidates: { theme: string; above_threshold: boolean; chosen: boolean; reasons: { kind: string; text: string }[] }[] }[] };
+  let stderr = '';
+  beforeAll(() => {
+    dir = freshStudy();
+    expect(trellis(['template', 'set', join(CORPUS, 'template.txt')], dir).status).toBe(0);
+    expect(trellis(['add', ...FILES.map((f) => join(CORPUS, f))], dir).status).toBe(0);
+    // The demo's initial coding, cut to t01-t03: most sub-themes then have 1-6 coded passages.
+    const rows = readFileSync(join(CORPUS, 'initial-coding.csv'), 'utf8').split('\n');
+    const keep = rows.filter((l, i) => i === 0 || /^t0[123]-/.test(l));
+    expect(keep.length).toBeGreaterThan(50);
+    write(dir, 'batch.csv', keep.join('\n'));
+    expect(trellis(['sheet', 'import', 'batch.csv', '--coder', 'priya'], dir).status).toBe(0);
+    const r = trellis(['suggest', '--top', '5', '--json'], dir);
+    expect(r.status, r.stderr).toBe(0);
+    out = JSON.parse(r.stdout);
+    stderr = r.stderr;
+  });
+
+  it('suggests sub-themes above threshold, not only the top-level themes', () => {
+    const above = out.passages.flatMap((p) => p.candidates.filter((c) => c.above_threshold && c.chosen));
+    const sub = above.filter((c) => c.theme.split(' > ').length >= 2);
+    expect(sub.length).toBeGreaterThan(0);
+    // The first candidate is a sub-theme for some passages too.
+    expect(out.passages.filter((p) => p.candidates[0]!.theme.includes(' > ')).length).toBeGreaterThan(0);
+  });
+
+  it('names the themes whose confidence cannot be trusted yet, on stderr and in the JSON', () => {
+    expect(out.few_examples.length).toBeGreaterThan(0);
+    // Fewer than 3 coded passages, or all in one of the three transcripts.
+    for (const f of out.few_examples) expect(f.coded_passages < 3 || f.transcripts < 2, f.theme).toBe(true);
+    expect(stderr).toMatch(/too few coded examples for their confidence to be trusted: /);
+    expect(stderr).toContain(out.few_examples[0]!.theme);
+  });
+
+  it("profiles the themes' top terms as the study writes them (British spelling kept)", () => {
+    const r = trellis(['profile', '--json', '--terms', '30'], dir);
+    expect(r.status, r.stderr).toBe(0);
+    const terms = (JSON.parse(r.stdout).themes as { topTerms: { term: string; written: string }[] }[]).flatMap((t) => t.topTerms);
+    expect(terms.length).toBeGreaterThan(20);
+    for (const t of terms) expect(typeof t.written).toBe('string');
+    // The analysis spells the lemma "center"; the interviews write "centre".
+    const centre = terms.filter((t) => t.term === 'center');
+    expect(centre.length).toBeGreaterThan(0);
+    for (const t of centre) expect(t.written).toBe('centre');
+  });
+
+  it('shows distinctive terms as written and the stretch of the passage they come from, no function words', () => {
+    const terms = out.passages.flatMap((p) => p.candidates.flatMap((c) => c.reasons.filter((r) => r.kind === 'terms')));
+    expect(terms.length).toBeGreaterThan(0);
+    for (const r of terms) {
+      expect(r.text).toMatch(/^distinctive terms: .+ in ".+"$/);
+      expect(r.text).not.toMatch(/\b(when|why|even|yet|ever|often|once|she|they|two)\b \d/);
+    }
   });
 });

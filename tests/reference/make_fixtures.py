@@ -3,7 +3,8 @@
 
 Run with Debian's python3-sklearn (1.2.1 when these fixtures were made):
     /usr/bin/python3 tests/reference/make_fixtures.py
-It rewrites tfidf.json and calibration.json beside this script. All data are invented here.
+It rewrites tfidf.json, calibration.json and fewshot.json beside this script. All data are
+invented here.
 """
 import json
 import os
@@ -95,8 +96,59 @@ def calibration():
     }
 
 
+# The few-example scorer's Complement Naive Bayes signal and its shared calibration.
+# Passages: one transcript each; the first six coded with one flat theme each, the rest uncoded.
+NB_DOCS = [
+    ["rota", "overtime", "rota", "shift"],
+    ["shift", "overtime", "pay"],
+    ["manager", "support", "listen"],
+    ["support", "manager", "training"],
+    ["login", "password", "screen", "slow"],
+    ["screen", "frozen", "login"],
+    ["rota", "shift", "pay", "pay"],
+    ["support", "listen", "training", "course"],
+    ["password", "slow", "screen", "rota"],
+]
+NB_LABELS = ["hours", "hours", "support", "support", "system", "system"]
+
+
+def fewshot():
+    from sklearn.linear_model import LogisticRegression
+    from sklearn.naive_bayes import ComplementNB
+    vec = TfidfVectorizer(analyzer=lambda d: d, sublinear_tf=True)
+    x = vec.fit_transform(NB_DOCS)  # idf from every passage of the study, coded or not
+    n = len(NB_LABELS)
+    nb = ComplementNB(alpha=0.3, norm=False).fit(x[:n], NB_LABELS)
+    # ComplementNB adds no class prior when there are several classes: the joint
+    # log-likelihood is X @ feature_log_prob_.T.
+    jll = (x[n:] @ nb.feature_log_prob_.T)
+    rng = np.random.RandomState(11)
+    m = 80
+    f = rng.normal(size=(m, 3))
+    z = 1.5 * f[:, 0] - 1.0 * f[:, 1] + 0.2 * f[:, 2] - 0.5
+    y = (rng.rand(m) < 1 / (1 + np.exp(-z))).astype(int)
+    lr = LogisticRegression(C=1.0 / 10, tol=1e-10, max_iter=10000).fit(f, y)
+    return {
+        "sklearn": sklearn.__version__,
+        "complement_nb": {
+            "call": "TfidfVectorizer(analyzer=lambda d: d, sublinear_tf=True).fit_transform(docs); ComplementNB(alpha=0.3, norm=False).fit(x[:6], labels); x[6:] @ feature_log_prob_.T",
+            "docs": NB_DOCS,
+            "labels": NB_LABELS,
+            "classes": nb.classes_.tolist(),
+            "jll": jll.tolist(),
+        },
+        "logistic": {
+            "call": "LogisticRegression(C=1/10).fit(x, y): ridge 10 on the weights, none on the intercept",
+            "x": f.tolist(),
+            "y": y.tolist(),
+            "coef": lr.coef_[0].tolist(),
+            "intercept": float(lr.intercept_[0]),
+        },
+    }
+
+
 if __name__ == "__main__":
-    for name, data in (("tfidf.json", tfidf()), ("calibration.json", calibration())):
+    for name, data in (("tfidf.json", tfidf()), ("calibration.json", calibration()), ("fewshot.json", fewshot())):
         with open(os.path.join(HERE, name), "w", encoding="utf-8") as f:
             json.dump(data, f, indent=1)
             f.write("\n")
