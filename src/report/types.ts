@@ -82,6 +82,22 @@ export interface AgreementRow {
   kappaBand: string | null;
   /** Krippendorff's guidance for alpha: reliable, tentative, unreliable. */
   alphaGuidance: string | null;
+  /** Fleiss' kappa for three or more coders, on the units all of them reviewed, and its band. */
+  fleiss?: number | null;
+  fleissUnits?: number;
+  fleissBand?: string | null;
+}
+
+/** Two coders of three or more, on the passages both reviewed (pooled over passage-theme pairs). */
+export interface PairRow {
+  coders: [string, string];
+  passages: number;
+  percentAgreement: number | null;
+  kappa: number | null;
+  kappaBand: string | null;
+  alpha: number | null;
+  meanKappa: number | null;
+  themesInMeanKappa: number;
 }
 
 export interface ReportData {
@@ -114,6 +130,8 @@ export interface ReportData {
     /** Participant passages reviewed by two or more of the coders: the units. */
     units: number;
     rows: AgreementRow[];
+    /** Every pair of coders when there are three or more; empty otherwise. */
+    pairwise?: PairRow[];
     /** Passage-theme pairs on which the coders differ (listed by "trellis agree --list"). */
     disagreements: number;
     bandsSource: string;

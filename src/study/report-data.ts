@@ -131,7 +131,18 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
             rows: [
               ...agree.themes
                 .filter((t) => t.present > 0)
-                .map((t) => ({ theme: paths.get(t.themeId) ?? t.themeId, units: t.units, percentAgreement: t.percentAgreement, kappa: t.kappa.value, alpha: t.alpha.value, kappaBand: t.kappa.band, alphaGuidance: t.alpha.guidance })),
+                .map((t) => ({
+                  theme: paths.get(t.themeId) ?? t.themeId,
+                  units: t.units,
+                  percentAgreement: t.percentAgreement,
+                  kappa: t.kappa.value,
+                  alpha: t.alpha.value,
+                  kappaBand: t.kappa.band,
+                  alphaGuidance: t.alpha.guidance,
+                  fleiss: t.fleiss.value,
+                  fleissUnits: t.fleiss.units,
+                  fleissBand: t.fleiss.band,
+                })),
               {
                 theme: 'all themes, pooled',
                 units: agree.pooled.units,
@@ -140,8 +151,21 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
                 alpha: agree.pooled.alpha.value,
                 kappaBand: agree.pooled.kappa.band,
                 alphaGuidance: agree.pooled.alpha.guidance,
+                fleiss: agree.pooled.fleiss.value,
+                fleissUnits: agree.pooled.fleiss.units,
+                fleissBand: agree.pooled.fleiss.band,
               },
             ],
+            pairwise: agree.pairwise.map((p) => ({
+              coders: p.coders,
+              passages: p.passages,
+              percentAgreement: p.percent_agreement,
+              kappa: p.kappa.value,
+              kappaBand: p.kappa.band,
+              alpha: p.alpha.value,
+              meanKappa: p.mean_kappa,
+              themesInMeanKappa: p.themes_in_mean_kappa,
+            })),
             disagreements: agree.disagreements.length,
             bandsSource: agree.bandsSource,
             guidanceSource: agree.guidance_source,
