@@ -28,8 +28,16 @@ function intro(d: ReportData): string {
   return (
     `${plural(d.themes.length, 'theme')} (${apriori} a priori)` +
     (d.counts.revision === null ? '' : `, template revision ${d.counts.revision}`) +
-    `; passages coded across ${plural(d.counts.transcripts, 'transcript')}. Generated ${when(d.generatedAt)}.`
+    `; ${codedAcross(d)}. Generated ${when(d.generatedAt)}.`
   );
+}
+
+/** "passages coded in 8 of 23 transcripts": only transcripts that carry codings count as coded. */
+function codedAcross(d: ReportData): string {
+  const coded = d.counts.codedTranscripts ?? 0;
+  if (!d.counts.transcripts) return 'no transcripts imported yet';
+  if (!coded) return `no passages coded yet in ${plural(d.counts.transcripts, 'transcript')}`;
+  return `${plural(d.counts.coded, 'participant passage')} coded in ${coded} of ${plural(d.counts.transcripts, 'transcript')}`;
 }
 
 function counts(t: ReportTheme): string {

@@ -88,7 +88,7 @@ function summary(d: ReportData): string {
   const depth = d.themes.reduce((m, t) => Math.max(m, t.number.split('.').length), 0);
   const codedShare = c.participant > 0 ? c.coded / c.participant : null;
   const cards = [
-    stat(int(c.transcripts), 'transcripts'),
+    stat(int(c.transcripts), 'transcripts', c.codedTranscripts === undefined ? undefined : `${int(c.codedTranscripts)} with codings`),
     stat(int(c.passages), 'passages', `${int(c.participant)} from participants`),
     stat(int(c.coded), 'passages coded', codedShare === null ? undefined : `${pct(codedShare)} of participant passages`),
     stat(int(c.themes), 'themes', `${apriori} a priori; ${depth ? plural(depth, 'level') : 'no levels'} deep`),

@@ -105,6 +105,8 @@ export interface ReportData {
   generatedAt: string;
   counts: {
     transcripts: number;
+    /** Transcripts with at least one current coding (as status counts them). */
+    codedTranscripts?: number;
     passages: number;
     participant: number;
     coded: number;

@@ -93,6 +93,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
     generatedAt: new Date().toISOString(),
     counts: {
       transcripts: status.transcripts,
+      codedTranscripts: status.coded_transcripts,
       passages: status.passages.total,
       participant: status.passages.participant,
       coded: status.coded,
