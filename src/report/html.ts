@@ -7,7 +7,8 @@ import { AGREEMENT_CAUTION, KRIPPENDORFF_GUIDANCE, LANDIS_KOCH_BANDS } from '../
 import { FEW_DECISIONS, acceptanceChart, calibrationChart, growthChart, heatmapChart, overTimeChart, themeLabeller, unclaimedChart } from './charts.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, fixed, int, oneLine, pct, plural, when } from './escape.js';
-import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from './types.js';
+import { QUOTE_RULES } from './quotes.js';
+import type { ReportCluster, ReportData, ReportMemo, ReportQuote, ReportTheme } from './types.js';
 
 const REPORT_CSS = `
 header.doc { border-bottom: 1px solid var(--rule); padding-bottom: 16px; }
@@ -283,7 +284,7 @@ function unclaimed(d: ReportData): string {
       `<article class="cluster"><h4>Cluster ${c.id}: ${esc(c.label)}</h4>` +
         `<p class="meta">${esc(`${plural(c.size, 'passage')} from ${plural(c.transcripts, 'transcript')} · cohesion ${fixed(c.cohesion)} · ${STATUS_WORDS[c.status] ?? c.status}`)}</p>` +
         (c.terms.length ? `<ul class="terms" aria-label="characteristic terms">${c.terms.map((t) => `<li>${esc(t)}</li>`).join('')}</ul>` : '') +
-        c.examples.map((e) => `<blockquote><p>${esc(oneLine(e))}</p></blockquote>`).join('') +
+        c.examples.map(quoteBlock).join('') +
         `</article>`,
     );
   }
@@ -366,20 +367,22 @@ function memosSection(d: ReportData): string {
   return parts.join('\n');
 }
 
+/** A quote with its source: transcript, speaker (or alias) and time, as everywhere in the report. */
+function quoteBlock(q: ReportQuote): string {
+  const source = [q.transcript, q.speaker ?? 'speaker not recorded', q.time].filter(Boolean).join(' · ');
+  return `<blockquote><p>${esc(oneLine(q.text))}</p><footer>${esc(source)} <span class="id">${esc(q.passageId)}</span>${q.pinned ? ' <span class="tag">pinned</span>' : ''}</footer></blockquote>`;
+}
+
 function quotes(d: ReportData): string {
   const withQuotes = d.themes.filter((t) => t.quotes.length);
   if (!withQuotes.length) return empty('No passages have been coded yet, so there are no quotes to show.');
   const blocks = withQuotes.map((t) => {
-    const qs = t.quotes
-      .map((q) => {
-        const source = [q.transcript, q.speaker ?? 'speaker not recorded', q.time].filter(Boolean).join(' · ');
-        return `<blockquote><p>${esc(oneLine(q.text))}</p><footer>${esc(source)} <span class="id">${esc(q.passageId)}</span></footer></blockquote>`;
-      })
-      .join('');
+    const qs = t.quotes.map(quoteBlock).join('');
     return `<div class="theme-quotes"><h3>${esc(`${t.number} ${t.name}`)}${t.apriori ? '<span class="tag">a priori</span>' : ''}</h3><p class="meta">${esc(t.path)} · ${esc(plural(t.total, 'passage'))}</p>${qs}</div>`;
   });
   return (
-    `<p>${esc('For each theme, the coded passages closest to the centre of its coded material: the quotes that best show what the theme holds. Check that quotes are de-identified before sharing this report.')}</p>\n` +
+    `<p>${esc(QUOTE_RULES)}</p>\n` +
+    `<p>${esc(d.pseudonyms ?? 'Quotes are credited to the transcripts\' names and speaker labels as stored: check that they are de-identified before sharing this report ("trellis alias", and --pseudonymise).')}</p>\n` +
     blocks.join('\n')
   );
 }

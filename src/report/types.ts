@@ -18,8 +18,18 @@ export interface ReportTheme {
   total: number;
   /** Memos on this theme, oldest first. */
   memos?: ReportMemo[];
-  /** Most representative coded quotes (closest to the theme's centroid first). */
-  quotes: { passageId: string; transcript: string; speaker: string | null; time: string; text: string }[];
+  /** The chosen quotes (src/report/quotes.ts): pinned ones first, then closest to the theme's centre. */
+  quotes: ReportQuote[];
+}
+
+export interface ReportQuote {
+  passageId: string;
+  transcript: string;
+  speaker: string | null;
+  time: string;
+  text: string;
+  /** Pinned by a researcher (trellis quote pin). */
+  pinned?: boolean;
 }
 
 export interface ReportMemo {
@@ -69,7 +79,8 @@ export interface ReportCluster {
   transcripts: number;
   cohesion: number;
   status: 'open' | 'promoted' | 'dismissed';
-  examples: string[]; // snippets of the passages closest to its centre
+  /** The passages closest to its centre, credited like every other quote. */
+  examples: ReportQuote[];
 }
 
 export interface AgreementRow {
@@ -143,6 +154,8 @@ export interface ReportData {
     caution: string;
   } | null;
   cautions: string[];
+  /** How speakers and transcripts are named in this document (aliases or as stored); null when not pseudonymised. */
+  pseudonyms?: string | null;
   /** Every memo, oldest first; theme memos also sit on their theme (ReportTheme.memos). */
   memos?: ReportMemo[];
   /**
