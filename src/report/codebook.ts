@@ -241,7 +241,7 @@ function csv(d: ReportData, examples: number): string {
     row.push(t.integrative ? 'yes' : 'no');
     return row;
   });
-  return writeCsv(columns, rows, DATA_CAUTION);
+  return writeCsv(columns, rows, d.pseudonyms ? `${DATA_CAUTION} ${d.pseudonyms}` : DATA_CAUTION);
 }
 
 /** The codebook in one of three formats; `examples` quotes per theme (default 2). */
