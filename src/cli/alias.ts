@@ -30,6 +30,8 @@ Without an alias, a transcript is shown as T01, T02, ... (import order) and a sp
 label looks like a personal name as S01, S02, ...; role labels (Interviewer, Participant, P01)
 stay. Speaker names inside quoted text are replaced where they match a label; other details that
 could identify someone are not: read the quotes before sharing. The study keeps the real names.
+"list" and "remove" as the first word are the commands; pass --speaker or --transcript when a
+name is both a speaker label and a transcript name.
 
 Examples:
   trellis alias Bronwen P01
