@@ -26,7 +26,7 @@ matrix    passages coded per theme (rows, rolled up over sub-themes) and transcr
 log       the decision log (the audit trail)
 template  the current template as an outline that "trellis template set" reads back
 
---pseudonymise names speakers and transcripts by their aliases, with codes for those without one
+--pseudonymise (codings, log, matrix; the template holds no such names) names speakers and transcripts by their aliases, with codes for those without one
 (see trellis alias --help); speaker names inside the text and notes are replaced where they match
 a speaker label. The study keeps the real names.
 
@@ -41,7 +41,6 @@ Examples:
       if (!WHAT.includes(what)) throw new UserError(`export what? one of ${WHAT.join(', ')} (got "${what}")`);
       if (!['csv', 'json'].includes(opts.format)) throw new UserError(`--format is csv or json (got "${opts.format}")`);
       checkOut(opts);
-      if (opts.pseudonymise && what === 'template') throw new UserError('the template holds no speaker or transcript names: --pseudonymise is for codings, log and matrix');
       const text = await withStudy(opts, (db) => {
         const p = opts.pseudonymise ? studyPseudonymiser(db) : null;
         const caution = p ? `${DATA_CAUTION} ${p.note}` : DATA_CAUTION;

@@ -33,12 +33,12 @@ function intro(d: ReportData): string {
   );
 }
 
-/** "passages coded in 8 of 23 transcripts": only transcripts that carry codings count as coded. */
+/** "codings in 8 of 23 transcripts": only transcripts that carry codings count as coded. */
 function codedAcross(d: ReportData): string {
   const coded = d.counts.codedTranscripts ?? 0;
   if (!d.counts.transcripts) return 'no transcripts imported yet';
   if (!coded) return `no passages coded yet in ${plural(d.counts.transcripts, 'transcript')}`;
-  return `${plural(d.counts.coded, 'participant passage')} coded in ${coded} of ${plural(d.counts.transcripts, 'transcript')}`;
+  return `codings in ${coded} of ${plural(d.counts.transcripts, 'transcript')} (${plural(d.counts.coded, 'participant passage')} coded)`;
 }
 
 /** How the example quotes were chosen, and how their sources are named. */

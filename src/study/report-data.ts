@@ -14,6 +14,7 @@ import { agreement, studyStats } from './measures.js';
 import { modelInputs } from './model.js';
 import { listPassages, type StoredPassage } from './passages.js';
 import { listQuoteChoices } from './quotes.js';
+import { themeMatrix } from './export.js';
 import { studyPseudonymiser } from './aliases.js';
 import { pseudonymiseReport } from '../report/pseudonyms.js';
 import { chooseQuotes, type ChosenQuote, type QuoteTheme } from '../report/quotes.js';
@@ -45,20 +46,6 @@ function gather(db: DB, opts: ReportOptions): ReportData {
   const passages = new Map(listPassages(db).map((p) => [p.id, p]));
   const codings = currentCodings(db);
 
-  // Passages per theme, rolled up over sub-themes (a passage counts once per theme).
-  const direct = new Map<string, Set<string>>();
-  for (const c of codings) {
-    let s = direct.get(c.theme_id);
-    if (!s) direct.set(c.theme_id, (s = new Set()));
-    s.add(c.passage_id);
-  }
-  const rolled = new Map<string, Set<string>>();
-  for (const e of [...entries].reverse()) {
-    const s = new Set(direct.get(e.node.id) ?? []);
-    for (const ch of e.node.children) for (const p of rolled.get(ch.id) ?? []) s.add(p);
-    rolled.set(e.node.id, s);
-  }
-
   const memos: ReportMemo[] = listMemos(db).map((m) => ({ id: m.memo_id, at: m.at, author: m.author, kind: m.target_kind, target: m.target, label: m.target_label, text: m.text }));
   const quotes = chosenQuotes(db, opts.quotes ?? 3);
   const themes: ReportTheme[] = entries.map((e) => ({
@@ -82,17 +69,8 @@ function gather(db: DB, opts: ReportOptions): ReportData {
     }),
   }));
 
-  const transcripts = status.perTranscript.map((t) => t.name);
-  const tIndex = new Map(transcripts.map((t, i) => [t, i]));
-  const heat = entries.map((e) => {
-    const row = new Array<number>(transcripts.length).fill(0);
-    for (const pid of rolled.get(e.node.id) ?? []) {
-      const p = passages.get(pid);
-      if (p) row[tIndex.get(p.transcript)!]!++;
-    }
-    return row;
-  });
-
+  // The same matrix as "trellis export matrix": passages per theme (rolled up) and transcript.
+  const matrix = themeMatrix(db);
   const stats = studyStats(db);
   const paths = new Map(entries.map((e) => [e.node.id, e.path]));
   const a = stats.acceptance;
@@ -125,7 +103,7 @@ function gather(db: DB, opts: ReportOptions): ReportData {
           ? [`added ${r.changes.length} themes`]
           : r.changes.map(describeChange).map((s) => s.replace(/\s+/g, ' ')),
     })),
-    heatmap: { transcripts, themes: entries.map((e) => e.path), counts: heat },
+    heatmap: { transcripts: matrix.transcripts, themes: matrix.rows.map((r) => r.theme), counts: matrix.rows.map((r) => r.counts) },
     acceptance: {
       overall: { label: 'all suggestions', decided: a.overall.decided, accepted: a.overall.accepted, rate: a.overall.rate },
       perTheme: a.perTheme.map((g) => ({ label: paths.get(g.key) ?? `${g.key} (retired)`, decided: g.decided, accepted: g.accepted, rate: g.rate })),

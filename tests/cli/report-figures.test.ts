@@ -77,6 +77,6 @@ describe('report and codebook figures', () => {
 
     expect(trellis(['codebook', '--out', 'cb.md'], dir).status).toBe(0);
     const md = readFileSync(join(dir, 'cb.md'), 'utf8');
-    expect(md).toContain(`${status.coded} participant passages coded in ${status.coded_transcripts} of ${status.transcripts} transcripts`);
+    expect(md).toContain(`codings in ${status.coded_transcripts} of ${status.transcripts} transcripts (${status.coded} participant passages coded)`);
   });
 });
