@@ -98,7 +98,10 @@ Examples:
             .filter((c) => c.themeId === e.node.id && c.choice === 'pin' && !(chosen.get(e.node.id) ?? []).some((q) => q.passageId === c.passageId))
             .map((c) => c.passageId),
         }));
-        if (opts.json) return printJson({ per_theme: opts.perTheme, rules: QUOTE_RULES, themes });
+        const kept = choices
+          .filter((c) => only === null || c.themeId === only)
+          .map((c) => ({ theme_id: c.themeId, passage_id: c.passageId, choice: c.choice, at: c.at, coder: c.coder }));
+        if (opts.json) return printJson({ per_theme: opts.perTheme, rules: QUOTE_RULES, themes, choices: kept });
         const shown = themes.filter((t) => t.quotes.length || t.dropped.length || t.pinned_not_shown.length);
         if (!shown.length) return say('No quotes yet: no passage is coded to these themes.');
         for (const t of shown) {

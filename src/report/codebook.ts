@@ -8,7 +8,7 @@ import { writeCsv } from '../sheet/csv.js';
 import { DATA_CAUTION } from './cautions.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, int, oneLine, plural, when } from './escape.js';
-import { QUOTE_RULES } from './quotes.js';
+import { QUOTE_RULES, choiceLine } from './quotes.js';
 import type { ReportData, ReportMemo, ReportTheme } from './types.js';
 
 export type CodebookFormat = 'md' | 'html' | 'csv';
@@ -43,7 +43,7 @@ function codedAcross(d: ReportData): string {
 
 /** How the example quotes were chosen, and how their sources are named. */
 function quoteNote(d: ReportData): string {
-  return `Examples: ${QUOTE_RULES.replace(/^Quotes are/, 'quotes are')} ${d.pseudonyms ?? 'Sources are named as stored, not pseudonymised.'}`;
+  return `Examples: ${QUOTE_RULES.replace(/^Quotes are/, 'quotes are')} ${choiceLine(d)} ${d.pseudonyms ?? 'Sources are named as stored, not pseudonymised.'}`;
 }
 
 function counts(t: ReportTheme): string {

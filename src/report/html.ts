@@ -7,7 +7,7 @@ import { AGREEMENT_CAUTION, KRIPPENDORFF_GUIDANCE, LANDIS_KOCH_BANDS } from '../
 import { FEW_DECISIONS, acceptanceChart, calibrationChart, growthChart, heatmapChart, overTimeChart, themeLabeller, unclaimedChart } from './charts.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, fixed, int, oneLine, pct, plural, when } from './escape.js';
-import { QUOTE_RULES } from './quotes.js';
+import { QUOTE_RULES, choiceLine } from './quotes.js';
 import type { ReportCluster, ReportData, ReportMemo, ReportQuote, ReportTheme } from './types.js';
 
 const REPORT_CSS = `
@@ -381,7 +381,7 @@ function quotes(d: ReportData): string {
     return `<div class="theme-quotes"><h3>${esc(`${t.number} ${t.name}`)}${t.apriori ? '<span class="tag">a priori</span>' : ''}</h3><p class="meta">${esc(t.path)} · ${esc(plural(t.total, 'passage'))}</p>${qs}</div>`;
   });
   return (
-    `<p>${esc(QUOTE_RULES)}</p>\n` +
+    `<p>${esc(QUOTE_RULES)} ${esc(choiceLine(d))}</p>\n` +
     `<p>${esc(d.pseudonyms ?? 'Quotes are credited to the transcripts\' names and speaker labels as stored: check that they are de-identified before sharing this report ("trellis alias", and --pseudonymise).')}</p>\n` +
     blocks.join('\n')
   );

@@ -11,6 +11,9 @@
  *    passage already shown (or pinned anywhere) is skipped.
  */
 
+import { plural } from './escape.js';
+import type { ReportData } from './types.js';
+
 export interface QuoteCandidate {
   passageId: string;
   /** Who spoke it: transcript and speaker label (the real ones; aliases are for display). */
@@ -70,4 +73,11 @@ export function chooseQuotes(themes: readonly QuoteTheme[], choices: readonly Qu
     }
   }
   return out;
+}
+
+/** How much of the choice was the researchers' own. */
+export function choiceLine(d: ReportData): string {
+  const c = d.quoteChoices ?? { pinned: 0, dropped: 0 };
+  if (!c.pinned && !c.dropped) return 'No quote was pinned or dropped by a researcher: every quote here was chosen by these rules.';
+  return `Researchers pinned ${plural(c.pinned, 'quote')} and dropped ${plural(c.dropped, 'quote')} (trellis quote list); pinned quotes are marked.`;
 }

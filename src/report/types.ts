@@ -154,6 +154,8 @@ export interface ReportData {
     caution: string;
   } | null;
   cautions: string[];
+  /** Quotes researchers pinned and dropped (trellis quote), over all themes. */
+  quoteChoices?: { pinned: number; dropped: number };
   /** How speakers and transcripts are named in this document (aliases or as stored); null when not pseudonymised. */
   pseudonyms?: string | null;
   /** Every memo, oldest first; theme memos also sit on their theme (ReportTheme.memos). */

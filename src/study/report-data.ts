@@ -164,6 +164,10 @@ function gather(db: DB, opts: ReportOptions): ReportData {
           }
         : null,
     cautions: opts.cautions(codings.filter((c) => c.origin === 'bulk').length),
+    quoteChoices: (() => {
+      const all = listQuoteChoices(db);
+      return { pinned: all.filter((c) => c.choice === 'pin').length, dropped: all.filter((c) => c.choice === 'drop').length };
+    })(),
     memos,
     integrative: integrativeCoverage(template, codings.map((c) => ({ passageId: c.passage_id, themeId: c.theme_id }))).map((x) => ({
       themeId: x.theme_id,

@@ -51,6 +51,7 @@ describe('quotes in the report and codebook', () => {
     }
     expect(html).toMatch(/at most one per participant per theme/);
     expect(html).toMatch(/no passage appears twice/);
+    expect(html).toMatch(/No quote was pinned or dropped by a researcher/);
   });
 
   it('honours pins and drops in the report, the codebook and quote list', () => {
@@ -67,6 +68,10 @@ describe('quotes in the report and codebook', () => {
     expect(after.quotes[0]).toMatchObject({ passage_id: hidden, pinned: true });
     expect(after.quotes.map((q: any) => q.passage_id)).not.toContain(first);
     expect(after.dropped).toEqual([first]);
+    expect(json(dir, ['quote', 'list', '--theme', theme.theme]).choices).toMatchObject([
+      { passage_id: hidden, choice: 'pin', coder: 'tester' },
+      { passage_id: first, choice: 'drop', coder: 'tester' },
+    ]);
 
     expect(trellis(['report', '--out', 'r2.html'], dir).status).toBe(0);
     const shown = reportQuotes(readFileSync(join(dir, 'r2.html'), 'utf8')).find((t) => t.theme.endsWith(theme.theme.split(' > ').pop()!))!;
@@ -75,6 +80,7 @@ describe('quotes in the report and codebook', () => {
     expect(trellis(['codebook', '--out', 'cb.md', '--no-pseudonymise'], dir).status).toBe(0);
     const md = readFileSync(join(dir, 'cb.md'), 'utf8');
     expect(md).toMatch(/\(pinned\)/);
+    expect(md).toMatch(/Researchers pinned 1 quote and dropped 1 quote/);
 
     // Cleared, the theme's quotes go back to the automatic choice.
     json(dir, ['quote', 'clear', hidden, '--theme', theme.theme]);
