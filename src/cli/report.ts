@@ -33,7 +33,7 @@ Examples:
         renderReport(reportData(db, { studyDir: opts.study, title: opts.title, quotes: 3, cautions: reportCautions, pseudonymise: opts.pseudonymise === true })),
       );
       writeOut(opts, html);
-      if (opts.json) printJson({ out: resolve(opts.out), bytes: Buffer.byteLength(html) });
+      if (opts.json) printJson({ out: resolve(opts.out), bytes: Buffer.byteLength(html), pseudonymised: opts.pseudonymise === true });
       else say(`Wrote the report to ${resolve(opts.out)} (open it in any browser; it needs no network).`);
     });
 
@@ -59,7 +59,7 @@ Examples:
       checkOut(opts);
       const text = await withStudy(opts, (db) => renderCodebook(reportData(db, { studyDir: opts.study, quotes: 2, cautions: reportCautions, pseudonymise: opts.pseudonymise !== false }), opts.format as CodebookFormat));
       writeOut(opts, text);
-      if (opts.json) printJson({ out: resolve(opts.out), format: opts.format });
+      if (opts.json) printJson({ out: resolve(opts.out), format: opts.format, pseudonymised: opts.pseudonymise !== false });
       else say(`Wrote the codebook to ${resolve(opts.out)}.`);
     });
 }
