@@ -7,6 +7,8 @@ import { studyCoder } from '../study/db.js';
 import { importTranscripts, type ImportItem } from '../study/import.js';
 import { coderName, collect, positiveInt, studyCommand, UNNAMED, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table, warn } from './output.js';
+import { looksLikeName } from '../report/pseudonyms.js';
+import { listAliases } from '../study/aliases.js';
 import { progressBar } from './progress.js';
 
 interface AddOpts extends StudyOpts {
@@ -65,17 +67,26 @@ Examples:
       readBar.stop();
       const total = items.reduce((n, it) => n + it.transcripts.length, 0);
       const bar = progressBar(total, 'importing');
-      const report = await withStudy(opts, (db) =>
-        importTranscripts(db, items, {
+      const { report, aliased } = await withStudy(opts, async (db) => ({
+        report: await importTranscripts(db, items, {
           replace: opts.replace,
           interviewers: opts.interviewer,
           coder: opts.coder?.trim() || process.env.TRELLIS_CODER?.trim() || studyCoder(db) || UNNAMED,
           onProgress: (done) => bar.tick(done),
         }),
-      );
+        aliased: new Set(listAliases(db).filter((a) => a.kind === 'speaker').map((a) => a.name)),
+      }));
       bar.stop();
-      if (opts.json) return printJson(report);
+      // Speaker labels that look like personal names and have no alias yet, in order of appearance.
+      const names = [...new Set(items.flatMap((it) => it.transcripts.flatMap((t) => t.turns.map((u) => u.speaker))))].filter(
+        (s): s is string => looksLikeName(s) && !aliased.has(s!),
+      );
+      if (opts.json) return printJson({ ...report, speakers_like_names: names });
       for (const w of report.warnings) warn(w);
+      if (names.length) {
+        const shown = names.slice(0, 8).map((n) => `"${n}"`).join(', ') + (names.length > 8 ? `, and ${names.length - 8} more` : '');
+        warn(`${plural(names.length, 'speaker label')} look${names.length === 1 ? 's' : ''} like personal names: ${shown}. Give each an alias before outputs leave the team (trellis alias NAME P01; trellis alias list --all), and use --pseudonymise.`);
+      }
       if (report.added.length) {
         say(
           table(

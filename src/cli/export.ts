@@ -2,6 +2,7 @@ import type { Command } from 'commander';
 import { UserError } from '../errors.js';
 import { DATA_CAUTION } from '../report/cautions.js';
 import { writeCsv } from '../sheet/csv.js';
+import { studyPseudonymiser } from '../study/aliases.js';
 import { decisionLog, logColumns } from '../study/decisions.js';
 import { CODING_COLUMNS, codingsForExport, themeMatrix } from '../study/export.js';
 import { currentRevision } from '../study/template.js';
@@ -17,6 +18,7 @@ export function registerExport(program: Command): void {
     .argument('<what>', WHAT.join(', '))
     .requiredOption('--out <file>', 'the file to write')
     .option('--format <format>', 'csv or json (codings, log); the matrix is CSV, the template an outline', 'csv')
+    .option('--pseudonymise', 'name speakers and transcripts by their aliases (trellis alias), in passage ids too')
     .addHelpText(
       'after',
       `
@@ -25,29 +27,41 @@ matrix    passages coded per theme (rows, rolled up over sub-themes) and transcr
 log       the decision log (the audit trail)
 template  the current template as an outline that "trellis template set" reads back
 
+--pseudonymise (codings, log, matrix; the template holds no such names) names speakers and transcripts by their aliases, with codes for those without one
+(see trellis alias --help); speaker names inside the text and notes are replaced where they match
+a speaker label. The study keeps the real names.
+
 Examples:
   trellis export codings --out codings.csv
   trellis export codings --format json --out codings.json
   trellis export matrix --out matrix.csv
-  trellis export template --out template-rev7.txt`,
+  trellis export template --out template-rev7.txt
+  trellis export codings --pseudonymise --out codings-shared.csv`,
     )
-    .action(async (what: string, opts: OutputOpts & { format: string }) => {
+    .action(async (what: string, opts: OutputOpts & { format: string; pseudonymise?: boolean }) => {
       if (!WHAT.includes(what)) throw new UserError(`export what? one of ${WHAT.join(', ')} (got "${what}")`);
       if (!['csv', 'json'].includes(opts.format)) throw new UserError(`--format is csv or json (got "${opts.format}")`);
       checkOut(opts);
       const text = await withStudy(opts, (db) => {
+        const p = opts.pseudonymise ? studyPseudonymiser(db) : null;
+        const caution = p ? `${DATA_CAUTION} ${p.note}` : DATA_CAUTION;
+        const head = (rows: object) => ({ caution, ...(p ? { pseudonymised: true } : {}), ...rows });
         switch (what) {
           case 'codings': {
-            const rows = codingsForExport(db);
-            return opts.format === 'json' ? JSON.stringify({ caution: DATA_CAUTION, codings: rows }, null, 2) + '\n' : writeCsv(CODING_COLUMNS, rows, DATA_CAUTION);
+            const rows = codingsForExport(db).map((r) =>
+              p ? { ...r, passage_id: p.passage(r.passage_id), transcript: p.transcript(r.transcript), speaker: p.speaker(r.speaker) ?? '', text: p.text(r.text) } : r,
+            );
+            return opts.format === 'json' ? JSON.stringify(head({ codings: rows }), null, 2) + '\n' : writeCsv(CODING_COLUMNS, rows, caution);
           }
           case 'matrix': {
             const m = themeMatrix(db);
-            return writeCsv(['number', 'theme', ...m.transcripts], m.rows.map((r) => [r.number, r.theme, ...r.counts]), DATA_CAUTION);
+            return writeCsv(['number', 'theme', ...m.transcripts.map((t) => (p ? p.transcript(t) : t))], m.rows.map((r) => [r.number, r.theme, ...r.counts]), caution);
           }
           case 'log': {
-            const rows = decisionLog(db);
-            return opts.format === 'json' ? JSON.stringify({ caution: DATA_CAUTION, decisions: rows }, null, 2) + '\n' : writeCsv(logColumns(rows), rows, DATA_CAUTION);
+            const rows = decisionLog(db).map((d) =>
+              p ? { ...d, passage_id: d.passage_id && p.passage(d.passage_id), transcript: d.transcript && p.transcript(d.transcript), note: d.note && p.text(d.note) } : d,
+            );
+            return opts.format === 'json' ? JSON.stringify(head({ decisions: rows }), null, 2) + '\n' : writeCsv(logColumns(rows), rows, caution);
           }
           default: {
             const rev = currentRevision(db);

@@ -17,6 +17,8 @@ import { registerReport } from './report.js';
 import { registerDiscover } from './discover.js';
 import { registerTemplate } from './template.js';
 import { registerMemo } from './memo.js';
+import { registerQuote } from './quote.js';
+import { registerAlias } from './alias.js';
 
 export const CAUTIONS = `
 Your data: trellis never opens a network connection; the study (study.db and template.txt)
@@ -64,6 +66,8 @@ ${CAUTIONS}`,
   registerReport(program);
   registerCheck(program);
   registerMemo(program);
+  registerQuote(program);
+  registerAlias(program);
   return program;
 }
 

@@ -1,3 +1,4 @@
+import { studyPseudonymiser } from '../study/aliases.js';
 import type { Command } from 'commander';
 import { decodeText } from '../ingest/decode.js';
 import { readInputFile } from '../ingest/limits.js';
@@ -26,14 +27,21 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     .requiredOption('--out <file>', 'the CSV file to write')
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
     .option('--coder <name>', "fill the themes column with this coder's current codings", coderName)
+    .option('--pseudonymise', 'the speaker column by alias (trellis alias); passage ids, transcript names and text stay as stored so the sheet reads back')
     .option('--study <dir>', 'the study folder', '.')
     .option('--json', 'machine-readable output on stdout')
-    .addHelpText('after', '\nExamples:\n  trellis sheet export --transcript t01 --transcript t02 --out batch1.csv\n  trellis sheet export --coder alex --out alex-codes.csv')
-    .action(async (opts: OutputOpts & { transcript?: string[]; coder?: string }) => {
+    .addHelpText(
+      'after',
+      '\nExamples:\n  trellis sheet export --transcript t01 --transcript t02 --out batch1.csv\n  trellis sheet export --coder alex --out alex-codes.csv\n  trellis sheet export --pseudonymise --out second-coder.csv',
+    )
+    .action(async (opts: OutputOpts & { transcript?: string[]; coder?: string; pseudonymise?: boolean }) => {
       checkOut(opts);
       const rows = await withStudy(opts, (db) => {
         requireTranscripts(db, opts.transcript);
-        return sheetRows(db, { transcripts: opts.transcript, coder: opts.coder });
+        const rows = sheetRows(db, { transcripts: opts.transcript, coder: opts.coder });
+        if (!opts.pseudonymise) return rows;
+        const p = studyPseudonymiser(db);
+        return rows.map((r) => ({ ...r, speaker: p.speaker(r.speaker || null) ?? '' }));
       });
       writeOut(opts, writeSheet(rows));
       if (opts.json) printJson({ out: opts.out, rows: rows.length });

@@ -89,7 +89,7 @@ Examples:
 }
 
 export function registerAgree(program: Command): void {
-  studyCommand(program, 'agree', "inter-coder agreement: percent agreement, Cohen's kappa, Krippendorff's alpha")
+  studyCommand(program, 'agree', "inter-coder agreement: percent agreement, Cohen's or Fleiss' kappa, Krippendorff's alpha")
     .requiredOption('--coders <names>', `the coders, comma-separated (two or more; "${TOOL_CODER}" stands for the suggestions above threshold)`, collect)
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
     .option('--list', 'also list the passages where the coders differ, theme by theme, for the team to discuss')
@@ -102,20 +102,29 @@ it "reviewed, nothing to code" (trellis nocode, or "nothing to code" in a coding
 cell). An empty sheet row is not a review, and interviewer turns are never units. For each
 theme, each unit is "present" or "absent" for each coder who reviewed it.
 
-Cohen's kappa needs exactly two coders and is banded after Landis & Koch; Krippendorff's alpha
-(nominal) takes any number of coders and missing values, and is labelled with Krippendorff's
-own guidance: rely on at least 0.800, draw tentative conclusions only from 0.667 to 0.800.
+Cohen's kappa needs exactly two coders. With three or more, Fleiss' kappa (Fleiss 1971) is
+taken on the units every one of them reviewed, and a pairwise table gives Cohen's kappa for each
+two coders on the passages both reviewed. Kappas are banded after Landis & Koch. Krippendorff's
+alpha (nominal) takes any number of coders and missing values, and is labelled with
+Krippendorff's own guidance: rely on at least 0.800, draw tentative conclusions only from 0.667
+to 0.800.
 Agreement with "${TOOL_CODER}" is partly circular where the coder accepted its suggestions.
 
 Examples:
   trellis agree --coders priya,tom
   trellis agree --coders priya,tom --list
+  trellis agree --coders priya,tom,sam          Fleiss' kappa, alpha and every pair
   trellis agree --coders priya,trellis --transcript t05-ward9-fy2`,
     )
     .action(async (opts: StudyOpts & { coders: string[]; transcript?: string[]; list?: boolean }) => {
       if (opts.coders.length < 2) throw new UserError('agreement needs two or more coders: --coders A,B');
+      const twice = opts.coders.find((c, i) => opts.coders.indexOf(c) !== i);
+      if (twice) throw new UserError(`coder "${twice}" is named twice in --coders`);
       await withStudy(opts, (db) => {
         requireTranscripts(db, opts.transcript);
+        const known = knownCoders(db);
+        const unknown = opts.coders.filter((c) => c !== TOOL_CODER && !known.includes(c));
+        if (unknown.length) throw new UserError(`no coder named ${unknown.map((c) => `"${c}"`).join(', ')} has coded or decided anything in this study (coders: ${known.join(', ') || 'none yet'})`);
         const r = agreement(db, { coders: opts.coders, transcripts: opts.transcript });
         if (opts.json) return printJson(r);
         const name = themeNames(db);
@@ -124,16 +133,38 @@ Examples:
           say('No passage was reviewed by two of these coders, so there is no agreement to measure.');
           return;
         }
-        say(
-          table(
-            ['theme', 'units', 'agreement', 'kappa', 'kappa band', 'alpha', 'alpha guidance'],
-            [
-              ...r.themes.filter((t) => t.units).map((t) => [name(t.themeId), t.units, pct(t.percentAgreement), fix(t.kappa.value), t.kappa.band ?? '-', fix(t.alpha.value), t.alpha.guidance ?? '-']),
-              ['all themes, pooled', r.pooled.units, pct(r.pooled.percentAgreement), fix(r.pooled.kappa.value), r.pooled.kappa.band ?? '-', fix(r.pooled.alpha.value), r.pooled.alpha.guidance ?? '-'],
-              [`mean of themes (alpha over ${r.meanOfThemes.themesInAlpha})`, '', pct(r.meanOfThemes.percentAgreement), fix(r.meanOfThemes.kappa), '', fix(r.meanOfThemes.alpha), ''],
-            ] as (string | number)[][],
-          ),
-        );
+        if (r.coders.length === 2) {
+          say(
+            table(
+              ['theme', 'units', 'agreement', 'kappa', 'kappa band', 'alpha', 'alpha guidance'],
+              [
+                ...r.themes.filter((t) => t.units).map((t) => [name(t.themeId), t.units, pct(t.percentAgreement), fix(t.kappa.value), t.kappa.band ?? '-', fix(t.alpha.value), t.alpha.guidance ?? '-']),
+                ['all themes, pooled', r.pooled.units, pct(r.pooled.percentAgreement), fix(r.pooled.kappa.value), r.pooled.kappa.band ?? '-', fix(r.pooled.alpha.value), r.pooled.alpha.guidance ?? '-'],
+                [`mean of themes (alpha over ${r.meanOfThemes.themesInAlpha})`, '', pct(r.meanOfThemes.percentAgreement), fix(r.meanOfThemes.kappa), '', fix(r.meanOfThemes.alpha), ''],
+              ] as (string | number)[][],
+            ),
+          );
+        } else {
+          // Three or more coders: Fleiss' kappa on the units all of them reviewed, alpha on every unit.
+          say(
+            table(
+              ['theme', 'units', 'agreement', 'all-coder units', 'Fleiss kappa', 'kappa band', 'alpha', 'alpha guidance'],
+              [
+                ...r.themes.filter((t) => t.units).map((t) => [name(t.themeId), t.units, pct(t.percentAgreement), t.fleiss.units, fix(t.fleiss.value), t.fleiss.band ?? '-', fix(t.alpha.value), t.alpha.guidance ?? '-']),
+                ['all themes, pooled', r.pooled.units, pct(r.pooled.percentAgreement), r.pooled.fleiss.units, fix(r.pooled.fleiss.value), r.pooled.fleiss.band ?? '-', fix(r.pooled.alpha.value), r.pooled.alpha.guidance ?? '-'],
+                [`mean of themes (alpha over ${r.meanOfThemes.themesInAlpha})`, '', pct(r.meanOfThemes.percentAgreement), '', fix(r.meanOfThemes.fleiss), '', fix(r.meanOfThemes.alpha), ''],
+              ] as (string | number)[][],
+            ),
+          );
+          say("\nFleiss' kappa (Fleiss 1971) counts only the units every one of these coders reviewed (\"all-coder units\"); Krippendorff's alpha uses every unit two or more reviewed.");
+          say('\nEvery pair of coders, on the passages both reviewed (pooled over passage-theme pairs; mean of the per-theme kappas):');
+          say(
+            table(
+              ['coders', 'passages', 'agreement', "Cohen's kappa", 'kappa band', 'alpha', 'mean kappa (themes)'],
+              r.pairwise.map((p) => [p.coders.join(' & '), p.passages, pct(p.percent_agreement), fix(p.kappa.value), p.kappa.band ?? '-', fix(p.alpha.value), `${fix(p.mean_kappa)} (${p.themes_in_mean_kappa})`]),
+            ),
+          );
+        }
         say('\nUnits: per theme, the passages compared; pooled, every passage-theme pair of those passages.');
         say(`Kappa bands: ${r.bandsSource}`);
         say(`Alpha guidance: ${r.guidance_source}`);
@@ -159,6 +190,11 @@ Examples:
         }
       });
     });
+}
+
+/** Everyone who made a coding or a decision in the study. */
+function knownCoders(db: Parameters<typeof currentTemplate>[0]): string[] {
+  return (db.prepare('SELECT coder FROM codings UNION SELECT coder FROM decisions ORDER BY 1').all() as { coder: string }[]).map((r) => r.coder);
 }
 
 function clipText(text: string, n: number): string {

@@ -12,10 +12,12 @@
 import { krippendorffAlpha } from './alpha.js';
 import { AGREEMENT_CAUTION, KRIPPENDORFF_SOURCE, LANDIS_KOCH_SOURCE, agreementBand, alphaGuidance, type AlphaGuidance, type Band } from './bands.js';
 import { undefinedBecause, type Coefficient } from './coefficient.js';
+import { fleissFromRows } from './fleiss.js';
 import { cohensKappa } from './kappa.js';
 
 export { percentAgreement, cohensKappa, type KappaResult } from './kappa.js';
 export { krippendorffAlpha, type AlphaLevel, type AlphaResult } from './alpha.js';
+export { fleissKappa, fleissFromRows, type FleissResult } from './fleiss.js';
 export {
   AGREEMENT_CAUTION,
   CIRCULARITY_NOTE,
@@ -82,6 +84,26 @@ export interface AgreementFigures {
   kappa: BandedCoefficient;
   /** Krippendorff's alpha, nominal, any number of coders, missing values allowed. */
   alpha: GuidedCoefficient;
+  /**
+   * Fleiss' kappa (Fleiss 1971) for all the coders together, on the units every one of them
+   * reviewed (`units` here): it needs the same coders on every unit. With two coders it is
+   * Scott's pi; Cohen's kappa is the two-coder figure shown.
+   */
+  fleiss: BandedCoefficient & { units: number };
+}
+
+/** Two coders of several, on the passages both reviewed. */
+export interface PairAgreement {
+  coders: [string, string];
+  /** Participant passages both reviewed. */
+  passages: number;
+  /** Over every passage-theme pair of those passages. */
+  percent_agreement: number | null;
+  kappa: BandedCoefficient;
+  alpha: GuidedCoefficient;
+  /** The unweighted mean of the per-theme Cohen's kappas that are defined, and over how many themes. */
+  mean_kappa: number | null;
+  themes_in_mean_kappa: number;
 }
 
 export interface ThemeAgreement extends AgreementFigures {
@@ -99,6 +121,8 @@ export interface MeanOfThemes {
   themesInPercentAgreement: number;
   themesInKappa: number;
   themesInAlpha: number;
+  fleiss: number | null;
+  themes_in_fleiss: number;
 }
 
 export interface AgreementReport {
@@ -116,6 +140,8 @@ export interface AgreementReport {
   pooled: AgreementFigures;
   /** The mean of the per-theme figures: each theme counts once, however often it is used. */
   meanOfThemes: MeanOfThemes;
+  /** Every pair of coders, each on the passages both reviewed; empty with fewer than three coders. */
+  pairwise: PairAgreement[];
   /** Codings naming a passage, coder or theme outside the input lists; they are left out. */
   ignoredCodings: number;
   /** Every passage and theme on which the coders differ: what the team discusses. */
@@ -159,7 +185,7 @@ function figures(rows: Binary[][]): AgreementFigures {
   }
   let kappa: Coefficient;
   if (rows.length !== 2) {
-    kappa = undefinedBecause(`Cohen's kappa is for exactly two coders (here ${rows.length}); see Krippendorff's alpha`);
+    kappa = undefinedBecause(`Cohen's kappa is for exactly two coders (here ${rows.length}); see Fleiss' kappa, Krippendorff's alpha and the pairwise table`);
   } else {
     const a: number[] = [];
     const b: number[] = [];
@@ -177,7 +203,13 @@ function figures(rows: Binary[][]): AgreementFigures {
     percentAgreement: pairs > 0 ? agreeing / pairs : null,
     kappa: banded(kappa),
     alpha: guided(krippendorffAlpha(rows, 'nominal')),
+    fleiss: fleissFigure(rows),
   };
+}
+
+function fleissFigure(rows: Binary[][]): BandedCoefficient & { units: number } {
+  const f = fleissFromRows(rows);
+  return { ...banded(f), units: f.units };
 }
 
 function mean(values: (number | null)[]): [number | null, number] {
@@ -250,6 +282,29 @@ export function agreementReport(input: AgreementInput): AgreementReport {
   const [pa, nPa] = mean(themes.map((t) => t.percentAgreement));
   const [ka, nKa] = mean(themes.map((t) => t.kappa.value));
   const [al, nAl] = mean(themes.map((t) => t.alpha.value));
+  const [fl, nFl] = mean(themes.map((t) => t.fleiss.value));
+
+  const pairwise: PairAgreement[] = [];
+  if (C >= 3) {
+    for (let i = 0; i < C; i++) {
+      for (let j = i + 1; j < C; j++) {
+        const both = pairable.filter((p) => looked[i]![p] && looked[j]![p]);
+        const pair = [i, j];
+        const perTheme = input.themes.map((_, t) => figures(pair.map((c) => both.map((p) => value(c, p, t)))));
+        const pooled = figures(pair.map((c) => both.flatMap((p) => input.themes.map((_, t) => value(c, p, t)))));
+        const [mk, nk] = mean(perTheme.map((f) => f.kappa.value));
+        pairwise.push({
+          coders: [input.coders[i]!, input.coders[j]!],
+          passages: both.length,
+          percent_agreement: pooled.percentAgreement,
+          kappa: pooled.kappa,
+          alpha: pooled.alpha,
+          mean_kappa: mk,
+          themes_in_mean_kappa: nk,
+        });
+      }
+    }
+  }
 
   return {
     coders: [...input.coders],
@@ -264,7 +319,10 @@ export function agreementReport(input: AgreementInput): AgreementReport {
       themesInPercentAgreement: nPa,
       themesInKappa: nKa,
       themesInAlpha: nAl,
+      fleiss: fl,
+      themes_in_fleiss: nFl,
     },
+    pairwise,
     ignoredCodings,
     disagreements,
     bandsSource: LANDIS_KOCH_SOURCE,

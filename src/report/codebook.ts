@@ -8,6 +8,7 @@ import { writeCsv } from '../sheet/csv.js';
 import { DATA_CAUTION } from './cautions.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, int, oneLine, plural, when } from './escape.js';
+import { QUOTE_RULES, choiceLine } from './quotes.js';
 import type { ReportData, ReportMemo, ReportTheme } from './types.js';
 
 export type CodebookFormat = 'md' | 'html' | 'csv';
@@ -28,8 +29,21 @@ function intro(d: ReportData): string {
   return (
     `${plural(d.themes.length, 'theme')} (${apriori} a priori)` +
     (d.counts.revision === null ? '' : `, template revision ${d.counts.revision}`) +
-    `; passages coded across ${plural(d.counts.transcripts, 'transcript')}. Generated ${when(d.generatedAt)}.`
+    `; ${codedAcross(d)}. Generated ${when(d.generatedAt)}.`
   );
+}
+
+/** "codings in 8 of 23 transcripts": only transcripts that carry codings count as coded. */
+function codedAcross(d: ReportData): string {
+  const coded = d.counts.codedTranscripts ?? 0;
+  if (!d.counts.transcripts) return 'no transcripts imported yet';
+  if (!coded) return `no passages coded yet in ${plural(d.counts.transcripts, 'transcript')}`;
+  return `codings in ${coded} of ${plural(d.counts.transcripts, 'transcript')} (${plural(d.counts.coded, 'participant passage')} coded)`;
+}
+
+/** How the example quotes were chosen, and how their sources are named. */
+function quoteNote(d: ReportData): string {
+  return `Examples: ${QUOTE_RULES.replace(/^Quotes are/, 'quotes are')} ${choiceLine(d)} ${d.pseudonyms ?? 'Sources are named as stored, not pseudonymised.'}`;
 }
 
 function counts(t: ReportTheme): string {
@@ -76,7 +90,7 @@ function studyMemos(d: ReportData): ReportMemo[] {
 }
 
 function markdown(d: ReportData, examples: number): string {
-  const out: string[] = [`# Codebook: ${mdEscape(d.title)}`, '', mdEscape(intro(d)), '', `> ${mdEscape(DATA_CAUTION)}`, ''];
+  const out: string[] = [`# Codebook: ${mdEscape(d.title)}`, '', mdEscape(intro(d)), '', `> ${mdEscape(DATA_CAUTION)}`, '', mdEscape(quoteNote(d)), ''];
   const notes = studyMemos(d);
   if (notes.length) out.push('## Memos on the study', '', ...notes.map((m) => `- ${mdEscape(m.text)} _(${mdEscape(m.author)}, ${when(m.at)})_`), '');
   if (!d.themes.length) return [...out, '_The template has no themes yet._', ''].join('\n');
@@ -116,7 +130,7 @@ function markdown(d: ReportData, examples: number): string {
     if (qs.length) {
       out.push('', qs.length === 1 ? 'Example:' : 'Examples:', '');
       // A backslash at the end of a line is a hard line break: the source goes on its own line.
-      for (const q of qs) out.push(`> ${mdEscape(q.text)}\\`, `> — ${mdEscape(source(q))}`, '');
+      for (const q of qs) out.push(`> ${mdEscape(q.text)}\\`, `> — ${mdEscape(source(q))}${q.pinned ? ' (pinned)' : ''}`, '');
     } else out.push('');
   }
   return out.join('\n').replace(/\n{3,}/g, '\n\n').trimEnd() + '\n';
@@ -140,7 +154,7 @@ h2.entry-h { font-size: 1.25rem; }
 `;
 
 function html(d: ReportData, examples: number): string {
-  const parts: string[] = [`<header><p class="meta">Codebook</p><h1>${esc(d.title)}</h1><p class="meta">${esc(intro(d))}</p><p class="caution">${esc(DATA_CAUTION)}</p></header>`];
+  const parts: string[] = [`<header><p class="meta">Codebook</p><h1>${esc(d.title)}</h1><p class="meta">${esc(intro(d))}</p><p class="caution">${esc(DATA_CAUTION)}</p><p class="note">${esc(quoteNote(d))}</p></header>`];
   const notes = studyMemos(d);
   if (notes.length) parts.push(`<h2>Memos on the study</h2><ul>${notes.map((m) => `<li>${esc(oneLine(m.text))} <span class="note">(${esc(m.author)}, ${esc(when(m.at))})</span></li>`).join('')}</ul>`);
   if (!d.themes.length) {
@@ -172,7 +186,7 @@ function html(d: ReportData, examples: number): string {
       `<section class="entry${level(t) === 0 ? ' top' : ''}"><h${h} class="entry-h">${esc(`${t.number} ${t.name}`)}${t.apriori ? '<span class="tag">a priori</span>' : ''}</h${h}>` +
         (level(t) > 0 ? `<p class="path">${esc(t.path)}</p>` : '') +
         `<dl>${rows.map(([k, v]) => `<dt>${k}</dt><dd>${v}</dd>`).join('')}</dl>` +
-        qs.map((q) => `<blockquote><p>${esc(oneLine(q.text))}</p><footer>${esc(source(q))}</footer></blockquote>`).join('') +
+        qs.map((q) => `<blockquote><p>${esc(oneLine(q.text))}</p><footer>${esc(source(q))}${q.pinned ? ' (pinned)' : ''}</footer></blockquote>`).join('') +
         `</section>`,
     );
   }
@@ -227,7 +241,7 @@ function csv(d: ReportData, examples: number): string {
     row.push(t.integrative ? 'yes' : 'no');
     return row;
   });
-  return writeCsv(columns, rows, DATA_CAUTION);
+  return writeCsv(columns, rows, d.pseudonyms ? `${DATA_CAUTION} ${d.pseudonyms}` : DATA_CAUTION);
 }
 
 /** The codebook in one of three formats; `examples` quotes per theme (default 2). */

@@ -7,7 +7,8 @@ import { AGREEMENT_CAUTION, KRIPPENDORFF_GUIDANCE, LANDIS_KOCH_BANDS } from '../
 import { FEW_DECISIONS, acceptanceChart, calibrationChart, growthChart, heatmapChart, overTimeChart, themeLabeller, unclaimedChart } from './charts.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, fixed, int, oneLine, pct, plural, when } from './escape.js';
-import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from './types.js';
+import { QUOTE_RULES, choiceLine } from './quotes.js';
+import type { ReportCluster, ReportData, ReportMemo, ReportQuote, ReportTheme } from './types.js';
 
 const REPORT_CSS = `
 header.doc { border-bottom: 1px solid var(--rule); padding-bottom: 16px; }
@@ -88,7 +89,7 @@ function summary(d: ReportData): string {
   const depth = d.themes.reduce((m, t) => Math.max(m, t.number.split('.').length), 0);
   const codedShare = c.participant > 0 ? c.coded / c.participant : null;
   const cards = [
-    stat(int(c.transcripts), 'transcripts'),
+    stat(int(c.transcripts), 'transcripts', c.codedTranscripts === undefined ? undefined : `${int(c.codedTranscripts)} with codings`),
     stat(int(c.passages), 'passages', `${int(c.participant)} from participants`),
     stat(int(c.coded), 'passages coded', codedShare === null ? undefined : `${pct(codedShare)} of participant passages`),
     stat(int(c.themes), 'themes', `${apriori} a priori; ${depth ? plural(depth, 'level') : 'no levels'} deep`),
@@ -283,7 +284,7 @@ function unclaimed(d: ReportData): string {
       `<article class="cluster"><h4>Cluster ${c.id}: ${esc(c.label)}</h4>` +
         `<p class="meta">${esc(`${plural(c.size, 'passage')} from ${plural(c.transcripts, 'transcript')} · cohesion ${fixed(c.cohesion)} · ${STATUS_WORDS[c.status] ?? c.status}`)}</p>` +
         (c.terms.length ? `<ul class="terms" aria-label="characteristic terms">${c.terms.map((t) => `<li>${esc(t)}</li>`).join('')}</ul>` : '') +
-        c.examples.map((e) => `<blockquote><p>${esc(oneLine(e))}</p></blockquote>`).join('') +
+        c.examples.map(quoteBlock).join('') +
         `</article>`,
     );
   }
@@ -296,17 +297,33 @@ function agreement(d: ReportData): string {
     return empty('No two coders have reviewed the same passages yet, so inter-coder agreement cannot be reported. Agreement needs a second coder to code a shared set of transcripts independently.');
   }
   const label = themeLabeller(d.themes);
+  const many = ag.coders.length >= 3;
   const rows = ag.rows
     .map((r) => {
       const pooled = /pooled/i.test(r.theme);
       const l = label(r.theme);
+      // Three or more coders: Fleiss' kappa (on the units all reviewed) takes Cohen's place.
+      const kappaCells = many
+        ? `<td class="num">${int(r.fleissUnits ?? 0)}</td><td class="num">${fixed(r.fleiss ?? null)}</td><td>${r.fleissBand ? esc(r.fleissBand) : '–'}</td>`
+        : `<td class="num">${fixed(r.kappa)}</td><td>${r.kappaBand ? esc(r.kappaBand) : '–'}</td>`;
       return (
         `<tr${pooled ? ' class="pooled"' : ''}><td>${esc(pooled ? r.theme : l.label)}</td><td class="num">${int(r.units)}</td>` +
-        `<td class="num">${pct(r.percentAgreement, 1)}</td><td class="num">${fixed(r.kappa)}</td><td>${r.kappaBand ? esc(r.kappaBand) : '–'}</td>` +
+        `<td class="num">${pct(r.percentAgreement, 1)}</td>${kappaCells}` +
         `<td class="num">${fixed(r.alpha)}</td><td>${r.alphaGuidance ? esc(r.alphaGuidance) : '–'}</td></tr>`
       );
     })
     .join('\n');
+  const kappaHead = many
+    ? `<th scope="col" class="num">Units all coders reviewed</th><th scope="col" class="num">Fleiss' κ</th><th scope="col">Band of κ</th>`
+    : `<th scope="col" class="num">Cohen's κ</th><th scope="col">Band of κ</th>`;
+  const pairs = many && ag.pairwise?.length
+    ? `<h3>Every pair of coders</h3><table class="agreement pairs"><caption>${esc("Each pair on the participant passages both reviewed, pooled over every passage-theme pair of those passages; the last column is the mean of the per-theme Cohen's κ that are defined, with how many themes it is taken over.")}</caption>` +
+      `<thead><tr><th scope="col">Coders</th><th scope="col" class="num">Passages</th><th scope="col" class="num">Percent agreement</th><th scope="col" class="num">Cohen's κ</th><th scope="col">Band of κ</th><th scope="col" class="num">Krippendorff's α</th><th scope="col" class="num">Mean κ of themes</th></tr></thead><tbody>` +
+      ag.pairwise
+        .map((p) => `<tr><td>${esc(p.coders.join(' & '))}</td><td class="num">${int(p.passages)}</td><td class="num">${pct(p.percentAgreement, 1)}</td><td class="num">${fixed(p.kappa)}</td><td>${p.kappaBand ? esc(p.kappaBand) : '–'}</td><td class="num">${fixed(p.alpha)}</td><td class="num">${fixed(p.meanKappa)} (${int(p.themesInMeanKappa)})</td></tr>`)
+        .join('') +
+      `</tbody></table>`
+    : '';
   const key = LANDIS_KOCH_BANDS.map((b) => `${b.label} ${b.range}`).join('; ');
   const guide = KRIPPENDORFF_GUIDANCE.map((g) => `${g.label}: ${g.rule}`).join('; ');
   return (
@@ -314,8 +331,9 @@ function agreement(d: ReportData): string {
       `Coders compared: ${ag.coders.join(', ')}. The units are the ${plural(ag.units, 'participant passage')} that two or more of them reviewed: coded, decided on a suggestion for, or marked "reviewed, nothing to code". Interviewer turns and sheet rows left empty are not units. ` +
         'For each theme, coders agree on a unit when all applied the theme or none did. Themes are compared as coded: a coding to a sub-theme does not count for its parent. Each figure rests on the units in its row.',
     )}</p>` +
-    `<table class="agreement"><thead><tr><th scope="col">Theme</th><th scope="col" class="num">Units</th><th scope="col" class="num">Percent agreement</th><th scope="col" class="num">Cohen's κ</th><th scope="col">Band of κ</th><th scope="col" class="num">Krippendorff's α</th><th scope="col">Guidance for α</th></tr></thead><tbody>${rows}</tbody></table>` +
-    `<p class="note">${esc(`The pooled row counts every passage-theme pair of the units. Bands of κ (${key}) follow ${ag.bandsSource} Guidance for α (${guide}) follows ${ag.guidanceSource}`)}</p>` +
+    `<table class="agreement"><thead><tr><th scope="col">Theme</th><th scope="col" class="num">Units</th><th scope="col" class="num">Percent agreement</th>${kappaHead}<th scope="col" class="num">Krippendorff's α</th><th scope="col">Guidance for α</th></tr></thead><tbody>${rows}</tbody></table>` +
+    pairs +
+    `<p class="note">${esc(`${many ? "With three or more coders, Fleiss' κ (Fleiss 1971) is taken on the units every coder reviewed, as it needs the same coders on every unit; Krippendorff's α takes every unit two or more reviewed, and the pairwise table compares each two coders. " : ''}The pooled row counts every passage-theme pair of the units. Bands of κ (${key}) follow ${ag.bandsSource} Guidance for α (${guide}) follows ${ag.guidanceSource}`)}</p>` +
     (ag.disagreements ? `<p>${esc(`The coders differ on ${plural(ag.disagreements, 'passage-theme pair')}; "trellis agree --coders ${ag.coders.join(',')} --list" lists them, theme by theme, for the team to discuss.`)}</p>` : '') +
     (ag.circularity ? `<p class="callout">${esc(ag.circularity)}</p>` : '') +
     `<p class="callout">${esc(ag.caution || AGREEMENT_CAUTION)}</p>`
@@ -349,20 +367,22 @@ function memosSection(d: ReportData): string {
   return parts.join('\n');
 }
 
+/** A quote with its source: transcript, speaker (or alias) and time, as everywhere in the report. */
+function quoteBlock(q: ReportQuote): string {
+  const source = [q.transcript, q.speaker ?? 'speaker not recorded', q.time].filter(Boolean).join(' · ');
+  return `<blockquote><p>${esc(oneLine(q.text))}</p><footer>${esc(source)} <span class="id">${esc(q.passageId)}</span>${q.pinned ? ' <span class="tag">pinned</span>' : ''}</footer></blockquote>`;
+}
+
 function quotes(d: ReportData): string {
   const withQuotes = d.themes.filter((t) => t.quotes.length);
   if (!withQuotes.length) return empty('No passages have been coded yet, so there are no quotes to show.');
   const blocks = withQuotes.map((t) => {
-    const qs = t.quotes
-      .map((q) => {
-        const source = [q.transcript, q.speaker ?? 'speaker not recorded', q.time].filter(Boolean).join(' · ');
-        return `<blockquote><p>${esc(oneLine(q.text))}</p><footer>${esc(source)} <span class="id">${esc(q.passageId)}</span></footer></blockquote>`;
-      })
-      .join('');
+    const qs = t.quotes.map(quoteBlock).join('');
     return `<div class="theme-quotes"><h3>${esc(`${t.number} ${t.name}`)}${t.apriori ? '<span class="tag">a priori</span>' : ''}</h3><p class="meta">${esc(t.path)} · ${esc(plural(t.total, 'passage'))}</p>${qs}</div>`;
   });
   return (
-    `<p>${esc('For each theme, the coded passages closest to the centre of its coded material: the quotes that best show what the theme holds. Check that quotes are de-identified before sharing this report.')}</p>\n` +
+    `<p>${esc(QUOTE_RULES)} ${esc(choiceLine(d))}</p>\n` +
+    `<p>${esc(d.pseudonyms ?? 'Quotes are credited to the transcripts\' names and speaker labels as stored: check that they are de-identified before sharing this report ("trellis alias", and --pseudonymise).')}</p>\n` +
     blocks.join('\n')
   );
 }

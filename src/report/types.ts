@@ -18,8 +18,18 @@ export interface ReportTheme {
   total: number;
   /** Memos on this theme, oldest first. */
   memos?: ReportMemo[];
-  /** Most representative coded quotes (closest to the theme's centroid first). */
-  quotes: { passageId: string; transcript: string; speaker: string | null; time: string; text: string }[];
+  /** The chosen quotes (src/report/quotes.ts): pinned ones first, then closest to the theme's centre. */
+  quotes: ReportQuote[];
+}
+
+export interface ReportQuote {
+  passageId: string;
+  transcript: string;
+  speaker: string | null;
+  time: string;
+  text: string;
+  /** Pinned by a researcher (trellis quote pin). */
+  pinned?: boolean;
 }
 
 export interface ReportMemo {
@@ -69,7 +79,8 @@ export interface ReportCluster {
   transcripts: number;
   cohesion: number;
   status: 'open' | 'promoted' | 'dismissed';
-  examples: string[]; // snippets of the passages closest to its centre
+  /** The passages closest to its centre, credited like every other quote. */
+  examples: ReportQuote[];
 }
 
 export interface AgreementRow {
@@ -82,6 +93,22 @@ export interface AgreementRow {
   kappaBand: string | null;
   /** Krippendorff's guidance for alpha: reliable, tentative, unreliable. */
   alphaGuidance: string | null;
+  /** Fleiss' kappa for three or more coders, on the units all of them reviewed, and its band. */
+  fleiss?: number | null;
+  fleissUnits?: number;
+  fleissBand?: string | null;
+}
+
+/** Two coders of three or more, on the passages both reviewed (pooled over passage-theme pairs). */
+export interface PairRow {
+  coders: [string, string];
+  passages: number;
+  percentAgreement: number | null;
+  kappa: number | null;
+  kappaBand: string | null;
+  alpha: number | null;
+  meanKappa: number | null;
+  themesInMeanKappa: number;
 }
 
 export interface ReportData {
@@ -89,6 +116,8 @@ export interface ReportData {
   generatedAt: string;
   counts: {
     transcripts: number;
+    /** Transcripts with at least one current coding (as status counts them). */
+    codedTranscripts?: number;
     passages: number;
     participant: number;
     coded: number;
@@ -114,6 +143,8 @@ export interface ReportData {
     /** Participant passages reviewed by two or more of the coders: the units. */
     units: number;
     rows: AgreementRow[];
+    /** Every pair of coders when there are three or more; empty otherwise. */
+    pairwise?: PairRow[];
     /** Passage-theme pairs on which the coders differ (listed by "trellis agree --list"). */
     disagreements: number;
     bandsSource: string;
@@ -123,6 +154,10 @@ export interface ReportData {
     caution: string;
   } | null;
   cautions: string[];
+  /** Quotes researchers pinned and dropped (trellis quote), over all themes. */
+  quoteChoices?: { pinned: number; dropped: number };
+  /** How speakers and transcripts are named in this document (aliases or as stored); null when not pseudonymised. */
+  pseudonyms?: string | null;
   /** Every memo, oldest first; theme memos also sit on their theme (ReportTheme.memos). */
   memos?: ReportMemo[];
   /**

@@ -12,7 +12,12 @@ import { currentCodings } from './codings.js';
 import type { DB } from './db.js';
 import { agreement, studyStats } from './measures.js';
 import { modelInputs } from './model.js';
-import { listPassages } from './passages.js';
+import { listPassages, type StoredPassage } from './passages.js';
+import { listQuoteChoices } from './quotes.js';
+import { themeMatrix } from './export.js';
+import { studyPseudonymiser } from './aliases.js';
+import { pseudonymiseReport } from '../report/pseudonyms.js';
+import { chooseQuotes, type ChosenQuote, type QuoteTheme } from '../report/quotes.js';
 import { studyStatus, themeCounts } from './status.js';
 import { currentTemplate, revisionHistory } from './template.js';
 
@@ -23,10 +28,17 @@ export interface ReportOptions {
   quotes?: number;
   /** The cautions, given how many codings were accepted in bulk. */
   cautions: (bulkCodings: number) => string[];
+  /** Name speakers and transcripts by their aliases (src/report/pseudonyms.ts). */
+  pseudonymise?: boolean;
 }
 
 /** Gathers everything the report and the codebook show, from the study, in one pass. */
 export function reportData(db: DB, opts: ReportOptions): ReportData {
+  const data = gather(db, opts);
+  return opts.pseudonymise ? pseudonymiseReport(data, studyPseudonymiser(db)) : data;
+}
+
+function gather(db: DB, opts: ReportOptions): ReportData {
   const template = currentTemplate(db);
   const entries = [...walk(template)];
   const status = studyStatus(db);
@@ -34,22 +46,8 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
   const passages = new Map(listPassages(db).map((p) => [p.id, p]));
   const codings = currentCodings(db);
 
-  // Passages per theme, rolled up over sub-themes (a passage counts once per theme).
-  const direct = new Map<string, Set<string>>();
-  for (const c of codings) {
-    let s = direct.get(c.theme_id);
-    if (!s) direct.set(c.theme_id, (s = new Set()));
-    s.add(c.passage_id);
-  }
-  const rolled = new Map<string, Set<string>>();
-  for (const e of [...entries].reverse()) {
-    const s = new Set(direct.get(e.node.id) ?? []);
-    for (const ch of e.node.children) for (const p of rolled.get(ch.id) ?? []) s.add(p);
-    rolled.set(e.node.id, s);
-  }
-
   const memos: ReportMemo[] = listMemos(db).map((m) => ({ id: m.memo_id, at: m.at, author: m.author, kind: m.target_kind, target: m.target, label: m.target_label, text: m.text }));
-  const quotes = representativeQuotes(db, entries.map((e) => e.node.id), direct, rolled, opts.quotes ?? 3);
+  const quotes = chosenQuotes(db, opts.quotes ?? 3);
   const themes: ReportTheme[] = entries.map((e) => ({
     id: e.node.id,
     number: e.number,
@@ -65,23 +63,14 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
     seeds: e.node.seeds,
     direct: counts.get(e.node.id)?.direct ?? 0,
     total: counts.get(e.node.id)?.total ?? 0,
-    quotes: (quotes.get(e.node.id) ?? []).map((id) => {
-      const p = passages.get(id)!;
-      return { passageId: id, transcript: p.transcript, speaker: p.speaker, time: clock(p.start), text: p.text };
+    quotes: (quotes.get(e.node.id) ?? []).map((q) => {
+      const p = passages.get(q.passageId)!;
+      return { passageId: q.passageId, transcript: p.transcript, speaker: p.speaker, time: clock(p.start), text: p.text, pinned: q.pinned };
     }),
   }));
 
-  const transcripts = status.perTranscript.map((t) => t.name);
-  const tIndex = new Map(transcripts.map((t, i) => [t, i]));
-  const heat = entries.map((e) => {
-    const row = new Array<number>(transcripts.length).fill(0);
-    for (const pid of rolled.get(e.node.id) ?? []) {
-      const p = passages.get(pid);
-      if (p) row[tIndex.get(p.transcript)!]!++;
-    }
-    return row;
-  });
-
+  // The same matrix as "trellis export matrix": passages per theme (rolled up) and transcript.
+  const matrix = themeMatrix(db);
   const stats = studyStats(db);
   const paths = new Map(entries.map((e) => [e.node.id, e.path]));
   const a = stats.acceptance;
@@ -93,6 +82,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
     generatedAt: new Date().toISOString(),
     counts: {
       transcripts: status.transcripts,
+      codedTranscripts: status.coded_transcripts,
       passages: status.passages.total,
       participant: status.passages.participant,
       coded: status.coded,
@@ -113,7 +103,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
           ? [`added ${r.changes.length} themes`]
           : r.changes.map(describeChange).map((s) => s.replace(/\s+/g, ' ')),
     })),
-    heatmap: { transcripts, themes: entries.map((e) => e.path), counts: heat },
+    heatmap: { transcripts: matrix.transcripts, themes: matrix.rows.map((r) => r.theme), counts: matrix.rows.map((r) => r.counts) },
     acceptance: {
       overall: { label: 'all suggestions', decided: a.overall.decided, accepted: a.overall.accepted, rate: a.overall.rate },
       perTheme: a.perTheme.map((g) => ({ label: paths.get(g.key) ?? `${g.key} (retired)`, decided: g.decided, accepted: g.accepted, rate: g.rate })),
@@ -122,7 +112,7 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
     },
     growth: stats.template_growth.curve.map((p) => ({ transcript: p.transcript, order: p.order, newThemes: p.new_themes, newSubThemes: p.new_sub_themes, cumulative: p.cumulative })),
     notYetCoded: stats.template_growth.not_yet_coded.length,
-    unclaimed: { share: stats.unclaimed.share, passages: stats.unclaimed.passages, unclaimed: stats.unclaimed.unclaimed, clusters: currentClusters(db) },
+    unclaimed: { share: stats.unclaimed.share, passages: stats.unclaimed.passages, unclaimed: stats.unclaimed.unclaimed, clusters: currentClusters(db, passages) },
     agreement:
       agree && agree.pairablePassages
         ? {
@@ -131,7 +121,18 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
             rows: [
               ...agree.themes
                 .filter((t) => t.present > 0)
-                .map((t) => ({ theme: paths.get(t.themeId) ?? t.themeId, units: t.units, percentAgreement: t.percentAgreement, kappa: t.kappa.value, alpha: t.alpha.value, kappaBand: t.kappa.band, alphaGuidance: t.alpha.guidance })),
+                .map((t) => ({
+                  theme: paths.get(t.themeId) ?? t.themeId,
+                  units: t.units,
+                  percentAgreement: t.percentAgreement,
+                  kappa: t.kappa.value,
+                  alpha: t.alpha.value,
+                  kappaBand: t.kappa.band,
+                  alphaGuidance: t.alpha.guidance,
+                  fleiss: t.fleiss.value,
+                  fleissUnits: t.fleiss.units,
+                  fleissBand: t.fleiss.band,
+                })),
               {
                 theme: 'all themes, pooled',
                 units: agree.pooled.units,
@@ -140,8 +141,21 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
                 alpha: agree.pooled.alpha.value,
                 kappaBand: agree.pooled.kappa.band,
                 alphaGuidance: agree.pooled.alpha.guidance,
+                fleiss: agree.pooled.fleiss.value,
+                fleissUnits: agree.pooled.fleiss.units,
+                fleissBand: agree.pooled.fleiss.band,
               },
             ],
+            pairwise: agree.pairwise.map((p) => ({
+              coders: p.coders,
+              passages: p.passages,
+              percentAgreement: p.percent_agreement,
+              kappa: p.kappa.value,
+              kappaBand: p.kappa.band,
+              alpha: p.alpha.value,
+              meanKappa: p.mean_kappa,
+              themesInMeanKappa: p.themes_in_mean_kappa,
+            })),
             disagreements: agree.disagreements.length,
             bandsSource: agree.bandsSource,
             guidanceSource: agree.guidance_source,
@@ -150,6 +164,10 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
           }
         : null,
     cautions: opts.cautions(codings.filter((c) => c.origin === 'bulk').length),
+    quoteChoices: (() => {
+      const all = listQuoteChoices(db);
+      return { pinned: all.filter((c) => c.choice === 'pin').length, dropped: all.filter((c) => c.choice === 'drop').length };
+    })(),
     memos,
     integrative: integrativeCoverage(template, codings.map((c) => ({ passageId: c.passage_id, themeId: c.theme_id }))).map((x) => ({
       themeId: x.theme_id,
@@ -162,40 +180,50 @@ export function reportData(db: DB, opts: ReportOptions): ReportData {
 }
 
 /**
- * The coded passages nearest each theme's centre (TF-IDF centroid of its own codings, or of its
- * sub-themes' when it has none): the quotes that best show what the theme holds.
+ * Each theme's quotes (src/report/quotes.ts states the rules): candidates are the passages coded
+ * to the theme or a sub-theme, ranked by closeness (cosine) to the TF-IDF centroid of the theme's
+ * own codings, or of its sub-themes' when it has none; the researcher's pins and drops apply.
  */
-function representativeQuotes(
-  db: DB,
-  themeIds: string[],
-  direct: Map<string, Set<string>>,
-  rolled: Map<string, Set<string>>,
-  n: number,
-): Map<string, string[]> {
-  const out = new Map<string, string[]>();
-  if (!themeIds.some((id) => rolled.get(id)?.size)) return out;
+export function chosenQuotes(db: DB, n: number): Map<string, ChosenQuote[]> {
+  const entries = [...walk(currentTemplate(db))];
+  const codings = currentCodings(db);
+  const direct = new Map<string, Set<string>>();
+  for (const c of codings) {
+    let s = direct.get(c.theme_id);
+    if (!s) direct.set(c.theme_id, (s = new Set()));
+    s.add(c.passage_id);
+  }
+  const rolled = new Map<string, Set<string>>();
+  for (const e of [...entries].reverse()) {
+    const s = new Set(direct.get(e.node.id) ?? []);
+    for (const ch of e.node.children) for (const p of rolled.get(ch.id) ?? []) s.add(p);
+    rolled.set(e.node.id, s);
+  }
+  if (!entries.some((e) => rolled.get(e.node.id)?.size)) return new Map();
   const { passages } = modelInputs(db);
   const vec = new TfidfVectorizer();
   const vectors = vec.fitTransform(passages.map((p) => p.terms));
   const byId = new Map(passages.map((p, i) => [p.id, vectors[i]!]));
-  for (const id of themeIds) {
-    const own = [...(direct.get(id)?.size ? direct.get(id)! : (rolled.get(id) ?? []))].filter((p) => byId.has(p)).sort();
-    if (!own.length) continue;
-    const centre = normalised(sum(own.map((p) => byId.get(p)!)));
-    out.set(
-      id,
-      own
-        .map((p) => ({ p, s: cosine(byId.get(p)!, centre) }))
-        .sort((a, b) => b.s - a.s || (a.p < b.p ? -1 : 1))
-        .slice(0, n)
-        .map((x) => x.p),
-    );
-  }
-  return out;
+  const info = new Map(listPassages(db).map((p) => [p.id, p]));
+  const themes: QuoteTheme[] = entries.map((e) => {
+    const own = direct.get(e.node.id) ?? new Set<string>();
+    const all = [...(rolled.get(e.node.id) ?? [])].filter((p) => byId.has(p)).sort();
+    const basis = own.size ? all.filter((p) => own.has(p)) : all;
+    const centre = basis.length ? normalised(sum(basis.map((p) => byId.get(p)!))) : null;
+    return {
+      id: e.node.id,
+      depth: e.depth,
+      candidates: all.map((p) => {
+        const at = info.get(p);
+        return { passageId: p, participant: `${at?.transcript ?? ''}\u0000${at?.speaker ?? ''}`, score: centre ? cosine(byId.get(p)!, centre) : 0, direct: own.has(p) };
+      }),
+    };
+  });
+  return chooseQuotes(themes, listQuoteChoices(db), n);
 }
 
 /** The clusters of the latest discovery run, if there has been one, named by their top terms. */
-function currentClusters(db: DB): ReportCluster[] {
+function currentClusters(db: DB, passages: Map<string, StoredPassage>): ReportCluster[] {
   return latestClusters(db).map((c) => ({
     id: c.cluster_id,
     label: c.label,
@@ -204,6 +232,10 @@ function currentClusters(db: DB): ReportCluster[] {
     status: c.status,
     terms: c.detail.terms.map((t) => t.term),
     transcripts: c.detail.transcripts.length,
-    examples: c.detail.central.map((x) => x.text),
+    // Each example credited like every other quote: transcript, speaker and time.
+    examples: c.detail.central.map((x) => {
+      const p = passages.get(x.passage_id);
+      return { passageId: x.passage_id, transcript: p?.transcript ?? x.transcript, speaker: p?.speaker ?? null, time: clock(p?.start ?? null), text: x.text };
+    }),
   }));
 }

@@ -9,7 +9,7 @@ import type { Change, Diagnostic, Revised, Template } from '../template/types.js
 import { themeCounts } from './status.js';
 import { TEMPLATE_FILE, type DB } from './db.js';
 import { writeFileAtomic } from './files.js';
-import { currentRevision, recordRevision, retiredPaths, themeIdAllocator } from './template.js';
+import { currentRevision, fileNameOnly, recordRevision, retiredPaths, themeIdAllocator } from './template.js';
 
 export interface RevisionResult {
   /** The new revision, or null when nothing changed. */
@@ -54,7 +54,7 @@ export function setTemplate(db: DB, studyDir: string, text: string, file: string
       writeFileAtomic(join(studyDir, TEMPLATE_FILE), text);
       return { rev: null, changes, warnings, template };
     }
-    const rev = recordRevision(db, { template, changes, outline: text, action: `set ${file}`, author, reason });
+    const rev = recordRevision(db, { template, changes, outline: text, action: `set ${fileNameOnly(file)}`, author, reason });
     // Written last inside the transaction: if the file cannot be written, the revision rolls back,
     // and the atomic write leaves the old template.txt whole.
     writeFileAtomic(join(studyDir, TEMPLATE_FILE), text);

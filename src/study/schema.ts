@@ -227,7 +227,31 @@ export const MIGRATIONS: string[] = [
   ALTER TABLE clusters ADD COLUMN key TEXT;
   CREATE INDEX clusters_key ON clusters (key);
   `,
-  // 8: codings that "add --replace" could not place in the edited transcript, kept (not dropped)
+  // 8: the researcher's choice of quotes: a passage pinned to a theme's quotes, or dropped from
+  // them (trellis quote pin|drop). One choice per theme and passage; the report and codebook honour it.
+  `
+  CREATE TABLE quote_choices (
+    id          INTEGER PRIMARY KEY,
+    theme_id    TEXT NOT NULL,
+    passage_id  TEXT NOT NULL,
+    choice      TEXT NOT NULL CHECK (choice IN ('pin', 'drop')),
+    at          TEXT NOT NULL,
+    coder       TEXT NOT NULL,
+    UNIQUE (theme_id, passage_id)
+  );
+  `,
+  // 9: pseudonyms: an alias for a speaker label or a transcript name, used by --pseudonymise.
+  `
+  CREATE TABLE aliases (
+    kind   TEXT NOT NULL CHECK (kind IN ('speaker', 'transcript')),
+    name   TEXT NOT NULL,   -- the speaker label or transcript name as stored
+    alias  TEXT NOT NULL,
+    at     TEXT NOT NULL,
+    PRIMARY KEY (kind, name)
+  );
+  CREATE UNIQUE INDEX aliases_alias ON aliases (kind, alias);
+  `,
+  // 10: codings that "add --replace" could not place in the edited transcript, kept (not dropped)
   // with what they were, so the team can re-code them.
   `
   CREATE TABLE unplaced_codings (

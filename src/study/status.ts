@@ -28,6 +28,8 @@ export interface StudyStatus {
   perTheme: ThemeCount[];
   perCoder: { coder: string; codings: number; passages: number }[];
   perTranscript: { name: string; passages: number; participant: number; coded: number }[];
+  /** Transcripts with at least one current coding (perTranscript rows with coded > 0). */
+  coded_transcripts: number;
 }
 
 export function studyStatus(db: DB): StudyStatus {
@@ -41,6 +43,14 @@ export function studyStatus(db: DB): StudyStatus {
     `SELECT COUNT(DISTINCT c.passage_id) AS n FROM codings c JOIN passages p ON p.id = c.passage_id
      WHERE c.removed_at IS NULL AND p.role = 'participant'`,
   ).n;
+  const perTranscript = db
+    .prepare(
+      `SELECT t.name, COUNT(p.id) AS passages, SUM(p.role = 'participant') AS participant,
+         (SELECT COUNT(DISTINCT c.passage_id) FROM codings c JOIN passages q ON q.id = c.passage_id
+           WHERE q.transcript_id = t.id AND c.removed_at IS NULL) AS coded
+       FROM transcripts t LEFT JOIN passages p ON p.transcript_id = t.id GROUP BY t.id ORDER BY t.id`,
+    )
+    .all() as StudyStatus['perTranscript'];
   return {
     transcripts: one<{ n: number }>('SELECT COUNT(*) AS n FROM transcripts').n,
     passages: { total: p.total, participant, interviewer: p.total - participant },
@@ -55,14 +65,8 @@ export function studyStatus(db: DB): StudyStatus {
          WHERE removed_at IS NULL GROUP BY coder ORDER BY coder`,
       )
       .all() as StudyStatus['perCoder'],
-    perTranscript: db
-      .prepare(
-        `SELECT t.name, COUNT(p.id) AS passages, SUM(p.role = 'participant') AS participant,
-           (SELECT COUNT(DISTINCT c.passage_id) FROM codings c JOIN passages q ON q.id = c.passage_id
-             WHERE q.transcript_id = t.id AND c.removed_at IS NULL) AS coded
-         FROM transcripts t LEFT JOIN passages p ON p.transcript_id = t.id GROUP BY t.id ORDER BY t.id`,
-      )
-      .all() as StudyStatus['perTranscript'],
+    perTranscript,
+    coded_transcripts: perTranscript.filter((t) => t.coded > 0).length,
   };
 }
 

@@ -40,7 +40,21 @@ function decodeTree(text: string): Template {
 }
 
 function toRevision(r: RevisionRow): Revision {
-  return { ...r, template: decodeTree(r.tree), changes: JSON.parse(r.changes) as Change[] };
+  return { ...r, action: shownAction(r.action), template: decodeTree(r.tree), changes: JSON.parse(r.changes) as Change[] };
+}
+
+/**
+ * The file's name only, never the folders it sat in: a path shows the researcher's folders (and
+ * often their name) to anyone who reads the history or the report. Revisions recorded before the
+ * name alone was kept are shown the same way.
+ */
+export function fileNameOnly(file: string): string {
+  const parts = file.split(/[\\/]+/).filter(Boolean);
+  return parts.length ? parts[parts.length - 1]! : file;
+}
+
+function shownAction(action: string): string {
+  return action.startsWith('set ') ? `set ${fileNameOnly(action.slice(4))}` : action;
 }
 
 /** The current revision, or null before the first `template set`. */

@@ -15,7 +15,7 @@ function hostile(): ReportData {
   d.themes[1]!.quotes[0]!.speaker = '<i>Nell</i>';
   d.revisions[0]!.reason = HOSTILE;
   d.revisions[0]!.changes[0] = HOSTILE;
-  d.unclaimed.clusters[0]!.examples[0] = HOSTILE;
+  d.unclaimed.clusters[0]!.examples[0]!.text = HOSTILE;
   d.unclaimed.clusters[0]!.terms[0] = '<script>';
   d.heatmap.transcripts[0] = 't01 <script>x</script>';
   d.cautions.push(HOSTILE);

@@ -301,6 +301,7 @@ export function sampleReport(): ReportData {
   let cum = 0;
   const growth = TRANSCRIPTS.map((t, i) => ({ transcript: t, order: i + 1, newThemes: newThemes[i]!, newSubThemes: newSubs[i]!, cumulative: (cum += newThemes[i]! + newSubs[i]!) }));
 
+  const clusterQuote = (text: string, i: number) => ({ passageId: `${TRANSCRIPTS[i % TRANSCRIPTS.length]}#${10 + i}`, transcript: TRANSCRIPTS[i % TRANSCRIPTS.length]!, speaker: `P${String(i).padStart(2, '0')}`, time: `0:0${i % 10}:15`, text });
   const clusters: ReportCluster[] = [
     {
       id: 'c4e1d2',
@@ -310,10 +311,7 @@ export function sampleReport(): ReportData {
       transcripts: 6,
       cohesion: 0.38,
       status: 'open',
-      examples: [
-        'Half the handover is who\'s waiting for TTOs from pharmacy, and there\'s nowhere on the screen for it.',
-        'Discharge lounge rings at ten asking who\'s coming down, and we\'re still doing handover.',
-      ],
+      examples: [clusterQuote('Half the handover is who\'s waiting for TTOs from pharmacy, and there\'s nowhere on the screen for it.', 1), clusterQuote('Discharge lounge rings at ten asking who\'s coming down, and we\'re still doing handover.', 2)],
     },
     {
       id: 'c5a0b9',
@@ -323,7 +321,7 @@ export function sampleReport(): ReportData {
       transcripts: 4,
       cohesion: 0.29,
       status: 'open',
-      examples: ['The daughter rings every morning at eight. Who spoke to her last night? It\'s not on there.'],
+      examples: [clusterQuote('The daughter rings every morning at eight. Who spoke to her last night? It\'s not on there.', 3)],
     },
     {
       id: 'c2f7c3',
@@ -333,7 +331,7 @@ export function sampleReport(): ReportData {
       transcripts: 7,
       cohesion: 0.44,
       status: 'promoted',
-      examples: ['We print the list at the start and scribble on it all day.'],
+      examples: [clusterQuote('We print the list at the start and scribble on it all day.', 4)],
     },
     {
       id: 'c3d8e6',
@@ -343,7 +341,7 @@ export function sampleReport(): ReportData {
       transcripts: 3,
       cohesion: 0.51,
       status: 'dismissed',
-      examples: ['Honestly the biggest problem on this site is the car park.'],
+      examples: [clusterQuote('Honestly the biggest problem on this site is the car park.', 5)],
     },
   ];
   const unclaimedCount = 96;

@@ -44,6 +44,23 @@ describe('study.db', () => {
     db.close();
   });
 
+  it('upgrades a schema-7 study to hold quote choices and aliases, its data kept', () => {
+    const dir = tmp();
+    const raw = new Database(join(dir, 'study.db'));
+    for (const m of MIGRATIONS.slice(0, 7)) raw.exec(m);
+    raw.pragma('user_version = 7');
+    raw.exec("INSERT INTO transcripts VALUES (1, 't1', 't1.txt', 'text', 'h', 's', 0, '2026-01-01');");
+    raw.close();
+    const db = openStudy(dir);
+    expect(db.pragma('user_version', { simple: true })).toBeGreaterThanOrEqual(9);
+    expect(db.prepare('SELECT name FROM transcripts').all()).toEqual([{ name: 't1' }]);
+    db.prepare("INSERT INTO aliases VALUES ('transcript', 't1', 'T01', '2026-01-02')").run();
+    expect(() => db.prepare("INSERT INTO aliases VALUES ('speaker', 'Bo', 'T01', 'x'), ('speaker', 'Al', 'T01', 'x')").run()).toThrow(/UNIQUE/);
+    db.prepare("INSERT INTO quote_choices (theme_id, passage_id, choice, at, coder) VALUES ('T1', 't1#1', 'pin', 'x', 'ana')").run();
+    expect(() => db.prepare("INSERT INTO quote_choices (theme_id, passage_id, choice, at, coder) VALUES ('T1', 't1#2', 'star', 'x', 'ana')").run()).toThrow(/CHECK/);
+    db.close();
+  });
+
   it('upgrades a schema-4 study: decisions kept, codings still pointing at them, "nothing to code" allowed, log still append-only', () => {
     const dir = tmp();
     const raw = new Database(join(dir, 'study.db'));
