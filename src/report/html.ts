@@ -194,6 +194,15 @@ function acceptance(d: ReportData): string {
         'Deferred suggestions are left out until they are decided. Acceptance shows how often suggestions were accepted; it does not measure whether a coding is correct.',
     )}</p>`,
   );
+  if (a.bulkAccepted && a.oneByOne) {
+    // Bulk acceptances are accepted by construction: the figure of suggestions read one by one is shown apart.
+    parts.push(
+      `<p>${esc(
+        `Of these, ${plural(a.bulkAccepted, 'suggestion')} ${a.bulkAccepted === 1 ? 'was' : 'were'} accepted in bulk (decide --all-above), without a researcher reading each passage. ` +
+          `Decided one by one: ${int(a.oneByOne.accepted)} of ${int(a.oneByOne.decided)} accepted (${pct(a.oneByOne.rate)}).`,
+      )}</p>`,
+    );
+  }
   const bars = acceptanceChart(d);
   const undecided = a.perTheme.filter((r) => r.decided === 0).length;
   parts.push(

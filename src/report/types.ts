@@ -132,7 +132,9 @@ export interface ReportData {
   /** `themes` are theme paths, as in `themes[].path`. */
   heatmap: { transcripts: string[]; themes: string[]; counts: number[][] };
   acceptance: { overall: AcceptanceRow; perTheme: AcceptanceRow[]; /** Cumulative acceptance rate after each decided suggestion. */
-    overTime: { index: number; at: string; rate: number }[]; calibration: CalibrationRow[] };
+    overTime: { index: number; at: string; rate: number }[]; calibration: CalibrationRow[];
+    /** Suggestions decided one by one, and those accepted in bulk (decide --all-above), counted apart. */
+    oneByOne?: AcceptanceRow; bulkAccepted?: number };
   /** Template growth: themes first coded or added in each transcript, in coding order. */
   growth: { transcript: string; order: number; newThemes: number; newSubThemes: number; cumulative: number }[];
   /** Themes of the template no passage carries yet (not on the growth curve). */

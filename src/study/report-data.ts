@@ -109,6 +109,8 @@ function gather(db: DB, opts: ReportOptions): ReportData {
       perTheme: a.perTheme.map((g) => ({ label: paths.get(g.key) ?? `${g.key} (retired)`, decided: g.decided, accepted: g.accepted, rate: g.rate })),
       overTime: a.cumulative.map((c) => ({ index: c.index, at: c.at, rate: c.rate })),
       calibration: a.calibration.map((b) => ({ band: b.band, lower: b.lower, upper: b.upper, count: b.count, meanConfidence: b.meanConfidence, acceptance: b.rate })),
+      oneByOne: { label: 'decided one by one', ...stats.one_by_one },
+      bulkAccepted: stats.bulk.accepted,
     },
     growth: stats.template_growth.curve.map((p) => ({ transcript: p.transcript, order: p.order, newThemes: p.new_themes, newSubThemes: p.new_sub_themes, cumulative: p.cumulative })),
     notYetCoded: stats.template_growth.not_yet_coded.length,

@@ -106,5 +106,6 @@ describe('decide, undo and the decision log', () => {
     const html = readFileSync(join(dir, 'bulk.html'), 'utf8');
     expect(html).toContain(`${expected} of the codings shown here were accepted in bulk`);
     expect(html).not.toContain('every coding shown here was made or confirmed by a researcher');
+    expect(html).toContain(`Decided one by one: ${stats.one_by_one.accepted} of ${stats.one_by_one.decided} accepted`);
   });
 });
