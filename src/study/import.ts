@@ -137,7 +137,11 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
     // Suggestions made for the old text no longer apply.
     const dropSuggestions = db.prepare('DELETE FROM suggestions WHERE passage_id IN (SELECT id FROM passages WHERE transcript_id = ?)');
     for (const { t, file, hash, replaces } of todo) {
-      const from = firstTurn.get(t)!; // every transcript to write was analysed: the plan can only shrink
+      const from = firstTurn.get(t);
+      if (from === undefined) {
+        // Another command changed this transcript while the text was being analysed.
+        throw new UserError(`"${t.name}" changed in the study while this import was analysing it; nothing was imported: run the same add again`, file);
+      }
       const passages = segment(t, analyses.slice(from, from + t.turns.length), { window, roleOf: (s) => roleOf(s, interviewers) });
       let kept: KeptCoding[] = [];
       if (replaces !== null) {
