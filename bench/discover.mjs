@@ -71,7 +71,7 @@ for (const seed of seeds) {
     writeFileSync(jsonl, pool.map((id) => JSON.stringify({ id, text: text.get(id) ?? '', split: 'test', label: label(id) })).join('\n') + '\n');
     const p = pool.length > found.k && found.k > 1 ? peer('cluster', jsonl, String(found.k)) : { ari: NaN, seconds: NaN };
     const first = found.clusters[0];
-    rows.push({ seed, leave, ...d, k: found.k, pool: found.unclaimed.length, discoverSeconds: ourSeconds, sklearnAri: p.ari, sklearnSeconds: p.seconds, first: first ? `${first.terms.slice(0, 4).join(', ')} (close to ${first.nearest_theme}, novelty ${first.novelty.toFixed(2)})` : '' });
+    rows.push({ seed, leave, ...d, k: found.k, pool: found.unclaimed.length, discoverSeconds: ourSeconds, sklearnAri: p.ari, sklearnSeconds: p.seconds, first: first ? `${first.terms.slice(0, 4).join(', ')} (close to ${first.nearest_theme}, novelty ${first.novelty?.toFixed(2) ?? "-"})` : '' });
     const x = rows.at(-1);
     console.log(
       `seed ${seed}  ${leave.padEnd(16)} pool ${String(x.pool).padStart(5)}  recall ${x.pool_recall.toFixed(2)}  false ${x.pool_false.toFixed(2)}  best F1 ${x.best_cluster_f1.toFixed(2)}  purity ${x.best_cluster_purity.toFixed(2)}  k ${x.k}  discover ${x.discoverSeconds.toFixed(1)} s, sklearn KMeans ${x.sklearnSeconds.toFixed(2)} s (ARI ${x.sklearnAri.toFixed(2)})  first: ${x.first}`,
