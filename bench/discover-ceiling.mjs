@@ -1,4 +1,4 @@
-// bench:discover-ceiling — the best-cluster F1 that k-means can reach on the bench:discover
+// bench:discover-ceiling — the best-cluster F1 that k-means can reach on the bench:discover-brown
 // protocol when the unclaimed pool is ideal: a random 60% of the left-out category's test
 // passages and 30% of all others (the issue's pool targets; A and B override), for every
 // category in turn, clustered by scikit-learn (bench/discover_ceiling.py). It bounds what any
@@ -13,7 +13,7 @@ const SEED = Number(process.env.SEED ?? 1);
 const A = process.env.A ?? '0.6';
 const B = process.env.B ?? '0.3';
 const LEFT_OUT = (process.env.LEFT_OUT ?? LEAVES.join(',')).split(',');
-const batch = seededBatch(0.25, SEED); // bench:discover's coded batch
+const batch = seededBatch(0.25, SEED); // bench:discover-brown's coded batch
 const file = join(import.meta.dirname, 'out', `ceiling-passages-${SEED}.json`);
 writeFileSync(file, JSON.stringify((await labPassages()).map((p) => ({ transcript: p.transcript, label: p.label, coded: batch.has(p.transcript), terms: p.terms }))));
 

@@ -1,66 +1,85 @@
-// bench:discover — does discovery find what the template misses? The Brown protocol of
-// bench:quality with one category left out of the template (and uncoded): how much of that
-// category lands in the unclaimed pool, how much of everything else does, and how well the best
-// cluster matches it; beside scikit-learn's KMeans on the same pool, in the same run.
-// A benchmark, not a test: the machine is shared and noisy.
+// bench:discover — does discovery find what the template misses, on job-shaped data? The survey
+// protocol of ../shared/bench/fewshot.py (built once per seed into bench/out/fewshot/survey-SEED),
+// run with --leave-out THEME: the theme and its sub-themes leave the template and the coding. For
+// each theme left out and seed: pool recall (share of the left-out theme's test passages in the
+// unclaimed pool), pool false share (share of every other test passage in it), the best cluster's
+// F1 and purity (as fewshot.py scores them), beside scikit-learn's KMeans (vectorise + fit at the
+// same k) on the same pool: its ARI and time against the left-out / top-level-theme labels.
+//
+//   node bench/discover.mjs [--seeds 1,2,3] [--leave-out "Game,Sound,Security,Field > Biology"] [--trellis LAUNCHER]
+//
+// A benchmark, not a test: the machine is shared and noisy; run one benchmark at a time.
+import { execFileSync, spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
 import { parse } from 'csv-parse/sync';
-import { stringify } from 'csv-stringify/sync';
-import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { brownCategories, brownTemplate, leafPath, LEAVES, seededBatch, wordCount, writeBrownTexts } from './brown.mjs';
-import { peer, trellis } from './cli.mjs';
-import { adjustedRandIndex } from '../dist/measure/partitions.js';
+import { peer } from './cli.mjs';
 
-const SEED = Number(process.env.SEED ?? 1);
-const LEFT_OUT = (process.env.LEFT_OUT ?? 'religion,science_fiction,humor').split(',');
-const files = writeBrownTexts(join(import.meta.dirname, 'out', 'brown-txt'));
-const cats = brownCategories();
-const batch = seededBatch(0.25, SEED);
+const root = resolve(import.meta.dirname, '..');
+const args = process.argv.slice(2);
+const opt = (name, dflt) => {
+  const i = args.indexOf(name);
+  return i >= 0 ? args[i + 1] : dflt;
+};
+const seeds = opt('--seeds', '1,2,3').split(',').map(Number);
+const leaves = opt('--leave-out', 'Game,Sound,Security,Field > Biology').split(',').map((s) => s.trim());
+const script = resolve(process.env.FEWSHOT ?? join(root, '..', 'shared', 'bench', 'fewshot.py'));
+const launcher = resolve(opt('--trellis', join(root, 'bin', 'trellis')));
+const python = existsSync('/usr/bin/python3') ? '/usr/bin/python3' : 'python3';
+const out = join(root, 'bench', 'out', 'fewshot');
+mkdirSync(out, { recursive: true });
 
-for (const left of LEFT_OUT) {
-  const out = join(import.meta.dirname, 'out', `discover-${left}`);
-  rmSync(out, { recursive: true, force: true });
-  mkdirSync(out, { recursive: true });
-  const study = join(out, 'study');
-  trellis(['init', study, '--window', '100000']);
-  writeFileSync(join(out, 'template.txt'), brownTemplate(LEAVES.filter((c) => c !== left)));
-  trellis(['template', 'set', '--study', study, join(out, 'template.txt')]);
-  trellis(['add', '--study', study, ...files]);
-  trellis(['sheet', 'export', '--study', study, '--out', join(out, 'sheet.csv'), '--force']);
-  const rows = parse(readFileSync(join(out, 'sheet.csv'), 'utf8'), { bom: true, columns: true });
-  const isPassage = (r) => wordCount(r.text) >= 20;
-  for (const r of rows) r.themes = batch.has(r.transcript) && isPassage(r) && cats.get(r.transcript) !== left ? leafPath(cats.get(r.transcript)) : '';
-  writeFileSync(join(out, 'coded.csv'), '\ufeff' + stringify(rows, { header: true }));
-  trellis(['sheet', 'import', '--study', study, join(out, 'coded.csv'), '--coder', 'bench']);
-
-  const run = trellis(['discover', '--study', study, '--json'], { out: join(out, 'discover.json') });
-  const found = JSON.parse(run.stdout);
-  const pool = new Set(found.unclaimed);
-  const test = rows.filter((r) => !batch.has(r.transcript) && isPassage(r));
-  const target = test.filter((r) => cats.get(r.transcript) === left);
-  const others = test.filter((r) => cats.get(r.transcript) !== left);
-  const share = (rs) => rs.filter((r) => pool.has(r.passage_id)).length / rs.length;
-  const targetIds = new Set(target.map((r) => r.passage_id));
-  let best = { f1: 0, precision: 0, recall: 0, size: 0, terms: [] };
-  for (const c of found.clusters) {
-    const hit = c.passage_ids.filter((p) => targetIds.has(p)).length;
-    const precision = hit / c.size;
-    const recall = hit / target.length;
-    const f1 = precision + recall ? (2 * precision * recall) / (precision + recall) : 0;
-    if (f1 > best.f1) best = { f1, precision, recall, size: c.size, terms: c.terms.slice(0, 8) };
-  }
-  // Our partition of the pool against the corpus labels, and scikit-learn's KMeans on the same pool.
-  const byId = new Map(rows.map((r) => [r.passage_id, r]));
-  const clusterOf = new Map(found.clusters.flatMap((c) => c.passage_ids.map((p) => [p, c.cluster_id])));
-  const poolRows = [...pool].map((id) => byId.get(id)).filter((r) => r && clusterOf.has(r.passage_id));
-  const ours = adjustedRandIndex(poolRows.map((r) => cats.get(r.transcript)), poolRows.map((r) => clusterOf.get(r.passage_id)));
-  const jsonl = join(out, 'pool.jsonl');
-  writeFileSync(jsonl, poolRows.map((r) => JSON.stringify({ id: r.passage_id, text: r.text, split: 'test', label: cats.get(r.transcript) })).join('\n') + '\n');
-  const p = peer('cluster', jsonl, String(found.k));
-  console.log(`\nleft out: ${left} (${target.length} test passages; ${others.length} others)`);
-  console.log(`  in the unclaimed pool: ${(100 * share(target)).toFixed(1)}% of ${left} (target >= 60%), ${(100 * share(others)).toFixed(1)}% of the rest (target <= 30%); pool ${pool.size} passages`);
-  console.log(`  best-matching cluster: F1 ${best.f1.toFixed(3)} (target >= 0.5), precision ${best.precision.toFixed(3)}, recall ${best.recall.toFixed(3)}, size ${best.size}; terms: ${best.terms.join(', ')}`);
-  console.log(`  mean silhouette by k: ${found.silhouette.map((x) => `${x.k}:${x.score.toFixed(4)}`).join(' ')}`);
-  console.log(`  k = ${found.k}; ARI against the corpus labels: trellis ${ours.toFixed(3)}, scikit-learn KMeans ${p.ari.toFixed(3)} (NMI ${p.nmi.toFixed(3)})`);
-  console.log(`  time: trellis discover ${run.seconds.toFixed(2)} s (fit, score, pool, k sweep, clusters); scikit-learn vectorise + KMeans at the same k ${p.seconds.toFixed(2)} s; peak memory ${run.maxRssMiB.toFixed(0)} MiB`);
+function build(seed) {
+  const dir = join(out, `survey-${seed}`);
+  if (!existsSync(join(dir, 'meta.json'))) execFileSync(python, [script, 'build', 'survey', dir, '--seed', String(seed)], { stdio: ['ignore', 'pipe', 'inherit'] });
+  return dir;
 }
+
+const under = (th, leave) => th === leave || th.startsWith(`${leave} > `);
+const rows = [];
+for (const seed of seeds) {
+  const dir = build(seed);
+  const truth = new Map(
+    readFileSync(join(dir, 'truth.jsonl'), 'utf8')
+      .trim()
+      .split('\n')
+      .map((l) => JSON.parse(l))
+      .map((r) => [`survey-${r.transcript}`, r.themes]),
+  );
+  for (const leave of leaves) {
+    const work = join(out, 'work', `discover-${seed}-${leave.replace(/[^A-Za-z]+/g, '_')}`);
+    rmSync(work, { recursive: true, force: true });
+    mkdirSync(work, { recursive: true });
+    const r = spawnSync(python, [script, 'run', dir, '--trellis', launcher, '--work', work, '--leave-out', leave], { encoding: 'utf8', maxBuffer: 1 << 28 });
+    const lines = (r.stdout ?? '').trim().split('\n');
+    if (r.status !== 0) {
+      console.error(`seed ${seed}, ${leave} failed:\n${lines.slice(-2).join('\n')}\n${(r.stderr ?? '').slice(-1500)}`);
+      continue;
+    }
+    const d = JSON.parse(lines.slice(0, -1).join('\n')).discover;
+    // The same pool again, for scikit-learn: discover is deterministic, so this is the pool scored.
+    const t0 = process.hrtime.bigint();
+    const found = JSON.parse(execFileSync(launcher, ['discover', '--study', join(work, 'study'), '--json'], { encoding: 'utf8', maxBuffer: 1 << 28 }));
+    const ourSeconds = Number(process.hrtime.bigint() - t0) / 1e9;
+    const text = new Map(parse(readFileSync(join(work, 'sheet.csv'), 'utf8'), { bom: true, columns: true }).map((x) => [x.passage_id, x.text]));
+    const label = (id) => {
+      const th = truth.get(id.replace(/#\d+$/, '')) ?? [];
+      return th.some((t) => under(t, leave)) ? 'left-out' : (th[0] ?? 'none').split(' > ')[0];
+    };
+    const pool = found.clusters.flatMap((c) => c.passage_ids);
+    const jsonl = join(work, 'pool.jsonl');
+    writeFileSync(jsonl, pool.map((id) => JSON.stringify({ id, text: text.get(id) ?? '', split: 'test', label: label(id) })).join('\n') + '\n');
+    const p = pool.length > found.k && found.k > 1 ? peer('cluster', jsonl, String(found.k)) : { ari: NaN, seconds: NaN };
+    const first = found.clusters[0];
+    rows.push({ seed, leave, ...d, k: found.k, pool: found.unclaimed.length, discoverSeconds: ourSeconds, sklearnAri: p.ari, sklearnSeconds: p.seconds, first: first ? `${first.terms.slice(0, 4).join(', ')} (close to ${first.nearest_theme}, novelty ${first.novelty?.toFixed(2) ?? "-"})` : '' });
+    const x = rows.at(-1);
+    console.log(
+      `seed ${seed}  ${leave.padEnd(16)} pool ${String(x.pool).padStart(5)}  recall ${x.pool_recall.toFixed(2)}  false ${x.pool_false.toFixed(2)}  best F1 ${x.best_cluster_f1.toFixed(2)}  purity ${x.best_cluster_purity.toFixed(2)}  k ${x.k}  discover ${x.discoverSeconds.toFixed(1)} s, sklearn KMeans ${x.sklearnSeconds.toFixed(2)} s (ARI ${x.sklearnAri.toFixed(2)})  first: ${x.first}`,
+    );
+  }
+}
+const mean = (f) => rows.reduce((s, r) => s + f(r), 0) / Math.max(rows.length, 1);
+console.log(
+  `\nmean over ${rows.length} runs (seeds ${seeds.join(',')}; ${leaves.join(' | ')}): pool recall ${mean((r) => r.pool_recall).toFixed(2)} (target >= 0.6), pool false share ${mean((r) => r.pool_false).toFixed(2)} (<= 0.3), best-cluster F1 ${mean((r) => r.best_cluster_f1).toFixed(2)} (>= 0.6) with purity ${mean((r) => r.best_cluster_purity).toFixed(2)} (>= 0.8); discover ${mean((r) => r.discoverSeconds).toFixed(1)} s (fit, score, pool, k sweep, clusters) vs scikit-learn vectorise + KMeans at the same k ${mean((r) => r.sklearnSeconds).toFixed(2)} s`,
+);
+writeFileSync(join(out, 'discover-results.json'), JSON.stringify(rows, null, 2));

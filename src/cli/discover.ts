@@ -22,10 +22,12 @@ export function registerDiscover(program: Command): void {
       'after',
       `
 The unclaimed pool: participant passages with substance (at least 7 topic words, not small
-talk) that nobody has coded and no theme claims at its own level. trellis clusters them with
+talk) that nobody has coded and where the calibrated chance that no theme of the template
+applies (any theme, parents included) is high. trellis clusters them with
 k-means (k-means++ start, several seeded restarts) on TF-IDF vectors, choosing k by the mean
 silhouette, and describes each cluster by its distinctive terms (log-odds against the rest of
-the study) and the passages nearest its centre. A cluster is a hint, not a theme: read its
+the study) and the passages nearest its centre, with the existing theme it comes closest to;
+the most novel clusters come first. A cluster is a hint, not a theme: read its
 passages, then promote it into the template or dismiss it. See docs/discovery.md.
 
 Examples:
@@ -53,9 +55,16 @@ Examples:
               speakers: c.detail.speakers,
               cohesion: c.cohesion,
               dismissed_before: c.detail.dismissed_before,
+              nearest_theme: c.detail.nearest_theme?.path ?? null,
+              nearest_theme_id: c.detail.nearest_theme?.theme_id ?? null,
+              closeness: c.detail.nearest_theme?.closeness ?? 0,
+              nearest_top_share: c.detail.nearest_theme?.top_share ?? 0,
+              novelty: c.detail.novelty ?? 1,
             })),
             unclaimed: pool.map((p) => p.id),
             nearest: Object.fromEntries(pool.map((p) => [p.id, p.nearest])),
+            none_fits: Object.fromEntries(pool.map((p) => [p.id, p.noneFits])),
+            none_fits_at: run.noneFitsAt,
             suppressed: run.result.suppressed,
           });
         }
@@ -69,6 +78,12 @@ Examples:
         for (const c of run.clusters) {
           say('');
           say(`Cluster ${c.cluster_id} (${c.label}): ${plural(c.size, 'passage')} from ${plural(c.detail.transcripts.length, 'transcript')}, cohesion ${c.cohesion.toFixed(2)}${c.detail.dismissed_before.length ? `; ${c.detail.dismissed_before.length} dismissed before` : ''}`);
+          const nt = c.detail.nearest_theme;
+          say(
+            nt
+              ? `  close to ${nt.path} (mean confidence ${nt.closeness.toFixed(2)}; best theme of ${pct(nt.top_share)} of its passages); novelty ${(c.detail.novelty ?? 1).toFixed(2)}`
+              : `  close to no theme; novelty ${(c.detail.novelty ?? 1).toFixed(2)}`,
+          );
           say(`  terms: ${c.detail.terms.slice(0, 10).map((t) => t.term).join(', ')}`);
           say(`  transcripts: ${c.detail.transcripts.join(', ')}`);
           for (const x of c.detail.central) say(wrap(`${x.passage_id}: "${clip(x.text, 220)}"`, 96, '    '));

@@ -35,6 +35,8 @@ export interface PoolEntry {
   nearest: NearestTheme | null;
   /** Themes above threshold that do not claim at this level (e.g. "Informative" with no leaf). */
   clearedParents: string[];
+  /** The chance that no theme of the template applies (pool.ts, noneFits). */
+  noneFits: number;
   /** Probability that the template lacks the passage's theme, when the novelty rule made the pool. */
   novelty?: number;
 }

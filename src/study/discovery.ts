@@ -1,10 +1,11 @@
 import { discover } from '../discover/discover.js';
-import { unclaimedPool, type PoolOptions } from '../discover/pool.js';
+import { NONE_FITS_AT, unclaimedPool, type PoolOptions } from '../discover/pool.js';
 import { triage, type TranscriptTriage } from '../discover/triage.js';
 import type { DiscoverOptions, DiscoverResult, Dismissal, PoolCandidate, PoolResult } from '../discover/types.js';
 import { UserError } from '../errors.js';
 import { addTheme } from '../template/ops.js';
 import { findByPath, walk } from '../template/paths.js';
+import { byNovelty, clusterNearness } from '../discover/nearest.js';
 import { CLUSTER_KEY, clusterKey, clusterLabel } from '../discover/key.js';
 import type { PassageSuggestions } from '../suggest/types.js';
 import type { DB } from './db.js';
@@ -21,6 +22,10 @@ export interface ClusterDetail {
   transcripts: string[];
   speakers: { name: string; passages: number }[];
   dismissed_before: string[];
+  /** The nearest existing theme (nearest.ts): its id and path when the run was made. */
+  nearest_theme?: { theme_id: string; path: string; closeness: number; top_share: number } | null;
+  /** Mean chance over the members that no theme applies. */
+  novelty?: number;
 }
 
 export interface StoredCluster {
@@ -42,6 +47,8 @@ export interface DiscoveryRun {
   result: DiscoverResult;
   pool: PoolResult;
   clusters: StoredCluster[];
+  /** The pool rule's cut: a passage is unclaimed when its chance that no theme applies reaches it. */
+  noneFitsAt: number;
 }
 
 interface Scored {
@@ -84,7 +91,10 @@ function dismissals(db: DB): Dismissal[] {
 export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
   const rev = currentRevision(db);
   if (!rev) throw new UserError('the study has no template yet: run "trellis template set FILE" first');
-  const scored = scoreStudy(db);
+  const noneFitsAt = NONE_FITS_AT;
+  const scored = scoreStudy(db, { noneFitsAt });
+  const n = scored.pool.pool.length;
+  if (opts.k !== undefined && n > 0 && opts.k > n) throw new UserError(`--k ${opts.k} is out of range: the unclaimed pool holds ${n} passage${n === 1 ? '' : 's'}, so k can be 1 to ${n}`);
   const result = discover(scored.pool.pool, scored.background, { ...opts, dismissals: dismissals(db) });
   return db.transaction(() => {
     const runId = Number(
@@ -96,7 +106,12 @@ export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
     const insC = db.prepare('INSERT INTO clusters (run_id, label, size, cohesion, detail, key) VALUES (?, ?, ?, ?, ?, ?)');
     const keys = new Set<string>();
     const insP = db.prepare('INSERT INTO cluster_passages (cluster_id, passage_id, similarity) VALUES (?, ?, ?)');
-    const clusters = result.clusters.map((c): StoredCluster => {
+    const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+    const near = {
+      candidates: new Map(scored.suggestions.map((s) => [s.passageId, s.candidates])),
+      noneFits: new Map(scored.pool.pool.map((p) => [p.id, p.noneFits])),
+    };
+    const clusters = byNovelty(result.clusters.map((c) => ({ c, ...clusterNearness(c.passageIds, near), size: c.size }))).map(({ c, themeId, closeness, topShare, novelty }): StoredCluster => {
       const detail: ClusterDetail = {
         terms: c.terms.map((t) => ({ term: t.term, weight: t.weight, z: t.z })),
         central: c.central.map((x) => {
@@ -106,6 +121,8 @@ export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
         transcripts: c.transcripts.names.map((n) => n.name),
         speakers: c.speakers,
         dismissed_before: c.dismissedBefore,
+        nearest_theme: themeId === null ? null : { theme_id: themeId, path: paths.get(themeId) ?? themeId, closeness, top_share: topShare },
+        novelty,
       };
       // Two clusters of one run never share members, so a clash of short keys is a hash collision.
       let key = clusterKey(c.passageIds);
@@ -116,7 +133,7 @@ export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
       for (const p of c.passageIds) insP.run(id, p, sim.get(p) ?? 0);
       return { row_id: id, cluster_id: key, label: clusterLabel(detail.terms.map((t) => t.term)), size: c.size, cohesion: c.cohesion, status: 'open', passage_ids: [...c.passageIds].sort(), detail };
     });
-    return { runId, result, pool: scored.pool, clusters };
+    return { runId, result, pool: scored.pool, clusters, noneFitsAt };
   })();
 }
 
@@ -255,7 +272,8 @@ export function latestClusters(db: DB): StoredCluster[] {
 
 /** `triage`: transcripts with passages left to code, ranked by how much of that part the template fails to claim. */
 export function triageStudy(db: DB, transcripts?: string[]): { rows: TranscriptTriage[]; clusters: StoredCluster[] } {
-  const scored = scoreStudy(db);
+  const noneFitsAt = NONE_FITS_AT;
+  const scored = scoreStudy(db, { noneFitsAt });
   const clusters = latestClusters(db).filter((c) => c.status === 'open');
   const done = new Set([...scored.codedPassages, ...nothingToCode(db)]);
   let rows = triage({

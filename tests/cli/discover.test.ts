@@ -52,6 +52,30 @@ describe('discover, promote, dismiss and triage', () => {
     expect(Math.max(...paper.map((c) => c.passage_ids.filter(later).length / c.size))).toBeGreaterThanOrEqual(0.75);
   });
 
+  it('names each cluster\'s nearest existing theme and how near, most novel cluster first', () => {
+    const paths = new Set(readFileSync(join(dir, 'template.txt'), 'utf8').split('\n').filter((l) => l.trim() && !l.trim().startsWith('#')).map((l) => l.trim().replace(/ \[a priori\]$/, '')));
+    const clusters = (found as unknown as { clusters: { nearest_theme: string | null; closeness: number; nearest_top_share: number; novelty: number }[] }).clusters;
+    expect(clusters.length).toBeGreaterThan(1);
+    for (const c of clusters) {
+      expect(c.nearest_theme).not.toBeNull();
+      // The path's last level is a theme line of the template.
+      expect(paths.has(c.nearest_theme!.split(' > ').pop()!)).toBe(true);
+      expect(c.closeness).toBeGreaterThan(0);
+      expect(c.closeness).toBeLessThan(1);
+      expect(c.nearest_top_share).toBeGreaterThan(0);
+      expect(c.nearest_top_share).toBeLessThanOrEqual(1);
+      // Unclaimed passages: none fits with a chance of at least one half.
+      expect(c.novelty).toBeGreaterThanOrEqual(0.5);
+    }
+    for (let i = 1; i < clusters.length; i++) expect(clusters[i]!.novelty).toBeLessThanOrEqual(clusters[i - 1]!.novelty);
+    const none = (found as unknown as { none_fits: Record<string, number>; none_fits_at: number });
+    expect(none.none_fits_at).toBe(0.5);
+    for (const id of found.unclaimed) expect(none.none_fits[id]).toBeGreaterThanOrEqual(0.5);
+    const text = trellis(['discover'], dir, { TRELLIS_CODER: 'priya' });
+    expect(text.status).toBe(0);
+    expect(text.stdout).toMatch(/close to [^\n]+ \(mean confidence 0\.\d\d; best theme of \d+% of its passages\); novelty 0\.\d\d/);
+  });
+
   it('is deterministic for the same study, and a cluster keeps its id while its members are the same', () => {
     const again: Found & { run_id: number } = json(dir, ['discover']);
     expect(again.run_id).toBeGreaterThan((found as Found & { run_id: number }).run_id);
@@ -75,6 +99,12 @@ describe('discover, promote, dismiss and triage', () => {
       [['promote', found.clusters[0]!.cluster_id, '--name', 'X', '--into', 'Workload'], /either --name .* or --into/],
       [['promote', found.clusters[0]!.cluster_id, '--into', 'No such theme'], /no theme "No such theme"/],
       [['dismiss', 'c000000', '--note', 'x'], /no cluster "c000000"/],
+      [['discover', '--k', '0'], /--k must be a whole number of at least 1 \(got "0"\)/],
+      [['discover', '--k', 'four'], /--k must be a whole number of at least 1/],
+      [['discover', '--k', '2.5'], /--k must be a whole number of at least 1/],
+      [['discover', '--k', String(found.unclaimed.length + 1)], new RegExp(`--k ${found.unclaimed.length + 1} is out of range: the unclaimed pool holds ${found.unclaimed.length} passages, so k can be 1 to ${found.unclaimed.length}`)],
+      [['discover', '--leave-out', 'Workload'], /unknown option '--leave-out'/],
+      [['discover', '--kk', '3'], /unknown option '--kk'/],
     ];
     for (const [args, message] of cases) {
       const r = trellis(args, dir, env);

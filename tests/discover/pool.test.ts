@@ -77,7 +77,7 @@ describe('the unclaimed pool', () => {
   const thresholds = { staff: 0.7, admin: 0.6, support: 0.5, work: 0.8 };
 
   it('leaves out passages judged "nothing to code", after the coded ones', () => {
-    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected, thresholds, nothingToCode: ['t1#5', 't1#2'] });
+    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected, thresholds, nothingToCode: ['t1#5', 't1#2'] }, { rule: 'threshold' });
     expect(r.pool.map((p) => p.id)).toEqual(['t1#4', 't1#8']);
     const why = Object.fromEntries(r.excluded.map((e) => [e.id, e.reason]));
     expect([why['t1#5'], why['t1#2']]).toEqual(['nothing-to-code', 'coded']);
@@ -85,7 +85,7 @@ describe('the unclaimed pool', () => {
   });
 
   it('keeps substantive, uncoded, unclaimed participant passages, with the theme that came nearest', () => {
-    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected, thresholds });
+    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected, thresholds }, { rule: 'threshold' });
     expect(r.pool.map((p) => p.id)).toEqual(['t1#4', 't1#5', 't1#8']);
     const [four, five, eight] = r.pool;
     expect(four!.nearest).toEqual({ themeId: 'admin', confidence: 0.55, threshold: 0.6 });
@@ -117,11 +117,11 @@ describe('the unclaimed pool', () => {
   });
 
   it("with claimAt 'any' a parent above threshold claims (the suggester's own flag)", () => {
-    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected }, { claimAt: 'any' });
+    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected }, { claimAt: 'any', rule: 'threshold' });
     expect(r.pool.map((p) => p.id)).toEqual(['t1#5', 't1#8']);
     expect(r.pool[0]!.nearest).toEqual({ themeId: 'support', confidence: 0.4 });
     // Without rejections the passage is the suggester's: claimed.
-    const plain = unclaimedPool({ passages, suggestions, themes: THEMES, codings }, { claimAt: 'any' });
+    const plain = unclaimedPool({ passages, suggestions, themes: THEMES, codings }, { claimAt: 'any', rule: 'threshold' });
     expect(plain.pool.map((p) => p.id)).toEqual(['t1#5']);
     const flags = new Map(suggestions.map((s) => [s.passageId, s.unclaimed]));
     for (const p of plain.pool) expect(flags.get(p.id)).toBe(true);
