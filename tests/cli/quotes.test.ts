@@ -1,7 +1,7 @@
-import { readdirSync, readFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { CORPUS, freshStudy, snapshot, trellis } from './run.js';
+import { codedDemoStudy, snapshot, trellis } from './run.js';
 
 const json = (dir: string, args: string[]) => {
   const r = trellis([...args, '--json'], dir);
@@ -30,11 +30,7 @@ function reportQuotes(html: string): Shown[] {
 describe('quotes in the report and codebook', () => {
   let dir: string;
   beforeAll(() => {
-    dir = freshStudy();
-    expect(trellis(['template', 'set', join(CORPUS, 'template.txt')], dir).status).toBe(0);
-    const files = readdirSync(CORPUS).filter((f) => /^t\d\d-.*\.(txt|md|vtt|docx)$/.test(f)).sort();
-    expect(trellis(['add', ...files.map((f) => join(CORPUS, f))], dir).status).toBe(0);
-    expect(trellis(['sheet', 'import', join(CORPUS, 'initial-coding.csv'), '--coder', 'priya'], dir).status).toBe(0);
+    dir = codedDemoStudy();
   }, 240_000);
 
   it('shows no passage twice, at most one quote per participant per theme, and says how they were chosen', () => {

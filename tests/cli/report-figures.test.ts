@@ -1,10 +1,10 @@
 // The report and the codebook count with the same queries as status and stats: every figure they
 // print is checked here against status --json and stats --json on the demo study.
-import { readdirSync, readFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { CORPUS, freshStudy, trellis } from './run.js';
+import { codedDemoStudy, trellis } from './run.js';
 
 const json = (dir: string, args: string[]) => {
   const r = trellis([...args, '--json'], dir);
@@ -27,11 +27,7 @@ describe('report and codebook figures', () => {
   let stats: any;
   let html: string;
   beforeAll(() => {
-    dir = freshStudy();
-    expect(trellis(['template', 'set', join(CORPUS, 'template.txt')], dir).status).toBe(0);
-    const files = readdirSync(CORPUS).filter((f) => /^t\d\d-.*\.(txt|md|vtt|docx)$/.test(f)).sort();
-    expect(trellis(['add', ...files.map((f) => join(CORPUS, f))], dir).status).toBe(0);
-    expect(trellis(['sheet', 'import', join(CORPUS, 'initial-coding.csv'), '--coder', 'priya'], dir).status).toBe(0);
+    dir = codedDemoStudy();
     const sug = json(dir, ['suggest', '--transcript', 't05-ward9-fy2']);
     const ids = sug.passages.flatMap((p: any) => p.candidates.filter((c: any) => c.above_threshold).map((c: any) => c.suggestion_id));
     expect(ids.length).toBeGreaterThan(2);

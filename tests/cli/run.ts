@@ -1,7 +1,7 @@
 // Runs the built CLI (bin/trellis -> dist/) as a user would, in temporary folders.
 import Database from 'better-sqlite3';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 
@@ -29,6 +29,20 @@ export function freshStudy(initArgs: string[] = []): string {
   const dir = mkdtempSync(join(tmpdir(), 'trellis-test-'));
   const r = trellis(['init', '.', ...initArgs], dir);
   if (r.status !== 0) throw new Error(`init failed: ${r.stderr}`);
+  return dir;
+}
+
+/** A fresh study holding the whole demo corpus, with the demo template and priya's first-batch coding. */
+export function codedDemoStudy(): string {
+  const dir = freshStudy();
+  const ok = (args: string[]) => {
+    const r = trellis(args, dir);
+    if (r.status !== 0) throw new Error(`${args.join(' ')} failed: ${r.stderr}`);
+  };
+  ok(['template', 'set', join(CORPUS, 'template.txt')]);
+  const files = readdirSync(CORPUS).filter((f) => /^t\d\d-.*\.(txt|md|vtt|docx)$/.test(f)).sort();
+  ok(['add', ...files.map((f) => join(CORPUS, f))]);
+  ok(['sheet', 'import', join(CORPUS, 'initial-coding.csv'), '--coder', 'priya']);
   return dir;
 }
 
