@@ -1,5 +1,6 @@
 /** .docx to text with mammoth; paragraphs come out separated by blank lines. */
-import mammoth from 'mammoth';
+import { createRequire } from 'node:module';
+import type Mammoth from 'mammoth';
 import { UserError } from '../errors.js';
 import { normaliseText } from './decode.js';
 import { tooLarge } from './limits.js';
@@ -37,7 +38,7 @@ export async function docxText(bytes: Buffer, file: string, maxBytes = Infinity)
   if (expanded > maxBytes) throw tooLarge(expanded, maxBytes, file, 'the document, expanded,');
   let value: string;
   try {
-    ({ value } = await mammoth.extractRawText({ buffer: bytes }));
+    ({ value } = await (createRequire(import.meta.url)('mammoth') as typeof Mammoth).extractRawText({ buffer: bytes }));
   } catch {
     throw new UserError(DAMAGED, file);
   }

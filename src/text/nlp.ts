@@ -1,5 +1,5 @@
-import winkNLP from 'wink-nlp';
-import model from 'wink-eng-lite-web-model';
+import { createRequire } from 'node:module';
+import type winkNLP from 'wink-nlp';
 import type { TextAnalysis } from './analysis.js';
 import { isStopWord } from './stopwords.js';
 
@@ -9,9 +9,16 @@ let nlp: Nlp | null = null;
 const CLITIC = /^(?:['\u2019](?:s|re|ll|d|ve|m)|n['\u2019]t)$/i;
 const POSSESSIVE = /['\u2019]s$/;
 
-/** The wink-nlp pipeline, loaded on first use (about 70 ms). Sentence boundaries and POS for lemmas. */
+// Required on first use, not imported: the model takes about 120 ms to load, and most commands
+// (status, log, stats, review, …) never analyse text, yet every one of them would pay for it at start.
+const load = createRequire(import.meta.url);
+
+/** The wink-nlp pipeline, loaded on first use. Sentence boundaries and POS for lemmas. */
 function pipeline(): Nlp {
-  nlp ??= winkNLP(model, ['sbd', 'pos']);
+  if (nlp === null) {
+    const make = load('wink-nlp') as typeof winkNLP;
+    nlp = make(load('wink-eng-lite-web-model') as Parameters<typeof winkNLP>[0], ['sbd', 'pos']);
+  }
   return nlp;
 }
 
