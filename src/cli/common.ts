@@ -45,6 +45,7 @@ export async function withStudy<T>(opts: StudyOpts, work: (db: DB) => T | Promis
     if (named) rememberCoder(db, named); // a failed command leaves the study exactly as it was
     return out;
   } finally {
+    named = null; // one command's name, never the next one's (tests run many commands in one process)
     db.close();
   }
 }

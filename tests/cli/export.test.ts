@@ -2,16 +2,16 @@ import { parse } from 'csv-parse/sync';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { CORPUS, freshStudy, trellis } from './run.js';
+import { CORPUS, freshStudy, trellis, onceStudy } from './run.js';
 
-function studyWithCodings(): string {
+const studyWithCodings = onceStudy((): string => {
   const dir = freshStudy();
   expect(trellis(['template', 'set', join(CORPUS, 'template.txt')], dir).status).toBe(0);
   const files = ['t01-larch-staff-nurse.txt', 't02-kestrel-fy1.txt', 't03-harbour-hca.md', 't04-orchard-staff-nurse.vtt'];
   expect(trellis(['add', ...files.map((f) => join(CORPUS, f))], dir).status).toBe(0);
   expect(trellis(['sheet', 'import', join(CORPUS, 'initial-coding.csv'), '--coder', 'priya'], dir).status).toBe(0);
   return dir;
-}
+});
 
 describe('trellis export', () => {
   it('writes the template as an outline that template set accepts again unchanged', () => {

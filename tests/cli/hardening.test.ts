@@ -7,7 +7,7 @@ import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync,
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { CORPUS, freshStudy, snapshot, trellis, write } from './run.js';
+import { CORPUS, freshStudy, snapshot, trellis, write, onceStudy } from './run.js';
 
 const OUTLINE = `Workload [a priori]
   | seeds: busy, time
@@ -29,7 +29,7 @@ Nadia: @risk I worry about allergies. The banner doesn't show on the summary scr
 Nadia: -10 minutes, every shift, just for the log-in.
 `;
 
-function codedStudy(): string {
+const codedStudy = onceStudy((): string => {
   const dir = freshStudy();
   write(dir, 'outline.txt', OUTLINE);
   expect(trellis(['template', 'set', 'outline.txt'], dir).status).toBe(0);
@@ -45,7 +45,7 @@ function codedStudy(): string {
   const r = trellis(['sheet', 'import', 'codes.csv', '--coder', '=evil()'], dir);
   expect(r.status, r.stderr).toBe(0);
   return dir;
-}
+});
 
 function bytes(path: string): string {
   return readFileSync(path).toString('hex');

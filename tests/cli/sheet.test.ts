@@ -2,16 +2,16 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
-import { CORPUS, freshStudy, trellis, write } from './run.js';
+import { CORPUS, freshStudy, trellis, write, onceStudy } from './run.js';
 
 const FILES = ['t01-larch-staff-nurse.txt', 't04-orchard-staff-nurse.vtt'].map((f) => join(CORPUS, f));
 
-function studyWithCorpus(): string {
+const studyWithCorpus = onceStudy((): string => {
   const dir = freshStudy();
   expect(trellis(['template', 'set', join(CORPUS, 'template.txt')], dir).status).toBe(0);
   expect(trellis(['add', ...FILES], dir).status).toBe(0);
   return dir;
-}
+});
 
 function readSheet(path: string): Record<string, string>[] {
   return parse(readFileSync(path, 'utf8'), { bom: true, columns: true });
