@@ -39,8 +39,7 @@ export interface DecideInput {
 export function effectiveDecisions(db: DB): DecisionRow[] {
   return db
     .prepare(
-      `SELECT * FROM decisions d WHERE d.action != 'undo'
-       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id) ORDER BY d.id`,
+      `SELECT * FROM standing_decisions d ORDER BY d.id`,
     )
     .all() as DecisionRow[];
 }
@@ -53,10 +52,9 @@ export function allDecisions(db: DB): DecisionRow[] {
 function standing(db: DB, suggestionId: number): DecisionRow | undefined {
   return db
     .prepare(
-      `SELECT d.* FROM decisions d, suggestions s WHERE s.id = ?
+      `SELECT d.* FROM standing_decisions d, suggestions s WHERE s.id = ?
          AND (d.suggestion_id = s.id OR (d.passage_id = s.passage_id AND d.theme_id = s.theme_id))
-         AND d.action NOT IN ('undo', 'defer')
-         AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id) ORDER BY d.id DESC LIMIT 1`,
+         AND d.action != 'defer' ORDER BY d.id DESC LIMIT 1`,
     )
     .get(suggestionId) as DecisionRow | undefined;
 }
@@ -131,8 +129,7 @@ export function undo(db: DB, coder: string, decisionId?: number, note?: string):
         ? db.prepare('SELECT * FROM decisions WHERE id = ?').get(decisionId)
         : db
             .prepare(
-              `SELECT * FROM decisions d WHERE d.coder = ? AND d.action != 'undo'
-               AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id) ORDER BY d.id DESC LIMIT 1`,
+              `SELECT * FROM standing_decisions d WHERE d.coder = ? ORDER BY d.id DESC LIMIT 1`,
             )
             .get(coder)
     ) as DecisionRow | undefined;
@@ -213,8 +210,7 @@ export function markNothingToCode(db: DB, passageIds: readonly string[], coder: 
 export function nothingToCodeBy(db: DB, coder: string): Map<string, number> {
   const rows = db
     .prepare(
-      `SELECT d.id, d.passage_id FROM decisions d WHERE d.action = 'nocode' AND d.coder = ?
-       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)`,
+      `SELECT d.id, d.passage_id FROM standing_decisions d WHERE d.action = 'nocode' AND d.coder = ?`,
     )
     .all(coder) as { id: number; passage_id: string }[];
   return new Map(rows.map((r) => [r.passage_id, r.id]));
@@ -224,8 +220,7 @@ export function nothingToCodeBy(db: DB, coder: string): Map<string, number> {
 export function nothingToCode(db: DB): Set<string> {
   const rows = db
     .prepare(
-      `SELECT DISTINCT d.passage_id AS id FROM decisions d WHERE d.action = 'nocode'
-       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)`,
+      `SELECT DISTINCT d.passage_id AS id FROM standing_decisions d WHERE d.action = 'nocode'`,
     )
     .all() as { id: string }[];
   return new Set(rows.map((r) => r.id));

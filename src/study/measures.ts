@@ -200,9 +200,8 @@ export function agreement(db: DB, opts: AgreementOptions): StudyAgreement {
   const decided = humans.length
     ? inTranscripts(
         q(
-          `SELECT DISTINCT x.coder, x.passage_id, t.name AS transcript FROM decisions x ${JOIN}
-           WHERE x.coder IN (${marks}) AND p.role = 'participant' AND x.action IN ('accept', 'reject', 'recode', 'nocode')
-           AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = x.id)`,
+          `SELECT DISTINCT x.coder, x.passage_id, t.name AS transcript FROM standing_decisions x ${JOIN}
+           WHERE x.coder IN (${marks}) AND p.role = 'participant' AND x.action IN ('accept', 'reject', 'recode', 'nocode')`,
           ...humans,
         ),
       )

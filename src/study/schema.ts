@@ -266,6 +266,12 @@ export const MIGRATIONS: string[] = [
     unplaced_at TEXT NOT NULL
   );
   `,
+  // 11: one definition of "the decision still stands": not an undo entry, and not undone since.
+  `
+  CREATE VIEW standing_decisions AS
+    SELECT d.* FROM decisions d
+    WHERE d.action != 'undo' AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id);
+  `,
 ];
 
 export const SCHEMA_VERSION = MIGRATIONS.length;
