@@ -245,7 +245,7 @@ describe('trellis review', () => {
     expect(t.screen).toContain('(start of the passage)');
     t.send('\x1b[B'); // down
     const moved = await step(t, /↑\s+1\s+line\s+above/);
-    expect(moved).toBeTruthy();
+    expect(moved[0]).toMatch(/↑\s+1\s+line\s+above/);
     if (below > 1) expect(t.screen).toMatch(new RegExp(`↓\\s+${below - 1}\\s+lines?\\s+more`));
     t.send('\x1b[A'); // up: back to the start
     await step(t, '(start of the passage)');

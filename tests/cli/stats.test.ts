@@ -85,7 +85,8 @@ describe('trellis stats', () => {
     const bands = s.acceptance.calibration.filter((b: { count: number }) => b.count);
     expect(bands.reduce((n: number, b: { count: number }) => n + b.count, 0)).toBe(4);
     const inBand = (c: number) => bands.find((b: { lower: number; upper: number }) => c >= b.lower && c < b.upper + 1e-9);
-    expect(inBand(tops[0].confidence)).toBeDefined();
+    // the accepted top candidate is counted in the band its confidence falls in
+    expect(inBand(tops[0].confidence)?.count).toBeGreaterThanOrEqual(1);
     expect(s.coverage.coded).toBe(52 + 3);
     expect(s.acceptance.recodes).toHaveLength(1);
     // Template growth: t05 (coded last) brings the theme added while it was coded; the first
