@@ -111,11 +111,17 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
   const analyses = new Array<TextAnalysis>(texts.length);
   const ends = first.map(({ t }) => firstTurn.get(t)! + t.turns.length);
   let done = 0;
+  // Counted apart from the call: `onProgress?.(++done)` skips the increment when there is no
+  // callback, and the loops above it never end.
+  const progressed = () => {
+    done++;
+    opts.onProgress?.(done, first.length, first[done - 1]!.t.name);
+  };
   await analyseMany(texts, (i, a) => {
     analyses[i] = a;
-    while (done < first.length && i + 1 >= ends[done]!) opts.onProgress?.(++done, first.length, first[done - 1]!.t.name);
+    while (done < first.length && i + 1 >= ends[done]!) progressed();
   });
-  while (done < first.length) opts.onProgress?.(++done, first.length, first[done - 1]!.t.name); // transcripts with no turns
+  while (done < first.length) progressed(); // transcripts with no turns
 
   return db.transaction(() => {
     const report = emptyReport();
