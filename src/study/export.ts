@@ -1,3 +1,4 @@
+import { groupByTheme, rollUp } from '../template/rollup.js';
 import { clock } from '../sheet/sheet.js';
 import { walk } from '../template/paths.js';
 import type { DB } from './db.js';
@@ -43,28 +44,20 @@ export function codingsForExport(db: DB): CodingExport[] {
 
 /** Theme x transcript matrix of coded passages, rolled up over sub-themes (each passage once). */
 export function themeMatrix(db: DB): { transcripts: string[]; rows: { number: string; theme: string; counts: number[] }[] } {
-  const entries = [...walk(currentTemplate(db))];
+  const template = currentTemplate(db);
+  const entries = [...walk(template)];
   const transcripts = (db.prepare('SELECT name FROM transcripts ORDER BY id').all() as { name: string }[]).map((t) => t.name);
   const idx = new Map(transcripts.map((t, i) => [t, i]));
   const coded = db
     .prepare('SELECT DISTINCT c.theme_id, c.passage_id, t.name AS transcript FROM codings c JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id WHERE c.removed_at IS NULL')
     .all() as { theme_id: string; passage_id: string; transcript: string }[];
-  const byTheme = new Map<string, Map<string, string>>();
-  for (const c of coded) {
-    if (!byTheme.has(c.theme_id)) byTheme.set(c.theme_id, new Map());
-    byTheme.get(c.theme_id)!.set(c.passage_id, c.transcript);
-  }
-  const rolled = new Map<string, Map<string, string>>();
-  for (const e of [...entries].reverse()) {
-    const m = new Map(byTheme.get(e.node.id) ?? []);
-    for (const ch of e.node.children) for (const [p, t] of rolled.get(ch.id) ?? []) m.set(p, t);
-    rolled.set(e.node.id, m);
-  }
+  const transcriptOf = new Map(coded.map((c) => [c.passage_id, c.transcript]));
+  const rolled = rollUp(template, groupByTheme(coded.map((c) => ({ themeId: c.theme_id, member: c.passage_id }))));
   return {
     transcripts,
     rows: entries.map((e) => {
       const counts = new Array<number>(transcripts.length).fill(0);
-      for (const t of rolled.get(e.node.id)!.values()) counts[idx.get(t)!]!++;
+      for (const p of rolled.get(e.node.id)!) counts[idx.get(transcriptOf.get(p)!)!]!++;
       return { number: e.number, theme: e.path, counts };
     }),
   };

@@ -1,3 +1,4 @@
+import { groupByTheme, rollUp } from '../template/rollup.js';
 import { basename, resolve } from 'node:path';
 import { integrativeCoverage } from '../measure/integrative.js';
 import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from '../report/types.js';
@@ -187,20 +188,11 @@ function gather(db: DB, opts: ReportOptions): ReportData {
  * own codings, or of its sub-themes' when it has none; the researcher's pins and drops apply.
  */
 export function chosenQuotes(db: DB, n: number): Map<string, ChosenQuote[]> {
-  const entries = [...walk(currentTemplate(db))];
+  const template = currentTemplate(db);
+  const entries = [...walk(template)];
   const codings = currentCodings(db);
-  const direct = new Map<string, Set<string>>();
-  for (const c of codings) {
-    let s = direct.get(c.theme_id);
-    if (!s) direct.set(c.theme_id, (s = new Set()));
-    s.add(c.passage_id);
-  }
-  const rolled = new Map<string, Set<string>>();
-  for (const e of [...entries].reverse()) {
-    const s = new Set(direct.get(e.node.id) ?? []);
-    for (const ch of e.node.children) for (const p of rolled.get(ch.id) ?? []) s.add(p);
-    rolled.set(e.node.id, s);
-  }
+  const direct = groupByTheme(codings.map((c) => ({ themeId: c.theme_id, member: c.passage_id })));
+  const rolled = rollUp(template, direct);
   if (!entries.some((e) => rolled.get(e.node.id)?.size)) return new Map();
   const { passages } = modelInputs(db);
   const vec = new TfidfVectorizer();

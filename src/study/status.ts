@@ -1,5 +1,6 @@
 import { countThemes } from '../template/number.js';
 import { walk } from '../template/paths.js';
+import { groupByTheme, rollUp } from '../template/rollup.js';
 import type { Template } from '../template/types.js';
 import type { DB } from './db.js';
 import { currentRevision } from './template.js';
@@ -81,26 +82,18 @@ export function themeCounts(db: DB, t: Template): ThemeCount[] {
   );
   const batch = new Set(transcriptOf.values()).size;
   const described = new Map([...walk(t)].map((e) => [e.node.id, Boolean(e.node.name.trim() || e.node.definition.trim() || e.node.seeds.length)]));
-  const byTheme = new Map<string, Set<string>>();
-  for (const r of rows) {
-    let s = byTheme.get(r.theme_id);
-    if (!s) byTheme.set(r.theme_id, (s = new Set()));
-    s.add(r.passage_id);
-  }
-  // Sub-themes before their parents (the walk backwards), so each parent gathers finished sets.
-  const entries = [...walk(t)];
-  const out: ThemeCount[] = entries.map((e) => ({ id: e.node.id, direct: byTheme.get(e.node.id)?.size ?? 0, total: 0, transcripts: 0, strength: 'not suggested' }));
-  const gathered = new Map<string, Set<string>>();
-  for (let i = entries.length - 1; i >= 0; i--) {
-    const node = entries[i]!.node;
-    const all = new Set(byTheme.get(node.id) ?? []);
-    for (const c of node.children) {
-      for (const pid of gathered.get(c.id)!) all.add(pid);
-      gathered.delete(c.id);
-    }
-    gathered.set(node.id, all);
+  const rolled = rollUp(t, groupByTheme(rows.map((r) => ({ themeId: r.theme_id, member: r.passage_id }))));
+  const direct = new Map<string, number>();
+  for (const r of rows) direct.set(r.theme_id, (direct.get(r.theme_id) ?? 0) + 1);
+  return [...walk(t)].map((e) => {
+    const all = rolled.get(e.node.id)!;
     const ts = new Set([...all].map((pid) => transcriptOf.get(pid)));
-    Object.assign(out[i]!, { total: all.size, transcripts: ts.size, strength: themeStrength(all.size, ts.size, batch, described.get(node.id) ?? false) });
-  }
-  return out;
+    return {
+      id: e.node.id,
+      direct: direct.get(e.node.id) ?? 0,
+      total: all.size,
+      transcripts: ts.size,
+      strength: themeStrength(all.size, ts.size, batch, described.get(e.node.id) ?? false),
+    };
+  });
 }
