@@ -1,8 +1,8 @@
 import { UserError } from '../errors.js';
-import { findByPath, pathOf, walk } from '../template/paths.js';
+import { findByPath, pathOf } from '../template/paths.js';
 import type { DB } from './db.js';
 import { getSuggestion } from './suggestions.js';
-import { currentRevision, currentTemplate } from './template.js';
+import { currentRevision, currentTemplate, themePaths } from './template.js';
 
 export type Action = 'accept' | 'reject' | 'recode' | 'defer';
 
@@ -240,7 +240,7 @@ export function logColumns(rows: readonly object[]): string[] {
 }
 
 export function decisionLog(db: DB): (DecisionRow & { theme_path: string; chosen_path: string })[] {
-  const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+  const paths = themePaths(db);
   const path = (id: string | null) => (id ? (paths.get(id) ?? id) : '');
   return allDecisions(db).map((d) => ({ ...d, theme_path: path(d.theme_id), chosen_path: path(d.chosen_theme) }));
 }

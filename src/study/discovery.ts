@@ -4,7 +4,7 @@ import { triage, type TranscriptTriage } from '../discover/triage.js';
 import type { DiscoverOptions, DiscoverResult, Dismissal, PoolCandidate, PoolResult } from '../discover/types.js';
 import { UserError } from '../errors.js';
 import { addTheme } from '../template/ops.js';
-import { findByPath, walk } from '../template/paths.js';
+import { findByPath } from '../template/paths.js';
 import { byNovelty, clusterNearness } from '../discover/nearest.js';
 import { CLUSTER_KEY, clusterKey, clusterLabel } from '../discover/key.js';
 import type { PassageSuggestions } from '../suggest/types.js';
@@ -13,7 +13,7 @@ import { nothingToCode } from './decisions.js';
 import { getPassage } from './passages.js';
 import { reviseTemplate } from './revise.js';
 import { fitModel } from './suggestions.js';
-import { currentRevision, currentTemplate } from './template.js';
+import { currentRevision, currentTemplate, themePaths } from './template.js';
 
 /** What the store keeps of a cluster beside its counts (clusters.detail). */
 export interface ClusterDetail {
@@ -106,7 +106,7 @@ export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
     const insC = db.prepare('INSERT INTO clusters (run_id, label, size, cohesion, detail, key) VALUES (?, ?, ?, ?, ?, ?)');
     const keys = new Set<string>();
     const insP = db.prepare('INSERT INTO cluster_passages (cluster_id, passage_id, similarity) VALUES (?, ?, ?)');
-    const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+    const paths = themePaths(db);
     const near = {
       candidates: new Map(scored.suggestions.map((s) => [s.passageId, s.candidates])),
       noneFits: new Map(scored.pool.pool.map((p) => [p.id, p.noneFits])),
@@ -246,7 +246,7 @@ export function promoteCluster(db: DB, studyDir: string, ref: string, target: Pr
         const sim = closeness.get(p) || c.cohesion;
         ins.run(runId, p, themeId, sim, JSON.stringify([{ kind: 'cluster', clusterId: c.cluster_id, label: c.label, similarity: sim }]));
       }
-      const path = [...walk(currentTemplate(db))].find((e) => e.node.id === themeId)!.path;
+      const path = themePaths(db).get(themeId)!;
       return { cluster_id: c.cluster_id, themeId, path, into_existing: into, rev, decisionId, runId, suggestions: c.passage_ids.length };
     })
     .immediate();

@@ -2,7 +2,7 @@ import { groupByTheme, rollUp } from '../template/rollup.js';
 import { clock } from '../sheet/sheet.js';
 import { walk } from '../template/paths.js';
 import type { DB } from './db.js';
-import { currentTemplate } from './template.js';
+import { currentTemplate, themePaths } from './template.js';
 
 export interface CodingExport {
   passage_id: string;
@@ -20,7 +20,7 @@ export const CODING_COLUMNS = ['passage_id', 'transcript', 'speaker', 'time', 't
 
 /** Every current coding with its passage, for analysis elsewhere (a retired theme is named so). */
 export function codingsForExport(db: DB): CodingExport[] {
-  const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+  const paths = themePaths(db);
   const names = new Map((db.prepare('SELECT id, name FROM themes').all() as { id: string; name: string }[]).map((t) => [t.id, t.name]));
   const rows = db
     .prepare(

@@ -1,7 +1,7 @@
 import { acceptanceReport, type AcceptanceReport, type DecisionRecord } from '../measure/acceptance.js';
 import { CIRCULARITY_NOTE, agreementReport, type AgreementReport, type CodingRecord, type CodedRecord } from '../measure/agreement.js';
 import { templateGrowth, type GrowthReport } from '../measure/growth.js';
-import { walk } from '../template/paths.js';
+import { entriesById, walk } from '../template/paths.js';
 import type { DB } from './db.js';
 import { effectiveDecisions, nothingToCode } from './decisions.js';
 import { currentTemplate } from './template.js';
@@ -97,9 +97,9 @@ export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyS
     )
     .all() as { transcript: string; firstCodedAt: string }[];
   const records = decisionRecords(db).filter((d) => !(opts.excludeBulk && d.bulk));
-  const parent = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.parentId]));
+  const themes = entriesById(currentTemplate(db));
   const under = (id: string | null | undefined, ancestor: string) => {
-    for (let p = id ? parent.get(id) : null; p; p = parent.get(p)) if (p === ancestor) return true;
+    for (let p = id ? themes.get(id)?.parentId : null; p; p = themes.get(p)?.parentId) if (p === ancestor) return true;
     return false;
   };
   const refined = records.filter((d) => d.action === 'recode' && under(d.chosenThemeId, d.themeId)).length;

@@ -3,11 +3,11 @@
  * A theme memo is kept by theme id, so it follows the theme through renames and moves.
  */
 import { UserError } from '../errors.js';
-import { findByPath, walk } from '../template/paths.js';
+import { findByPath } from '../template/paths.js';
 import type { DB } from './db.js';
 import { getPassage } from './passages.js';
 import { requireTranscripts } from './transcripts.js';
-import { currentRevision, currentTemplate } from './template.js';
+import { currentRevision, currentTemplate, themePaths } from './template.js';
 
 export type MemoKind = 'study' | 'theme' | 'transcript' | 'passage';
 
@@ -59,7 +59,7 @@ export function resolveTarget(db: DB, t: MemoTarget): string | null {
 }
 
 function labeller(db: DB): (kind: MemoKind, target: string | null) => string {
-  const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+  const paths = themePaths(db);
   const names = new Map((db.prepare('SELECT id, name FROM themes').all() as { id: string; name: string }[]).map((r) => [r.id, r.name]));
   return (kind, target) => {
     if (kind === 'study') return 'the study';

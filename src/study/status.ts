@@ -81,7 +81,6 @@ export function themeCounts(db: DB, t: Template): ThemeCount[] {
     (db.prepare('SELECT DISTINCT c.passage_id AS id, p.transcript_id AS t FROM codings c JOIN passages p ON p.id = c.passage_id WHERE c.removed_at IS NULL').all() as { id: string; t: number }[]).map((r) => [r.id, r.t]),
   );
   const batch = new Set(transcriptOf.values()).size;
-  const described = new Map([...walk(t)].map((e) => [e.node.id, Boolean(e.node.name.trim() || e.node.definition.trim() || e.node.seeds.length)]));
   const rolled = rollUp(t, groupByTheme(rows.map((r) => ({ themeId: r.theme_id, member: r.passage_id }))));
   const direct = new Map<string, number>();
   for (const r of rows) direct.set(r.theme_id, (direct.get(r.theme_id) ?? 0) + 1);
@@ -93,7 +92,7 @@ export function themeCounts(db: DB, t: Template): ThemeCount[] {
       direct: direct.get(e.node.id) ?? 0,
       total: all.size,
       transcripts: ts.size,
-      strength: themeStrength(all.size, ts.size, batch, described.get(e.node.id) ?? false),
+      strength: themeStrength(all.size, ts.size, batch, Boolean(e.node.name.trim() || e.node.definition.trim() || e.node.seeds.length)),
     };
   });
 }

@@ -1,4 +1,4 @@
-import { flattenTemplate, pathKey, unflattenTemplate, walk, type FlatTheme } from '../template/paths.js';
+import { entriesById, flattenTemplate, pathKey, pathsById, unflattenTemplate, walk, type FlatTheme } from '../template/paths.js';
 import type { Change, Template } from '../template/types.js';
 import type { DB } from './db.js';
 
@@ -63,6 +63,11 @@ export function currentRevision(db: DB): Revision | null {
   return row ? toRevision(row) : null;
 }
 
+/** Theme id -> path in the current template. */
+export function themePaths(db: DB): Map<string, string> {
+  return pathsById(currentTemplate(db));
+}
+
 export function currentTemplate(db: DB): Template {
   return currentRevision(db)?.template ?? EMPTY;
 }
@@ -121,7 +126,7 @@ export function recordRevision(db: DB, r: NewRevision): number {
       .run(now, r.author, r.action, r.reason ?? null, r.outline, encodeTree(r.template), JSON.stringify(r.changes))
       .lastInsertRowid,
   );
-  const names = new Map([...walk(r.template)].map((e) => [e.node.id, e.node.name]));
+  const names = new Map([...entriesById(r.template)].map(([id, e]) => [id, e.node.name]));
 
   const add = db.prepare('INSERT OR IGNORE INTO themes (id, name, created_rev) VALUES (?, ?, ?)');
   const retire = db.prepare('UPDATE themes SET retired_rev = ? WHERE id = ? AND retired_rev IS NULL');

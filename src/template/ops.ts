@@ -7,7 +7,7 @@
 
 import { UserError } from '../errors.js';
 import { PATH_SEP, checkName, cleanName, findClash, nameKey, placeLabel } from './names.js';
-import { cloneTemplate, locate, walk, type WalkEntry } from './paths.js';
+import { cloneTemplate, locate, pathsById, walk, type WalkEntry } from './paths.js';
 import type { Change, Revised, Template, ThemeNode } from './types.js';
 
 export interface NewThemeOptions {
@@ -31,10 +31,6 @@ function siblingsOf(t: Template, e: WalkEntry): ThemeNode[] {
 
 function parentPath(e: WalkEntry): string | null {
   return e.parent ? e.path.slice(0, e.path.length - PATH_SEP.length - e.node.name.length) : null;
-}
-
-function pathsById(t: Template): Map<string, string> {
-  return new Map([...walk(t)].map((e) => [e.node.id, e.path]));
 }
 
 function within(root: ThemeNode, node: ThemeNode): boolean {

@@ -53,6 +53,16 @@ export function* walk(template: Template): Generator<WalkEntry> {
   }
 }
 
+/** Every theme's walk entry (path, number, depth, parent) by id: the one id map of a template. */
+export function entriesById(template: Template): Map<string, WalkEntry> {
+  return new Map([...walk(template)].map((e) => [e.node.id, e]));
+}
+
+/** Theme id -> path ("Workload > Staffing levels"). */
+export function pathsById(template: Template): Map<string, string> {
+  return new Map([...walk(template)].map((e) => [e.node.id, e.path]));
+}
+
 /** A deep copy of a template, without recursion: depth is unlimited. */
 export function cloneTemplate(t: Template): Template {
   return unflattenTemplate(flattenTemplate(t));
