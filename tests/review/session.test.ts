@@ -238,6 +238,21 @@ describe('review session', () => {
     expect(back.screen.passage!.id).toBe(p.id);
   });
 
+  it('goes back to the previous passage, showing what was decided there, and on again', () => {
+    const { s } = session(copyStudy());
+    expect(act(s, { kind: 'previous' }).outcome).toMatchObject({ kind: 'refused', reason: 'no-previous' });
+    const a = passageWith(s, 2);
+    const c = a.candidates.find((x) => x.state === 'open')!;
+    act(s, { kind: 'accept', candidate: c.suggestionId });
+    const b = act(s, { kind: 'next' }).screen.passage!;
+    expect(b.id).not.toBe(a.id);
+    const back = act(s, { kind: 'previous' });
+    expect(back.outcome.kind).toBe('moved');
+    expect(back.screen.passage!.id).toBe(a.id);
+    expect(back.screen.passage!.candidates.find((x) => x.suggestionId === c.suggestionId)!.state).toBe('accepted');
+    expect(act(s, { kind: 'next' }).screen.passage!.id).toBe(b.id);
+  });
+
   it('two sessions on one study never decide the same passage twice, and lose nothing', () => {
     const dir = copyStudy();
     const a = session(dir, 'alex');
