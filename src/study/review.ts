@@ -1,6 +1,6 @@
 /**
  * The review queue: which passages an interactive review session shows, in what order, and the
- * guarded writes it makes. The screen (src/cli/review.ts) only draws and reads keys.
+ * guarded writes it makes. The session rules are in src/review/session.ts; the screens only draw and read keys.
  */
 import { UserError } from '../errors.js';
 import type { Reason } from '../suggest/types.js';
@@ -355,106 +355,6 @@ export function passageView(db: DB, passageId: string): PassageView | undefined 
   return { passage, tokens, before: turn(passage.turn - 1), after: turn(passage.turn + 1), passages: count.n };
 }
 
-/**
- * Where the session stands (pure): the queue in order, a cursor, passages decided or deferred
- * this session, and passages to show again first (after an undo).
- */
-export class ReviewQueue {
-  private cursor = -1;
-  private readonly revisits: ReviewItem[] = [];
-  readonly deferred = new Set<string>();
-  readonly done = new Set<string>();
-  readonly closed = new Set<string>();
-  private readonly index: Map<string, number>;
-
-  constructor(readonly items: ReviewItem[]) {
-    this.index = new Map(items.map((it, i) => [it.passageId, i]));
-  }
-
-  get total(): number {
-    return this.items.length;
-  }
-
-  /** Passages not yet decided, deferred or found closed this session. */
-  get remaining(): number {
-    let n = 0;
-    for (const it of this.items) if (!this.handled(it.passageId)) n++;
-    return n;
-  }
-
-  /** 1-based position in the queue of a passage, or null when it came from outside it. */
-  positionOf(passageId: string): number | null {
-    const i = this.index.get(passageId);
-    return i === undefined ? null : i + 1;
-  }
-
-  item(passageId: string): ReviewItem | undefined {
-    const i = this.index.get(passageId);
-    return i === undefined ? undefined : this.items[i];
-  }
-
-  private handled(id: string): boolean {
-    return this.done.has(id) || this.deferred.has(id) || this.closed.has(id);
-  }
-
-  /** Show this passage next, before the queue goes on (going back to it after an undo). */
-  revisit(item: ReviewItem): void {
-    this.done.delete(item.passageId);
-    this.deferred.delete(item.passageId);
-    this.closed.delete(item.passageId);
-    this.revisits.push(item);
-  }
-
-  /** The next passage to show: a revisit first, else the next one in order not handled yet. */
-  next(): ReviewItem | undefined {
-    while (this.revisits.length) {
-      const it = this.revisits.pop()!;
-      if (!this.handled(it.passageId)) return it;
-    }
-    while (++this.cursor < this.items.length) {
-      const it = this.items[this.cursor]!;
-      if (!this.handled(it.passageId)) return it;
-    }
-    this.cursor = this.items.length;
-    return undefined;
-  }
-}
-
-/**
- * Acceptance this session, counted as stats and the report count it (src/measure/acceptance.ts):
- * accepted out of decided, where decided = accepted + re-coded + rejected. A re-code is decided
- * but not accepted (another theme was chosen); a defer is not yet decided; "nothing to code"
- * judges the passage, not a suggestion, and is counted apart.
- */
-export class Tally {
-  private readonly actions = new Map<number, string>();
-  /** Undo entries made this session. */
-  undos = 0;
-
-  add(d: DecisionRow): void {
-    this.actions.set(d.id, d.action);
-  }
-
-  /** Takes an undone decision out, if this session made it. */
-  remove(id: number): void {
-    this.actions.delete(id);
-  }
-
-  get ids(): ReadonlySet<number> {
-    return new Set(this.actions.keys());
-  }
-
-  count(action: string): number {
-    let n = 0;
-    for (const a of this.actions.values()) if (a === action) n++;
-    return n;
-  }
-
-  get accepted(): number {
-    return this.count('accept');
-  }
-
-  get decided(): number {
-    return this.count('accept') + this.count('recode') + this.count('reject');
-  }
-}
+// The session's pure bookkeeping lives with the session; re-exported for existing callers.
+export { ReviewQueue } from '../review/queue.js';
+export { Tally } from '../review/tally.js';
