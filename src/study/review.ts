@@ -87,8 +87,7 @@ export function orderQueue(items: ReviewItem[], order: ReviewOrder, themeRank: M
 function decidedPassages(db: DB): Set<string> {
   const rows = db
     .prepare(
-      `SELECT DISTINCT d.passage_id AS id FROM decisions d WHERE d.action NOT IN ('undo', 'defer') AND d.passage_id IS NOT NULL
-       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)`,
+      `SELECT DISTINCT d.passage_id AS id FROM standing_decisions d WHERE d.action != 'defer' AND d.passage_id IS NOT NULL`,
     )
     .all() as { id: string }[];
   return new Set(rows.map((r) => r.id));
@@ -159,8 +158,7 @@ export interface Claim {
 export function claimOn(db: DB, passageId: string, mine: ReadonlySet<number>): Claim | null {
   const ds = db
     .prepare(
-      `SELECT d.id, d.coder, d.action FROM decisions d WHERE d.passage_id = ? AND d.action NOT IN ('undo', 'defer')
-       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id) ORDER BY d.id`,
+      `SELECT d.id, d.coder, d.action FROM standing_decisions d WHERE d.passage_id = ? AND d.action != 'defer' ORDER BY d.id`,
     )
     .all(passageId) as { id: number; coder: string; action: string }[];
   const other = ds.find((d) => !mine.has(d.id));
@@ -283,8 +281,7 @@ function standing(db: DB, suggestionIds: number[], actions: string[]): Set<numbe
   if (!suggestionIds.length) return new Set();
   const rows = db
     .prepare(
-      `SELECT d.suggestion_id AS id FROM decisions d WHERE d.action IN (${actions.map((a) => `'${a}'`).join(',')}) AND d.suggestion_id IN (${suggestionIds.map(() => '?').join(',')})
-       AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id)`,
+      `SELECT d.suggestion_id AS id FROM standing_decisions d WHERE d.action IN (${actions.map((a) => `'${a}'`).join(',')}) AND d.suggestion_id IN (${suggestionIds.map(() => '?').join(',')})`,
     )
     .all(...suggestionIds) as { id: number }[];
   return new Set(rows.map((r) => r.id));
