@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { calibrate, fitIsotonic, fitPlatt } from '../../src/suggest/calibrate.js';
+import { calibrate, fitPlatt } from '../../src/suggest/calibrate.js';
 import { chooseThreshold, precisionRecallAt } from '../../src/suggest/thresholds.js';
 import { sigmoid } from '../../src/math/sigmoid.js';
 import { fitGrouped } from '../../src/suggest/logistic.js';
@@ -17,18 +17,6 @@ describe('Platt scaling against scikit-learn (tests/reference/calibration.json)'
   });
   it('gives the same probabilities', () => {
     fx.platt.grid.forEach((s: number, i: number) => expect(calibrate(m, s)).toBeCloseTo(fx.platt.p[i], 4));
-  });
-});
-
-describe('isotonic regression against scikit-learn (tests/reference/calibration.json)', () => {
-  // Reference: IsotonicRegression(out_of_bounds="clip"), scikit-learn 1.2.1, via make_fixtures.py.
-  const m = fitIsotonic(fx.isotonic.x, fx.isotonic.y);
-  it('keeps the same threshold points', () => {
-    expect(m.x).toEqual(fx.isotonic.x_thresholds);
-    m.y.forEach((v, i) => expect(v).toBeCloseTo(fx.isotonic.y_thresholds[i], 12));
-  });
-  it('predicts the same values, interpolating and clipping', () => {
-    fx.isotonic.grid.forEach((s: number, i: number) => expect(calibrate(m, s)).toBeCloseTo(fx.isotonic.predicted[i], 12));
   });
 });
 
