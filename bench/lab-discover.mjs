@@ -10,7 +10,6 @@
 //   node bench/lab-discover.mjs                         religion, science_fiction, humor
 //   LEAVE_OUT=religion CLAIM=any node bench/lab-discover.mjs
 //   MODE=repr node bench/lab-discover.mjs               memory/quality of the dense rows on a large pool
-//   NOVELTY=1 NOVELTY_OPTS='{"features":["conf","unseen-transcript"]}' node bench/lab-discover.mjs
 //   SEED=2 SKIP_PEER=1 ...
 //
 // Needs the build (npx tsc -p tsconfig.json). Analysed passages are cached in bench/out/.
@@ -18,7 +17,7 @@ import { execFileSync, spawnSync } from 'node:child_process';
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { ThemeSuggester } from '../dist/suggest/index.js';
-import { aucOf, discover, NoveltyModel, unclaimedPool } from '../dist/discover/index.js';
+import { discover, unclaimedPool } from '../dist/discover/index.js';
 import { adjustedRandIndex, normalizedMutualInfo } from '../dist/measure/partitions.js';
 import { brownCategories, LEAVES } from './brown.mjs';
 import { PEER_SCRIPT } from './cli.mjs';
@@ -118,37 +117,8 @@ function protocol(all, train, leftOut, claimAt) {
     preds = preds.map((p) => ({ ...p, candidates: p.candidates.map((c) => (c.themeId in f1Threshold ? { ...c, aboveThreshold: c.confidence >= f1Threshold[c.themeId] } : c)) }));
   }
   const thresholds = Object.fromEntries(model.themeReports().map((r) => [r.themeId, r.threshold]));
-  // NOVELTY=1: the novelty rule instead of the claim rule, learned from the coded batch by
-  // leaving one theme out at a time (src/discover/novelty.ts; measured in docs/discovery.md).
-  let novelty;
-  let noveltyInfo = null;
-  const tn0 = performance.now();
-  if (process.env.NOVELTY === '1') {
-    const codedPreds = model.predict(all.filter((p) => coded.has(p.transcript)).map((p) => p.id), { reasons: 0 });
-    const nopts = JSON.parse(process.env.NOVELTY_OPTS ?? '{}');
-    const nm = new NoveltyModel(nopts).fit({ passages, themes: th, codings, suggestions: [...codedPreds, ...preds] });
-    const scores = new Map(nm.predict(test.map((p) => p.id)).map((x) => [x.passageId, x.novelty]));
-    novelty = { scores, threshold: nm.state.threshold };
-    const lo = test.filter((p) => p.label === leftOut).map((p) => scores.get(p.id));
-    const ot = test.filter((p) => p.label !== leftOut).map((p) => scores.get(p.id));
-    const loF = nm.features(test.filter((p) => p.label === leftOut).map((p) => p.id));
-    const otF = nm.features(test.filter((p) => p.label !== leftOut).map((p) => p.id));
-    if (process.env.DEBUG) {
-      console.log('lo rows', loF.slice(0, 5).map((r) => r.map((v) => v.toFixed(3)).join(' ')));
-      console.log('ot rows', otF.slice(0, 5).map((r) => r.map((v) => v.toFixed(3)).join(' ')));
-      console.log('test preds', preds.slice(0, 3).map((p) => p.candidates.slice(0, 4).map((c) => `${c.themeId}:${c.confidence.toFixed(3)}`).join(' ')));
-    }
-    if (process.env.DEBUG) {
-      const feats = nm.features(test.map((p) => p.id));
-      const by = {};
-      test.forEach((p, i) => { if (!feats[i]) return; const e = (by[p.label] ??= { n: 0, s: new Array(feats[i].length).fill(0) }); e.n++; feats[i].forEach((v, f) => (e.s[f] += v)); });
-      for (const [c, e] of Object.entries(by)) console.log('  mean features', c.padEnd(16), e.s.map((v) => (v / e.n).toFixed(3)).join(' '));
-    }
-    const featureAuc = nm.state.features.map((_, f) => aucOf(loF.map((r) => r[f]), otF.map((r) => r[f])));
-    noveltyInfo = { state: nm.state, testAuc: aucOf(lo, ot), featureAuc, seconds: (performance.now() - tn0) / 1000 };
-  }
   const candidates = all.map((p) => ({ id: p.id, transcript: p.transcript, speaker: null, role: 'participant', terms: p.terms, words: p.text.split(/\s+/).length }));
-  const pr = unclaimedPool({ passages: candidates, suggestions: preds, themes: th, codings, thresholds, novelty }, { claimAt: claimAt === 'any' ? 'any' : 'leaf' });
+  const pr = unclaimedPool({ passages: candidates, suggestions: preds, themes: th, codings, thresholds }, { claimAt: claimAt === 'any' ? 'any' : 'leaf' });
   const t3 = performance.now();
   const inPool = new Set(pr.pool.map((p) => p.id));
   const excluded = new Map(pr.excluded.map((e) => [e.id, e.reason]));
@@ -210,7 +180,6 @@ function protocol(all, train, leftOut, claimAt) {
   const out = {
     leftOut,
     claimAt,
-    noveltyInfo,
     fingerprint: model.fingerprint,
     fallback,
     test: test.length,
@@ -238,12 +207,6 @@ function protocol(all, train, leftOut, claimAt) {
 
 function report(r) {
   console.log(`\n== left out: ${r.leftOut}  (pool rule: claimAt=${r.claimAt}; suggester fingerprint ${r.fingerprint})`);
-  if (r.noveltyInfo) {
-    const n = r.noveltyInfo;
-    console.log(`  novelty: features ${n.state.features.join(' ')}; coef ${n.state.logit.coef.map((c) => c.toFixed(2)).join(' ')}; threshold ${n.state.threshold.toFixed(3)} (batch share ${n.state.batchShare})`);
-    console.log(`  novelty batch: ${n.state.training.novelRows} held-out rows, ${n.state.training.familiarRows} in-template rows, AUC ${fmt(n.state.training.auc)}, held-out pooled ${fmt(n.state.training.novelPooled)}; test AUC left-out vs others ${fmt(n.testAuc)}; ${n.seconds.toFixed(2)} s`);
-    console.log(`  feature AUCs (novel above familiar), batch / test: ${n.state.features.map((f, i) => `${f} ${fmt(n.state.training.featureAuc[i])}/${fmt(n.featureAuc[i])}`).join(', ')}`);
-  }
   console.log(`  themes below the target precision (threshold fell back to it): ${r.fallback.join(' ') || '-'}`);
   console.log(`  test passages ${r.test} (substantive ${r.substantiveTest}); left-out substantive test passages ${r.leftOutTest}`);
   console.log(`  pool ${r.pool}; exclusions ${JSON.stringify(r.counts)}`);

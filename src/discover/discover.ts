@@ -13,11 +13,11 @@
  * Deterministic: the pool is put in natural id order first, and every random choice is seeded,
  * so the same pool gives the same clusters whatever order it came in.
  */
-import { sampleIndices } from '../measure/random.js';
+import { sampleIndices } from '../math/random.js';
 import { silhouetteScore } from '../measure/silhouette.js';
-import { logOdds } from '../suggest/logodds.js';
+import { logOdds } from '../math/logodds.js';
 import { TfidfVectorizer } from '../text/tfidf.js';
-import { dot, fromDense, norm, type SparseVector } from '../text/vectors.js';
+import { dot, fromDense, norm, type SparseVector } from '../math/sparse.js';
 import { dismissedIndex, judgeCluster } from './dismissals.js';
 import { distinctRows, kmeansRestarts, type KMeansFit } from './kmeans.js';
 import { naturalCompare } from './order.js';

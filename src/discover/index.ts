@@ -7,7 +7,4 @@ export { denseRows, projectionOf, type DenseOptions } from './represent.js';
 export { dismissedIndex, judgeCluster, type ClusterVerdict, type DismissalRule } from './dismissals.js';
 export { triage, type TranscriptTriage, type TriageInput } from './triage.js';
 export { naturalCompare } from './order.js';
-export { NoveltyModel, NOVELTY_FEATURES, aucOf, resolveNoveltyOptions, upperQuantile, type NoveltyFeature, type NoveltyInput, type NoveltyOptions, type NoveltyPassage, type NoveltyState } from './novelty.js';
-export { fitLogit, predictLogit, type LogitState } from './logit.js';
-export { smoothInGroups } from './smooth.js';
 export type * from './types.js';

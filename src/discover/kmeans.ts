@@ -16,8 +16,8 @@
  *  - the final labels are each point's nearest final centre and the inertia is their summed
  *    squared distance, as scikit-learn reports them.
  */
-import { seededRandom } from '../measure/random.js';
-import { fromDense, type SparseVector } from '../text/vectors.js';
+import { seededRandom } from '../math/random.js';
+import { fromDense, type SparseVector } from '../math/sparse.js';
 
 export type DenseInput = readonly (readonly number[] | Float64Array)[];
 /** Dense rows, or sparse vectors (term indices and weights). */

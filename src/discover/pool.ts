@@ -17,11 +17,6 @@
  * and coders code at its level: it is a leaf, or coders applied it directly to a passage. A parent
  * that clears its threshold only through its sub-themes' evidence ("Informative", with no leaf
  * clearing) does not claim: the passage may be a new sub-theme, which is what discovery is for.
- *
- * Novel: when the caller gives novelty scores (novelty.ts, learned from the coded batch), they
- * replace the claim rule: a passage is pooled when its novelty is at or above the threshold,
- * whatever theme came first, since the suggester's confidences hardly tell "no theme fits" from
- * "a weak theme fits" (docs/discovery.md, section 5).
  */
 import type { Coding, PassageSuggestions } from '../suggest/types.js';
 import type { NearestTheme, PoolCandidate, PoolEntry, PoolExclusion, PoolResult } from './types.js';
@@ -96,8 +91,6 @@ export interface PoolInput {
   nothingToCode?: Iterable<string>;
   /** Each theme's threshold (ThemeReport.threshold), shown beside the nearest theme's confidence. */
   thresholds?: Readonly<Record<string, number>>;
-  /** Novelty of passages (NoveltyModel.predict) and the threshold: when given, the pool rule. */
-  novelty?: { scores: ReadonlyMap<string, number>; threshold: number };
 }
 
 /** The topic lemmas of a passage: content lemmas less small talk and pronoun contractions. */
@@ -165,14 +158,11 @@ export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolRes
     }
     const live = s.candidates.filter((c) => !rejected.has(`${p.id}\u0000${c.themeId}`));
     // Above threshold rather than chosen: a rejected sub-theme must not hide a parent that claims.
-    const novelty = input.novelty ? (input.novelty.scores.get(p.id) ?? 0) : undefined;
     const none = noneFits(live.map((c) => c.confidence), opts.combine ?? 'max');
     const claims =
-      novelty !== undefined
-        ? novelty < input.novelty!.threshold
-        : (opts.rule ?? 'none-fits') === 'none-fits'
-          ? none < (opts.noneFitsAt ?? NONE_FITS_AT)
-          : live.some((c) => c.aboveThreshold && (claimAt === 'any' || claiming.has(c.themeId)));
+      (opts.rule ?? 'none-fits') === 'none-fits'
+        ? none < (opts.noneFitsAt ?? NONE_FITS_AT)
+        : live.some((c) => c.aboveThreshold && (claimAt === 'any' || claiming.has(c.themeId)));
     if (claims) {
       out(p.id, 'claimed');
       continue;
@@ -183,7 +173,7 @@ export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolRes
     const nearest: NearestTheme | null = near ? { themeId: near.themeId, confidence: near.confidence, ...(threshold === undefined ? {} : { threshold }) } : null;
     const clearedParents = live.filter((c) => c.aboveThreshold && !(claimAt === 'any' || claiming.has(c.themeId))).map((c) => c.themeId);
     // Small talk and clitics would only add noise to the clusters' vectors and terms.
-    pool.push({ id: p.id, transcript: p.transcript, speaker: p.speaker, terms: topicTerms(p.terms), words: p.words ?? p.terms.length, nearest, clearedParents, noneFits: none, ...(novelty === undefined ? {} : { novelty }) });
+    pool.push({ id: p.id, transcript: p.transcript, speaker: p.speaker, terms: topicTerms(p.terms), words: p.words ?? p.terms.length, nearest, clearedParents, noneFits: none });
     counts.unclaimed++;
   }
   return { pool, excluded, counts };

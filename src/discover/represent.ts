@@ -10,8 +10,8 @@
  *    Johnson-Lindenstrauss transform of Kane and Nelson 2014), re-scaled to unit length. A term's
  *    columns depend only on the term and the seed, not on the rest of the vocabulary.
  */
-import { seededRandom } from '../measure/random.js';
-import type { SparseVector } from '../text/vectors.js';
+import { seededRandom } from '../math/random.js';
+import type { SparseVector } from '../math/sparse.js';
 import type { Representation } from './types.js';
 
 /** FNV-1a over UTF-16 code units: a term's stable 32-bit key. */

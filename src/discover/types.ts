@@ -37,8 +37,6 @@ export interface PoolEntry {
   clearedParents: string[];
   /** The chance that no theme of the template applies (pool.ts, noneFits). */
   noneFits: number;
-  /** Probability that the template lacks the passage's theme, when the novelty rule made the pool. */
-  novelty?: number;
 }
 
 export interface PoolResult {

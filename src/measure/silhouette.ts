@@ -10,7 +10,7 @@
  * sample_size: the score of a seeded random subset).
  */
 
-import { sampleIndices } from './random.js';
+import { sampleIndices } from '../math/random.js';
 
 export type DenseRow = readonly number[] | Float64Array;
 /** Sorted term indices with their weights (the shape of src/text's SparseVector). */

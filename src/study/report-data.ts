@@ -7,7 +7,7 @@ import { latestClusters } from './discovery.js';
 import { clock } from '../sheet/sheet.js';
 import { describeChange } from '../template/describe.js';
 import { walk } from '../template/paths.js';
-import { cosine, sum, normalised } from '../text/vectors.js';
+import { cosine, sum, normalised } from '../math/sparse.js';
 import { TfidfVectorizer } from '../text/tfidf.js';
 import { currentCodings } from './codings.js';
 import type { DB } from './db.js';

@@ -4,10 +4,6 @@
  * Platt scaling: p = 1 / (1 + exp(a*s + b)), fitted by maximum likelihood on Platt's smoothed
  * targets (t+ = (N+ + 1)/(N+ + 2), t- = 1/(N- + 2)), with the Newton method of Lin, Lin & Weng
  * (Machine Learning 68, 2007). scikit-learn's sigmoid calibration minimises the same objective.
- *
- * Isotonic regression: the pool-adjacent-violators fit of a non-decreasing step function,
- * predicted by linear interpolation between its points and clipped outside them (as
- * scikit-learn's IsotonicRegression(out_of_bounds="clip")).
  */
 
 export interface Platt {
@@ -16,14 +12,7 @@ export interface Platt {
   b: number;
 }
 
-export interface Isotonic {
-  kind: 'isotonic';
-  /** Increasing scores and the fitted probability at each. */
-  x: number[];
-  y: number[];
-}
-
-export type Calibrator = Platt | Isotonic;
+export type Calibrator = Platt;
 
 export function fitPlatt(scores: ArrayLike<number>, labels: ArrayLike<number>): Platt {
   const n = scores.length;
@@ -92,77 +81,8 @@ export function fitPlatt(scores: ArrayLike<number>, labels: ArrayLike<number>): 
   return { kind: 'platt', a, b };
 }
 
-/**
- * Weighted pool-adjacent-violators on (score, label) pairs. Equal scores are merged first
- * (their labels averaged), then adjacent blocks that break monotonicity are pooled.
- */
-export function fitIsotonic(scores: ArrayLike<number>, labels: ArrayLike<number>, weights?: ArrayLike<number>): Isotonic {
-  const order = Array.from({ length: scores.length }, (_, i) => i).sort((i, j) => scores[i]! - scores[j]! || i - j);
-  const xs: number[] = [];
-  const ys: number[] = [];
-  const ws: number[] = [];
-  for (const i of order) {
-    const w = weights ? weights[i]! : 1;
-    const last = xs.length - 1;
-    if (last >= 0 && xs[last] === scores[i]) {
-      ys[last] = (ys[last]! * ws[last]! + labels[i]! * w) / (ws[last]! + w);
-      ws[last] = ws[last]! + w;
-    } else {
-      xs.push(scores[i]!);
-      ys.push(labels[i]!);
-      ws.push(w);
-    }
-  }
-  // Blocks: value, weight and the range of points they cover.
-  const bv: number[] = [];
-  const bw: number[] = [];
-  const bstart: number[] = [];
-  for (let i = 0; i < xs.length; i++) {
-    bv.push(ys[i]!);
-    bw.push(ws[i]!);
-    bstart.push(i);
-    while (bv.length > 1 && bv[bv.length - 2]! >= bv[bv.length - 1]!) {
-      const v2 = bv.pop()!;
-      const w2 = bw.pop()!;
-      bstart.pop();
-      const k = bv.length - 1;
-      bv[k] = (bv[k]! * bw[k]! + v2 * w2) / (bw[k]! + w2);
-      bw[k] = bw[k]! + w2;
-    }
-  }
-  const fitted = new Array<number>(xs.length);
-  for (let k = 0; k < bv.length; k++) {
-    const end = k + 1 < bv.length ? bstart[k + 1]! : xs.length;
-    for (let i = bstart[k]!; i < end; i++) fitted[i] = bv[k]!;
-  }
-  // Keep only the points needed for interpolation: the first and last of every flat run.
-  const x: number[] = [];
-  const y: number[] = [];
-  for (let i = 0; i < xs.length; i++) {
-    const flatBefore = i > 0 && fitted[i - 1] === fitted[i];
-    const flatAfter = i + 1 < xs.length && fitted[i + 1] === fitted[i];
-    if (flatBefore && flatAfter) continue;
-    x.push(xs[i]!);
-    y.push(fitted[i]!);
-  }
-  return { kind: 'isotonic', x, y };
-}
-
 export function calibrate(c: Calibrator, s: number): number {
-  if (c.kind === 'platt') {
-    const z = c.a * s + c.b;
-    return z >= 0 ? Math.exp(-z) / (1 + Math.exp(-z)) : 1 / (1 + Math.exp(z));
-  }
-  const { x, y } = c;
-  if (x.length === 0) return 0;
-  if (s <= x[0]!) return y[0]!;
-  if (s >= x[x.length - 1]!) return y[y.length - 1]!;
-  let lo = 0;
-  let hi = x.length - 1;
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if (x[mid]! <= s) lo = mid;
-    else hi = mid;
-  }
-  return y[lo]! + ((y[hi]! - y[lo]!) * (s - x[lo]!)) / (x[hi]! - x[lo]!);
+  // Platt maps only: the product fits no other kind.
+  const z = c.a * s + c.b;
+  return z >= 0 ? Math.exp(-z) / (1 + Math.exp(-z)) : 1 / (1 + Math.exp(z));
 }

@@ -11,7 +11,8 @@
  * Fitting the themes jointly, rather than each as an independent yes/no, makes the best
  * candidate's probability honest: a rival's weakness is evidence for it.
  */
-import { addRidge, backtrack, solveSpd, symmetrise } from './logistic.js';
+import { solveSpd, symmetrise } from '../math/cholesky.js';
+import { addRidge, backtrack } from '../math/newton.js';
 
 export interface ChoiceData {
   /** Row-major features, `k` per row; rows of one set are contiguous. */

@@ -25,9 +25,10 @@
  * gave the parent itself.
  */
 import { TfidfVectorizer, type TfidfState } from '../text/tfidf.js';
-import type { SparseVector } from '../text/vectors.js';
+import type { SparseVector } from '../math/sparse.js';
 import { buildTree, type Tree } from './hierarchy.js';
-import { fitGrouped, sigmoid } from './logistic.js';
+import { sigmoid } from '../math/sigmoid.js';
+import { fitGrouped } from './logistic.js';
 import { chooseThreshold } from './thresholds.js';
 import type { Coding, ModelPassage, ThemeInfo } from './types.js';
 

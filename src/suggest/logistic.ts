@@ -5,6 +5,10 @@
  * batch where per-theme weights could not. Fitted by Newton's method with a ridge penalty.
  */
 
+import { solveSpd, symmetrise } from '../math/cholesky.js';
+import { addRidge, backtrack } from '../math/newton.js';
+import { sigmoid, softplus } from '../math/sigmoid.js';
+
 export interface GroupedData {
   /** Row-major features, `k` per row. */
   x: Float64Array;
@@ -19,14 +23,6 @@ export interface GroupedData {
 export interface GroupedModel {
   weights: number[];
   intercepts: number[];
-}
-
-export function sigmoid(z: number): number {
-  return z >= 0 ? 1 / (1 + Math.exp(-z)) : Math.exp(z) / (1 + Math.exp(z));
-}
-
-function softplus(z: number): number {
-  return z > 0 ? z + Math.log1p(Math.exp(-z)) : Math.log1p(Math.exp(z));
 }
 
 /**
@@ -99,69 +95,4 @@ export function fitGrouped(d: GroupedData, ridge = 1, interceptRidge = 1e-3, tol
     if (change < tol * Math.max(1, Math.abs(f))) return model();
   }
   return model();
-}
-
-/**
- * The penalty's part of a Newton step for weights 0..k-1 (ridge) and k intercepts after them
- * (interceptRidge): added to the gradient and the Hessian's diagonal.
- */
-export function addRidge(grad: Float64Array, hess: Float64Array, beta: Float64Array, k: number, intercepts: number, ridge: number, interceptRidge: number): void {
-  const dim = k + intercepts;
-  for (let j = 0; j < k; j++) {
-    grad[j] = grad[j]! + ridge * beta[j]!;
-    hess[j * dim + j] = hess[j * dim + j]! + ridge;
-  }
-  for (let t = 0; t < intercepts; t++) {
-    grad[k + t] = grad[k + t]! + interceptRidge * beta[k + t]!;
-    hess[(k + t) * dim + k + t] = hess[(k + t) * dim + k + t]! + interceptRidge;
-  }
-}
-
-/** Copies the filled lower triangle of a square matrix to its upper one; returns the matrix. */
-export function symmetrise(m: Float64Array, dim: number): Float64Array {
-  for (let a = 0; a < dim; a++) for (let b = 0; b < a; b++) m[b * dim + a] = m[a * dim + b]!;
-  return m;
-}
-
-/**
- * Backtracking (Armijo) line search from `beta` (objective `f`) along -`step`, whose directional
- * derivative is `gd`: halves the step until the objective falls enough. Moves `beta` and returns
- * the new objective, or null when no step of at least 1e-8 does.
- */
-export function backtrack(beta: Float64Array, f: number, step: Float64Array, gd: number, objective: (b: Float64Array) => number): number | null {
-  for (let t = 1; t > 1e-8; t /= 2) {
-    const next = beta.map((v, j) => v - t * step[j]!);
-    const nf = objective(next);
-    if (nf <= f + 1e-4 * t * gd) {
-      beta.set(next);
-      return nf;
-    }
-  }
-  return null;
-}
-
-/** Solves A x = b for a symmetric positive definite A (Cholesky). */
-export function solveSpd(a: Float64Array, b: Float64Array, n: number): Float64Array {
-  const l = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j <= i; j++) {
-      let s = a[i * n + j]!;
-      for (let m = 0; m < j; m++) s -= l[i * n + m]! * l[j * n + m]!;
-      if (i === j) l[i * n + i] = Math.sqrt(Math.max(s, 1e-12));
-      else l[i * n + j] = s / l[j * n + j]!;
-    }
-  }
-  const y = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let s = b[i]!;
-    for (let m = 0; m < i; m++) s -= l[i * n + m]! * y[m]!;
-    y[i] = s / l[i * n + i]!;
-  }
-  const x = new Float64Array(n);
-  for (let i = n - 1; i >= 0; i--) {
-    let s = y[i]!;
-    for (let m = i + 1; m < n; m++) s -= l[m * n + i]! * x[m]!;
-    x[i] = s / l[i * n + i]!;
-  }
-  return x;
 }

@@ -10,8 +10,8 @@
  * Dense per-theme arrays cover only the terms of labelled passages, stored term-major so scoring
  * one passage against every theme walks memory in order.
  */
-import type { SparseVector } from '../text/vectors.js';
-import { logOddsDelta } from './logodds.js';
+import type { SparseVector } from '../math/sparse.js';
+import { logOddsDelta } from '../math/logodds.js';
 
 export const SIGNALS = 3;
 export const CENTROID = 0;

@@ -24,7 +24,7 @@ import { isStopWord } from '../text/stopwords.js';
 import { withBigrams } from '../text/terms.js';
 import { isFunctionWord } from '../text/stopwords.js';
 import { TfidfVectorizer, type TfidfState } from '../text/tfidf.js';
-import { cosine, type SparseVector } from '../text/vectors.js';
+import { cosine, type SparseVector } from '../math/sparse.js';
 import { calibrate, fitPlatt, type Platt } from './calibrate.js';
 import { choiceLoss, fitChoice, type ChoiceData, type ChoiceModel } from './choice.js';
 import { fitGrouped } from './logistic.js';

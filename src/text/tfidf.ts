@@ -6,7 +6,7 @@
  * rows scaled to unit L2 length. The textbook variants (plain idf = log(n/df), base-10 logs, no
  * idf) are options so the model can be checked against published worked examples.
  */
-import type { SparseVector } from './vectors.js';
+import type { SparseVector } from '../math/sparse.js';
 
 export type IdfKind = 'smooth' | 'plain' | 'none';
 

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { discover } from '../../src/discover/discover.js';
 import type { DiscoverItem } from '../../src/discover/types.js';
-import { seededRandom } from '../../src/measure/random.js';
+import { seededRandom } from '../../src/math/random.js';
 import { adjustedRandIndex } from '../../src/measure/partitions.js';
 import { TfidfVectorizer } from '../../src/text/tfidf.js';
-import { cosine, sum } from '../../src/text/vectors.js';
+import { cosine, sum } from '../../src/math/sparse.js';
 import { kmeansFixture } from './reference.js';
 
 // The invented passages of the reference fixture: three topics of 12 passages each.

@@ -3,7 +3,7 @@ import { kmeans as mlKmeans } from 'ml-kmeans';
 import { describe, expect, it } from 'vitest';
 import { discover } from '../../src/discover/discover.js';
 import { assign, distinctRows, kmeansRestarts, lloyd } from '../../src/discover/kmeans.js';
-import { seededRandom, sampleIndices } from '../../src/measure/random.js';
+import { seededRandom, sampleIndices } from '../../src/math/random.js';
 import { denseRows } from '../../src/discover/represent.js';
 import { adjustedRandIndex } from '../../src/measure/partitions.js';
 import { silhouetteScore } from '../../src/measure/silhouette.js';

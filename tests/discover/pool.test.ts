@@ -106,16 +106,6 @@ describe('the unclaimed pool', () => {
     expect(r.counts).toEqual({ interviewer: 1, short: 1, 'small-talk': 0, coded: 1, 'nothing-to-code': 0, claimed: 1, 'not-scored': 1, unclaimed: 3 });
   });
 
-  it('with novelty scores, pools by novelty at or above the threshold instead of the claim rule', () => {
-    const passages = [passage('t1#1'), passage('t1#2'), passage('t1#3'), passage('t1#4', TALK, 'interviewer')];
-    const suggestions = [sugg('t1#1', [cand('staff', 0.9, true)]), sugg('t1#2', [cand('staff', 0.2, false)]), sugg('t1#3', [cand('staff', 0.2, false)]), sugg('t1#4', [cand('staff', 0.1, false)])];
-    const scores = new Map([['t1#1', 0.8], ['t1#2', 0.1], ['t1#3', 0.5], ['t1#4', 0.9]]);
-    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings: [], novelty: { scores, threshold: 0.5 } });
-    // t1#1 is claimed by Staffing but novel; t1#2 is unclaimed but familiar; the interviewer is out.
-    expect(r.pool.map((p) => [p.id, p.novelty])).toEqual([['t1#1', 0.8], ['t1#3', 0.5]]);
-    expect(r.excluded).toEqual([{ id: 't1#2', reason: 'claimed' }, { id: 't1#4', reason: 'interviewer' }].sort((a, b) => (a.id < b.id ? -1 : 1)));
-  });
-
   it("with claimAt 'any' a parent above threshold claims (the suggester's own flag)", () => {
     const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected }, { claimAt: 'any', rule: 'threshold' });
     expect(r.pool.map((p) => p.id)).toEqual(['t1#5', 't1#8']);

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { denseRows, projectionOf } from '../../src/discover/represent.js';
-import { seededRandom } from '../../src/measure/random.js';
+import { seededRandom } from '../../src/math/random.js';
 import { TfidfVectorizer } from '../../src/text/tfidf.js';
-import { cosine } from '../../src/text/vectors.js';
+import { cosine } from '../../src/math/sparse.js';
 
 // Invented passages.
 const DOCS = [

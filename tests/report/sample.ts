@@ -6,7 +6,7 @@
 
 import { AGREEMENT_CAUTION, KRIPPENDORFF_SOURCE, LANDIS_KOCH_SOURCE, agreementBand, alphaGuidance } from '../../src/measure/bands.js';
 import type { AcceptanceRow, CalibrationRow, ReportCluster, ReportData, ReportTheme } from '../../src/report/types.js';
-import { seededRandom } from '../../src/measure/random.js';
+import { seededRandom } from '../../src/math/random.js';
 
 type Quote = ReportTheme['quotes'][number];
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { choiceLoss, fitChoice, type ChoiceData } from '../../src/suggest/choice.js';
 import { fitGrouped } from '../../src/suggest/logistic.js';
-import { seededRandom as rng } from '../../src/measure/random.js';
+import { seededRandom as rng } from '../../src/math/random.js';
 
 
 /** Sets of three themes (0, 1, 2) plus "none", one row per theme, with given chosen theme (-1 = none). */

@@ -1,6 +1,6 @@
 /** Invented studies for the suggestion tests: a tiny hand-made one and a seeded synthetic one. */
 import type { Coding, ModelPassage, ThemeInfo } from '../../src/suggest/types.js';
-import { seededRandom as rng } from '../../src/measure/random.js';
+import { seededRandom as rng } from '../../src/math/random.js';
 
 export const THEMES: ThemeInfo[] = [
   { id: 'work', parentId: null, name: 'Workload', path: 'Workload', apriori: true, definition: 'How much work there is.', seeds: [] },

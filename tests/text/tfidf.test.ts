@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { idfWeight, TfidfVectorizer } from '../../src/text/tfidf.js';
 import { contentLemmas, withBigrams } from '../../src/text/terms.js';
 import { analyse } from '../../src/text/nlp.js';
-import { cosine, dot, fromEntries, norm, toRecord } from '../../src/text/vectors.js';
+import { cosine, dot, norm, toRecord } from '../../src/math/sparse.js';
 
 const fixture = JSON.parse(readFileSync(new URL('../reference/tfidf.json', import.meta.url), 'utf8')) as {
   train: string[][];
@@ -113,17 +113,6 @@ describe('TF-IDF against scikit-learn TfidfVectorizer(sublinear_tf=True) (tests/
       expect(Object.keys(got).sort()).toEqual(Object.keys(want).sort());
       for (const [t, w] of Object.entries(want)) expect(got[t]).toBeCloseTo(w, 12);
     });
-  });
-});
-
-describe('sparse vectors', () => {
-  it('sorts entries and computes dot, norm and cosine', () => {
-    const a = fromEntries([[5, 2], [1, 1], [3, 0]]);
-    const b = fromEntries([[1, 3], [5, 4], [7, 1]]);
-    expect([...a.indices]).toEqual([1, 5]);
-    expect(dot(a, b)).toBe(1 * 3 + 2 * 4);
-    expect(norm(a)).toBeCloseTo(Math.sqrt(5), 12);
-    expect(cosine(a, b)).toBeCloseTo(11 / (Math.sqrt(5) * Math.sqrt(26)), 12);
   });
 });
 

@@ -48,24 +48,6 @@ export function dot(a: SparseVector, b: SparseVector): number {
   return s;
 }
 
-/** Dot product with a dense array; `map` translates term indices to dense positions (-1 = absent). */
-export function dotDense(a: SparseVector, dense: Float64Array, map?: Int32Array): number {
-  let s = 0;
-  for (let k = 0; k < a.indices.length; k++) {
-    const pos = map ? map[a.indices[k]!]! : a.indices[k]!;
-    if (pos >= 0) s += a.values[k]! * dense[pos]!;
-  }
-  return s;
-}
-
-/** dense += scale * a (same index translation as dotDense). */
-export function addTo(dense: Float64Array, a: SparseVector, scale = 1, map?: Int32Array): void {
-  for (let k = 0; k < a.indices.length; k++) {
-    const pos = map ? map[a.indices[k]!]! : a.indices[k]!;
-    if (pos >= 0) dense[pos] = dense[pos]! + scale * a.values[k]!;
-  }
-}
-
 export function norm(a: SparseVector): number {
   let s = 0;
   for (let k = 0; k < a.values.length; k++) s += a.values[k]! * a.values[k]!;
