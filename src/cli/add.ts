@@ -10,6 +10,7 @@ import { plural, printJson, say, table, warn } from './output.js';
 import { looksLikeName } from '../report/pseudonyms.js';
 import { listAliases } from '../study/aliases.js';
 import { progressBar } from './progress.js';
+import { addJson } from './add-json.js';
 
 interface AddOpts extends StudyOpts {
   replace?: boolean;
@@ -81,7 +82,7 @@ Examples:
       const names = [...new Set(items.flatMap((it) => it.transcripts.flatMap((t) => t.turns.map((u) => u.speaker))))].filter(
         (s): s is string => looksLikeName(s) && !aliased.has(s!),
       );
-      if (opts.json) return printJson({ ...report, speakers_like_names: names });
+      if (opts.json) return printJson(addJson(report, names));
       for (const w of report.warnings) warn(w);
       if (names.length) {
         const shown = names.slice(0, 8).map((n) => `"${n}"`).join(', ') + (names.length > 8 ? `, and ${names.length - 8} more` : '');

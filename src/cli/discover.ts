@@ -6,6 +6,7 @@ import { currentTemplate } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { walk } from '../template/paths.js';
 import { coderName, coderOf, collect, positiveInt, studyCommand, withStudy, type StudyOpts } from './common.js';
+import { discoverJson, promoteJson, triageJson } from './discover-json.js';
 import { wrap } from './marks.js';
 import { plural, printJson, say, table } from './output.js';
 
@@ -38,36 +39,7 @@ Examples:
       await withStudy(opts, (db) => {
         const run = runDiscovery(db, { k: opts.k });
         const pool = run.pool.pool;
-        if (opts.json) {
-          return printJson({
-            run_id: run.runId,
-            k: run.result.k,
-            silhouette: run.result.silhouette,
-            clusters: run.clusters.map((c) => ({
-              cluster_id: c.cluster_id,
-              label: c.label,
-              size: c.size,
-              terms: c.detail.terms.map((t) => t.term),
-              passage_ids: c.passage_ids,
-              term_weights: c.detail.terms,
-              central: c.detail.central,
-              transcripts: c.detail.transcripts,
-              speakers: c.detail.speakers,
-              cohesion: c.cohesion,
-              dismissed_before: c.detail.dismissed_before,
-              nearest_theme: c.detail.nearest_theme?.path ?? null,
-              nearest_theme_id: c.detail.nearest_theme?.theme_id ?? null,
-              closeness: c.detail.nearest_theme?.closeness ?? 0,
-              nearest_top_share: c.detail.nearest_theme?.top_share ?? 0,
-              novelty: c.detail.novelty ?? 1,
-            })),
-            unclaimed: pool.map((p) => p.id),
-            nearest: Object.fromEntries(pool.map((p) => [p.id, p.nearest])),
-            none_fits: Object.fromEntries(pool.map((p) => [p.id, p.noneFits])),
-            none_fits_at: run.noneFitsAt,
-            suppressed: run.result.suppressed,
-          });
-        }
+        if (opts.json) return printJson(discoverJson(run));
         const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
         const counts = run.pool.counts;
         say(`Unclaimed pool: ${plural(pool.length, 'passage')} (left out: ${counts.coded} coded, ${counts['nothing-to-code']} nothing to code, ${counts.claimed} claimed by a theme, ${counts.short} short, ${counts['small-talk']} small talk, ${counts.interviewer} interviewer).`);
@@ -119,7 +91,7 @@ Examples:
       await withStudy(opts, (db) => {
         const coder = coderOf(opts, db);
         const p = promoteCluster(db, resolve(opts.study), cluster, target, coder, opts.note);
-        if (opts.json) return printJson(p);
+        if (opts.json) return printJson(promoteJson(p));
         say(
           p.into_existing
             ? `Cluster ${p.cluster_id}: its ${plural(p.suggestions, 'passage')} are now suggestions of "${p.path}", for review (trellis review --coder ${coder}).`
@@ -160,10 +132,7 @@ Examples:
       await withStudy(opts, (db) => {
         requireTranscripts(db, opts.transcript);
         const { rows, clusters } = triageStudy(db, opts.transcript);
-        if (opts.json) {
-          const labels = new Map(clusters.map((c) => [c.cluster_id, c.label]));
-          return printJson({ transcripts: rows.map((r) => ({ ...r, clusters: r.clusters.map((c) => ({ ...c, label: labels.get(c.clusterId) ?? null })) })) });
-        }
+        if (opts.json) return printJson(triageJson(rows, clusters));
         const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path.split(' > ').pop()!]));
         if (!rows.length) return say('No transcript has passages left to code.');
         const labels = new Map(clusters.map((c) => [c.cluster_id, c.label]));

@@ -5,6 +5,7 @@ import { writtenForms } from '../study/passages.js';
 import { currentTemplate } from '../study/template.js';
 import { probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, table } from './output.js';
+import { profileJson } from './profile-json.js';
 
 const pct = (x: number | null) => (x === null ? 'n/a' : `${Math.round(100 * x)}%`);
 
@@ -22,7 +23,7 @@ export function registerProfile(program: Command): void {
         // Terms as the study writes them (the analysis may spell a lemma otherwise).
         const forms = writtenForms(db, reports.flatMap((r) => r.topTerms.map((t) => t.term)));
         for (const r of reports) r.topTerms = r.topTerms.map((t) => ({ ...t, written: forms.get(t.term) ?? t.term }));
-        if (opts.json) return printJson({ fingerprint: model.fingerprint, themes: reports });
+        if (opts.json) return printJson(profileJson(model.fingerprint, reports));
         for (const r of reports) {
           say(`${r.path}`);
           say(

@@ -81,36 +81,66 @@ Examples:
     }, 3)
     .action(async (opts: ThemeOpts & { perTheme: number }) => {
       await withStudy(opts, (db) => {
-        const only = opts.theme === undefined ? null : themeOf(db, opts.theme).id;
-        const chosen = chosenQuotes(db, opts.perTheme);
-        const choices = listQuoteChoices(db);
-        const entries = [...walk(currentTemplate(db))].filter((e) => only === null || e.node.id === only);
-        const themes = entries.map((e) => ({
-          theme: e.path,
-          theme_id: e.node.id,
-          number: e.number,
-          quotes: (chosen.get(e.node.id) ?? []).map((q) => {
-            const p = getPassage(db, q.passageId)!;
-            return { passage_id: q.passageId, transcript: p.transcript, speaker: p.speaker, pinned: q.pinned, text: p.text };
-          }),
-          dropped: choices.filter((c) => c.themeId === e.node.id && c.choice === 'drop').map((c) => c.passageId),
-          pinned_not_shown: choices
-            .filter((c) => c.themeId === e.node.id && c.choice === 'pin' && !(chosen.get(e.node.id) ?? []).some((q) => q.passageId === c.passageId))
-            .map((c) => c.passageId),
-        }));
-        const kept = choices
-          .filter((c) => only === null || c.themeId === only)
-          .map((c) => ({ theme_id: c.themeId, passage_id: c.passageId, choice: c.choice, at: c.at, coder: c.coder }));
-        if (opts.json) return printJson({ per_theme: opts.perTheme, rules: QUOTE_RULES, themes, choices: kept });
-        const shown = themes.filter((t) => t.quotes.length || t.dropped.length || t.pinned_not_shown.length);
-        if (!shown.length) return say('No quotes yet: no passage is coded to these themes.');
-        for (const t of shown) {
-          say(`\n${t.number} ${t.theme}`);
-          for (const q of t.quotes) say(`  ${q.pinned ? 'pinned' : '      '}  ${q.passage_id}  (${[q.transcript, q.speaker].filter(Boolean).join(', ')})  "${clip(q.text)}"`);
-          if (t.dropped.length) say(`  dropped: ${t.dropped.join(', ')}`);
-          if (t.pinned_not_shown.length) say(`  pinned but no longer coded here: ${t.pinned_not_shown.join(', ')}`);
-        }
-        say(`\n${plural(choices.length, 'choice')} kept (pins and drops). ${QUOTE_RULES}`);
+        const list = quoteList(db, opts.theme === undefined ? null : themeOf(db, opts.theme).id, opts.perTheme);
+        if (opts.json) printJson(quoteListJson(list));
+        else printQuoteList(list);
       });
     });
+}
+
+/** What `quote list` shows: each theme's quotes as the report chooses them, and the choices kept. */
+interface QuoteList {
+  perTheme: number;
+  themes: {
+    theme: string;
+    theme_id: string;
+    number: string;
+    quotes: { passage_id: string; transcript: string; speaker: string | null; pinned: boolean; text: string }[];
+    dropped: string[];
+    pinned_not_shown: string[];
+  }[];
+  /** The pins and drops on the themes listed. */
+  kept: { theme_id: string; passage_id: string; choice: 'pin' | 'drop'; at: string; coder: string }[];
+  /** Every pin and drop in the study. */
+  allChoices: number;
+}
+
+function quoteList(db: Parameters<typeof currentTemplate>[0], only: string | null, perTheme: number): QuoteList {
+  const chosen = chosenQuotes(db, perTheme);
+  const choices = listQuoteChoices(db);
+  const entries = [...walk(currentTemplate(db))].filter((e) => only === null || e.node.id === only);
+  const themes = entries.map((e) => ({
+    theme: e.path,
+    theme_id: e.node.id,
+    number: e.number,
+    quotes: (chosen.get(e.node.id) ?? []).map((q) => {
+      const p = getPassage(db, q.passageId)!;
+      return { passage_id: q.passageId, transcript: p.transcript, speaker: p.speaker, pinned: q.pinned, text: p.text };
+    }),
+    dropped: choices.filter((c) => c.themeId === e.node.id && c.choice === 'drop').map((c) => c.passageId),
+    pinned_not_shown: choices
+      .filter((c) => c.themeId === e.node.id && c.choice === 'pin' && !(chosen.get(e.node.id) ?? []).some((q) => q.passageId === c.passageId))
+      .map((c) => c.passageId),
+  }));
+  const kept = choices
+    .filter((c) => only === null || c.themeId === only)
+    .map((c) => ({ theme_id: c.themeId, passage_id: c.passageId, choice: c.choice, at: c.at, coder: c.coder }));
+  return { perTheme, themes, kept, allChoices: choices.length };
+}
+
+/** docs/schema/quote-list.schema.json */
+function quoteListJson(l: QuoteList) {
+  return { per_theme: l.perTheme, rules: QUOTE_RULES, themes: l.themes, choices: l.kept };
+}
+
+function printQuoteList(l: QuoteList): void {
+  const shown = l.themes.filter((t) => t.quotes.length || t.dropped.length || t.pinned_not_shown.length);
+  if (!shown.length) return say('No quotes yet: no passage is coded to these themes.');
+  for (const t of shown) {
+    say(`\n${t.number} ${t.theme}`);
+    for (const q of t.quotes) say(`  ${q.pinned ? 'pinned' : '      '}  ${q.passage_id}  (${[q.transcript, q.speaker].filter(Boolean).join(', ')})  "${clip(q.text)}"`);
+    if (t.dropped.length) say(`  dropped: ${t.dropped.join(', ')}`);
+    if (t.pinned_not_shown.length) say(`  pinned but no longer coded here: ${t.pinned_not_shown.join(', ')}`);
+  }
+  say(`\n${plural(l.allChoices, 'choice')} kept (pins and drops). ${QUOTE_RULES}`);
 }

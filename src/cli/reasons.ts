@@ -53,6 +53,7 @@ export function reasonText(r: Reason, snippets: Snippets): string {
 
 /** The reason with its readable text, and the exemplar's transcript and snippet, for --json. */
 export function reasonJson(r: Reason, snippets: Snippets): Record<string, unknown> {
+  if (r.kind === 'cluster') return { kind: r.kind, cluster_id: r.clusterId, label: r.label, similarity: r.similarity, text: reasonText(r, snippets) };
   if (r.kind !== 'exemplar') return { ...r, text: reasonText(r, snippets) };
   return {
     kind: r.kind,

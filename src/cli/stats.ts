@@ -8,6 +8,7 @@ import { walk } from '../template/paths.js';
 import { collect, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table } from './output.js';
 import { getPassage } from '../study/passages.js';
+import { agreementJson, statsJson } from './stats-json.js';
 
 const pct = (x: number | null) => (x === null ? '-' : `${(100 * x).toFixed(0)}%`);
 const fix = (x: number | null, d = 2) => (x === null ? '-' : x.toFixed(d));
@@ -48,7 +49,7 @@ Examples:
     .action(async (opts: StudyOpts & { excludeBulk?: boolean }) => {
       await withStudy(opts, (db) => {
         const s = studyStats(db, { excludeBulk: opts.excludeBulk });
-        if (opts.json) return printJson(s);
+        if (opts.json) return printJson(statsJson(s));
         const name = themeNames(db);
         const a = s.acceptance;
         say(`Decisions: ${a.overall.decided} decided (${a.overall.accepted} accepted, ${a.overall.recoded} re-coded, ${a.overall.rejected} rejected), ${a.overall.deferred} deferred`);
@@ -126,7 +127,7 @@ Examples:
         const unknown = opts.coders.filter((c) => c !== TOOL_CODER && !known.includes(c));
         if (unknown.length) throw new UserError(`no coder named ${unknown.map((c) => `"${c}"`).join(', ')} has coded or decided anything in this study (coders: ${known.join(', ') || 'none yet'})`);
         const r = agreement(db, { coders: opts.coders, transcripts: opts.transcript });
-        if (opts.json) return printJson(r);
+        if (opts.json) return printJson(agreementJson(r));
         const name = themeNames(db);
         say(`Coders: ${r.coders.join(', ')}. Units: ${plural(r.pairablePassages, 'participant passage')} reviewed by two or more of them (coded, decided on, or marked nothing to code).`);
         if (!r.pairablePassages) {

@@ -4,6 +4,7 @@ import { studyStatus, type ThemeCount } from '../study/status.js';
 import { currentTemplate } from '../study/template.js';
 import { studyCommand, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, table } from './output.js';
+import { statusJson } from './status-json.js';
 
 /** What a researcher should make of a theme's suggestions. */
 function strengthText(s: ThemeCount['strength']): string {
@@ -28,10 +29,7 @@ export function registerStatus(program: Command): void {
         const t = currentTemplate(db);
         const names = new Map([...walk(t)].map((e) => [e.node.id, { path: e.path, number: e.number, depth: e.depth }]));
         if (opts.json) {
-          return printJson({
-            ...s,
-            perTheme: s.perTheme.map((c) => ({ ...c, path: names.get(c.id)?.path, number: names.get(c.id)?.number })),
-          });
+          return printJson(statusJson(s, names));
         }
         const pct = s.passages.participant ? Math.round((100 * s.coded) / s.passages.participant) : 0;
         say(`Transcripts: ${s.transcripts}`);

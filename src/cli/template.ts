@@ -6,7 +6,7 @@ import { readInputFile } from '../ingest/limits.js';
 import { addTheme, mergeThemes, moveTheme, renameTheme, retireTheme, splitTheme } from '../template/ops.js';
 import { findByPath, splitPathList, walk, type WalkEntry } from '../template/paths.js';
 import { describeChange } from '../template/describe.js';
-import type { Revised, Template, ThemeNode } from '../template/types.js';
+import type { Revised, Template } from '../template/types.js';
 import { currentCodings } from '../study/codings.js';
 import { integrativeCoverage } from '../measure/integrative.js';
 import { themeCounts } from '../study/status.js';
@@ -14,6 +14,7 @@ import { reviseTemplate, setTemplate, type RevisionResult } from '../study/revis
 import { currentRevision, revisionHistory } from '../study/template.js';
 import { coderName, coderOf, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, warn } from './output.js';
+import { templateShowJson } from './template-json.js';
 
 type Opts = StudyOpts & { reason?: string; coder?: string };
 
@@ -104,33 +105,12 @@ Examples:
     await withStudy(opts, (db) => {
       const rev = currentRevision(db);
       if (!rev) {
-        if (opts.json) return printJson({ revision: null, themes: [] });
+        if (opts.json) return printJson(templateShowJson(null, null, new Map(), []));
         return say('No template yet: write one in template.txt and run "trellis template set template.txt".');
       }
       const counts = new Map(themeCounts(db, rev.template).map((c) => [c.id, c]));
-      if (opts.json) {
-        // Built by a walk, not recursion: depth is unlimited.
-        const themes: unknown[] = [];
-        const kids = new Map<ThemeNode, unknown[]>();
-        for (const { node: n, parent } of walk(rev.template)) {
-          const children: unknown[] = [];
-          kids.set(n, children);
-          (parent ? kids.get(parent)! : themes).push({
-            id: n.id,
-            name: n.name,
-            apriori: n.apriori,
-            integrative: !!n.integrative,
-            definition: n.definition,
-            include: n.include,
-            exclude: n.exclude,
-            seeds: n.seeds,
-            passages: counts.get(n.id)?.direct ?? 0,
-            passages_with_subthemes: counts.get(n.id)?.total ?? 0,
-            children,
-          });
-        }
-        return printJson({ revision: rev.rev, themes, integrative: integrativeCoverage(rev.template, currentCodings(db).map((c) => ({ passageId: c.passage_id, themeId: c.theme_id }))) });
-      }
+      const across = integrativeCoverage(rev.template, currentCodings(db).map((c) => ({ passageId: c.passage_id, themeId: c.theme_id })));
+      if (opts.json) return printJson(templateShowJson(rev.rev, rev.template, counts, across));
       say(`Template revision ${rev.rev} (${rev.created_at.slice(0, 16).replace('T', ' ')}, ${rev.action})`);
       const line = (e: WalkEntry) => {
         const c = counts.get(e.node.id)!;
@@ -139,7 +119,6 @@ Examples:
       };
       const entries = [...walk(rev.template)];
       entries.filter((e) => !e.integrative).forEach(line);
-      const across = integrativeCoverage(rev.template, currentCodings(db).map((c) => ({ passageId: c.passage_id, themeId: c.theme_id })));
       if (across.length) {
         say('\nIntegrative themes (they run across the themes above and are coded alongside any of them):');
         entries.filter((e) => e.integrative).forEach(line);

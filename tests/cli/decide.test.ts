@@ -43,7 +43,7 @@ describe('decide, undo and the decision log', () => {
     json(dir, ['decide', String(d!.suggestion_id), 'defer', '--coder', 'ana']);
 
     const status = json(dir, ['status']);
-    expect(status.perCoder).toContainEqual({ coder: 'ana', codings: 2, passages: 2 });
+    expect(status.per_coder).toContainEqual({ coder: 'ana', codings: 2, passages: 2 });
     const log = json(dir, ['log']).decisions;
     expect(log.map((e: { action: string }) => e.action)).toEqual(['accept', 'reject', 'recode', 'defer']);
     expect(log[1].note).toBe('not about this');
@@ -73,7 +73,7 @@ describe('decide, undo and the decision log', () => {
     expect(u.undoes).toBe(log.find((e: { action: string }) => e.action === 'defer').id);
     const u2 = json(dir, ['undo', '--coder', 'ana']); // next: the re-code, whose coding is withdrawn
     expect(log.find((e: { id: number }) => e.id === u2.undoes).action).toBe('recode');
-    expect(json(dir, ['status']).perCoder).toContainEqual({ coder: 'ana', codings: 1, passages: 1 });
+    expect(json(dir, ['status']).per_coder).toContainEqual({ coder: 'ana', codings: 1, passages: 1 });
     const db = new Database(join(dir, 'study.db'));
     expect(() => db.prepare('DELETE FROM decisions').run()).toThrow(/append-only/);
     expect(() => db.prepare("UPDATE decisions SET action = 'accept'").run()).toThrow(/append-only/);

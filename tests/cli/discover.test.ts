@@ -135,7 +135,7 @@ describe('discover, promote, dismiss and triage', () => {
     const log = json(dir, ['log']).decisions;
     expect(log.at(-1)).toMatchObject({ action: 'promote', cluster_id: c.cluster_id, note: 'printed lists and crib sheets' });
     // The suggestions can be decided like any other.
-    const sugId = (trellis(['decide', '--help'], dir), p.runId);
+    const sugId = (trellis(['decide', '--help'], dir), p.run_id);
     expect(sugId).toBeGreaterThan(0);
     const again = trellis(['promote', String(c.cluster_id), '--name', 'Again'], dir, { TRELLIS_CODER: 'priya' });
     expect(again.status).toBe(1);
@@ -153,10 +153,10 @@ describe('discover, promote, dismiss and triage', () => {
     expect(p).toMatchObject({ cluster_id: c.cluster_id, into_existing: true, path: 'Workload', suggestions: c.size });
     expect(json(dir, ['template', 'history']).revisions.length).toBe(revs);
     const db = new Database(join(dir, 'study.db'), { readonly: true });
-    const rows = db.prepare('SELECT passage_id, theme_id FROM suggestions WHERE run_id = ? ORDER BY passage_id').all(p.runId) as { passage_id: string; theme_id: string }[];
+    const rows = db.prepare('SELECT passage_id, theme_id FROM suggestions WHERE run_id = ? ORDER BY passage_id').all(p.run_id) as { passage_id: string; theme_id: string }[];
     db.close();
     expect(rows.map((r) => r.passage_id)).toEqual([...c.passage_ids].sort());
-    expect(new Set(rows.map((r) => r.theme_id))).toEqual(new Set([p.themeId]));
+    expect(new Set(rows.map((r) => r.theme_id))).toEqual(new Set([p.theme_id]));
     expect(json(dir, ['log']).decisions.at(-1)).toMatchObject({ action: 'promote', cluster_id: c.cluster_id, chosen_path: 'Workload' });
     expect(trellis(['log'], dir, { TRELLIS_CODER: 'priya' }).stdout).toContain(`promoted cluster ${c.cluster_id} into Workload`);
   });
@@ -175,14 +175,14 @@ describe('discover, promote, dismiss and triage', () => {
   });
 
   it('triages the uncoded and the partly coded transcripts, most unclaimed first', () => {
-    const t = json(dir, ['triage']).transcripts as { transcript: string; unclaimedShare: number; partly_coded: boolean; coded_passages: number; substantivePassages: number }[];
+    const t = json(dir, ['triage']).transcripts as { transcript: string; unclaimed_share: number; partly_coded: boolean; coded_passages: number; substantive_passages: number }[];
     // The first batch (t01-t04) is coded but for a few passages: each is ranked by what is left.
     const partly = t.filter((r) => r.partly_coded).map((r) => r.transcript).sort();
     expect(partly).toEqual(['t01-larch-staff-nurse', 't02-kestrel-fy1', 't03-harbour-hca', 't04-orchard-staff-nurse']);
     for (const r of t) expect(r.partly_coded).toBe(r.coded_passages > 0);
-    expect(t.find((r) => r.transcript === 't01-larch-staff-nurse')!.substantivePassages).toBeLessThan(t.find((r) => r.transcript === 't01-larch-staff-nurse')!.coded_passages);
+    expect(t.find((r) => r.transcript === 't01-larch-staff-nurse')!.substantive_passages).toBeLessThan(t.find((r) => r.transcript === 't01-larch-staff-nurse')!.coded_passages);
     expect(t.length).toBe(12);
-    const shares = t.map((r) => r.unclaimedShare);
+    const shares = t.map((r) => r.unclaimed_share);
     expect(shares).toEqual([...shares].sort((a, b) => b - a));
   });
 });

@@ -82,8 +82,8 @@ describe('trellis add', () => {
     );
     write(dir, 'nadia.txt', edited);
     const r = JSON.parse(trellis(['add', 'nadia.txt', '--replace', '--json'], dir).stdout);
-    expect(r.keptCodings).toBe(1);
-    expect(r.movedCodings).toBe(1);
+    expect(r.kept_codings).toBe(1);
+    expect(r.moved_codings).toBe(1);
     expect(r.unplaced).toEqual([]);
     expect(trellis(['export', 'codings', '--format', 'json', '--out', 'c.json'], dir).status).toBe(0);
     const codings = JSON.parse(readFileSync(join(dir, 'c.json'), 'utf8')).codings as { passage_id: string; theme: string }[];
@@ -148,9 +148,9 @@ describe('inline codes', () => {
     const dir = seededStudy();
     write(dir, 'coded.txt', 'Interviewer: Go on.\n\nLee: We never have enough staff on nights. {theme: Workload > Staffing levels; Team communication}\n');
     const r = JSON.parse(trellis(['add', 'coded.txt', '--coder', 'lee-coder', '--json'], dir).stdout);
-    expect(r.inlineCodings).toBe(2);
+    expect(r.inline_codings).toBe(2);
     const s = JSON.parse(trellis(['status', '--json'], dir).stdout);
-    expect(s.perCoder).toContainEqual({ coder: 'lee-coder', codings: 2, passages: 1 });
+    expect(s.per_coder).toContainEqual({ coder: 'lee-coder', codings: 2, passages: 1 });
     write(dir, 'typo.txt', 'Interviewer: Go on.\n\nLee: Short again.\n{theme: Workload > Stafing}\n');
     expectRefused(dir, ['add', 'typo.txt'], /typo\.txt:3: .*Stafing/);
   });

@@ -81,7 +81,7 @@ describe('trellis nocode', () => {
     const top = back.passages.find((p) => p.candidates.length && p.passage_id !== marked[1])!;
     json(dir, ['decide', String(top.candidates[0]!.suggestion_id), 'accept', '--coder', 'ana']);
     const ag = json(dir, ['agree', '--coders', 'ana,trellis']);
-    expect(ag.pairablePassages).toBe(2);
+    expect(ag.pairable_passages).toBe(2);
     expect(ag.circularity).toMatch(/partly circular/);
     expect(ag.accepted_codings).toEqual([{ coder: 'ana', codings: 1, accepted: 1 }]);
     expect(trellis(['agree', '--coders', 'ana,trellis'], dir).stdout).toMatch(/ana: 1 of 1 coding on these units made by accepting a suggestion/);

@@ -42,7 +42,7 @@ describe('report and codebook figures', () => {
 
   it('prints the summary figures of status and stats', () => {
     const c = cards(html);
-    const codedTranscripts = status.perTranscript.filter((t: any) => t.coded > 0).length;
+    const codedTranscripts = status.per_transcript.filter((t: any) => t.coded > 0).length;
     expect(status.coded_transcripts).toBe(codedTranscripts);
     expect(codedTranscripts).toBeLessThan(status.transcripts); // the demo codes only some
     expect(c.get('transcripts')).toEqual({ v: String(status.transcripts), s: `${codedTranscripts} with codings` });
@@ -59,8 +59,8 @@ describe('report and codebook figures', () => {
   it('counts every theme as status does, in the report and the codebook', () => {
     const rows = [...html.matchAll(/<tr class="(?:top|sub)"><td class="nowrap">([^<]+)<\/td><td class="theme"[^>]*>.*?<\/td><td class="num">(\d+)<\/td><td class="num">(\d+)<\/td><\/tr>/g)];
     const byNumber = new Map(rows.map((m) => [m[1]!, [Number(m[2]), Number(m[3])]]));
-    expect(byNumber.size).toBe(status.perTheme.length);
-    for (const t of status.perTheme) expect(byNumber.get(t.number), t.path).toEqual([t.direct, t.total]);
+    expect(byNumber.size).toBe(status.per_theme.length);
+    for (const t of status.per_theme) expect(byNumber.get(t.number), t.path).toEqual([t.direct, t.total]);
 
     expect(trellis(['codebook', '--format', 'csv', '--out', 'cb.csv'], dir).status).toBe(0);
     const records = parse(readFileSync(join(dir, 'cb.csv'), 'utf8'), { relax_column_count: true, bom: true }) as string[][];
@@ -69,7 +69,7 @@ describe('report and codebook figures', () => {
     const direct = cols.indexOf('passages_direct');
     const total = cols.indexOf('passages_total');
     const byRow = new Map(records.slice(head + 1).map((r) => [r[0]!, [Number(r[direct]), Number(r[total])]]));
-    for (const t of status.perTheme) expect(byRow.get(t.number), t.path).toEqual([t.direct, t.total]);
+    for (const t of status.per_theme) expect(byRow.get(t.number), t.path).toEqual([t.direct, t.total]);
 
     expect(trellis(['codebook', '--out', 'cb.md'], dir).status).toBe(0);
     const md = readFileSync(join(dir, 'cb.md'), 'utf8');

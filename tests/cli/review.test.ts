@@ -60,7 +60,7 @@ function log(dir: string): LogEntry[] {
 function status(dir: string) {
   const r = trellis(['status', '--json'], dir);
   expect(r.status, r.stderr).toBe(0);
-  return JSON.parse(r.stdout) as { coded: number; perCoder: { coder: string; codings: number; passages: number }[] };
+  return JSON.parse(r.stdout) as { coded: number; per_coder: { coder: string; codings: number; passages: number }[] };
 }
 
 /** Current codings of one coder, as "passage -> theme path", read from the study file. */
@@ -234,7 +234,7 @@ describe('trellis review', () => {
     ]);
     const after = status(dir);
     expect(after.coded).toBe(before.coded + 2);
-    expect(after.perCoder.find((c) => c.coder === 'ana')).toEqual({ coder: 'ana', codings: 2, passages: 2 });
+    expect(after.per_coder.find((c) => c.coder === 'ana')).toEqual({ coder: 'ana', codings: 2, passages: 2 });
   });
 
   it('scrolls a passage that does not fit a short terminal with the arrow keys', async () => {
@@ -282,7 +282,7 @@ describe('trellis review', () => {
     expect(await t.quit()).toBe(0);
     const mine = codingsOf(dir, 'ana').filter((c) => c.passage === p1);
     expect(mine.map((c) => c.theme).sort()).toEqual([first!, second!, allergies].sort());
-    expect(status(dir).perCoder.find((c) => c.coder === 'ana')).toEqual({ coder: 'ana', codings: 3, passages: 1 });
+    expect(status(dir).per_coder.find((c) => c.coder === 'ana')).toEqual({ coder: 'ana', codings: 3, passages: 1 });
   });
 
   it('creates a new sub-theme on the spot: a template revision, and the passage coded to it', async () => {

@@ -29,7 +29,7 @@ describe('trellis agree', () => {
     // Worked by hand (the standard formula): both present 4, one each alone, both absent 4:
     // p_o = 0.8, p_e = 0.5 x 0.5 + 0.5 x 0.5 = 0.5, kappa = (0.8 - 0.5) / (1 - 0.5) = 0.6.
     expect(queues.units).toBe(10);
-    expect(queues.percentAgreement).toBeCloseTo(0.8, 10);
+    expect(queues.percent_agreement).toBeCloseTo(0.8, 10);
     expect(queues.kappa.value).toBeCloseTo(0.6, 10);
     expect(queues.kappa.band).toBe('moderate');
     // Alpha, nominal, worked by hand with Krippendorff's coincidence matrix: n = 20 values,
@@ -38,13 +38,13 @@ describe('trellis agree', () => {
     expect(queues.alpha.value).toBeCloseTo(0.62, 10);
     // Krippendorff's guidance: 0.62 is below his 0.667 for tentative conclusions.
     expect(queues.alpha.guidance).toBe('unreliable');
-    expect(r.pairablePassages).toBe(10);
-    expect(r.bandsSource).toMatch(/Landis.*Koch.*1977/);
+    expect(r.pairable_passages).toBe(10);
+    expect(r.bands_source).toMatch(/Landis.*Koch.*1977/);
     expect(r.guidance_source).toMatch(/Krippendorff.*\.800.*\.667/);
     // The two passages the coders differ on, by theme.
     expect(r.disagreements).toEqual([
-      { theme_id: queues.themeId, passage_id: 'notes#5', applied_by: ['ann'], not_by: ['ben'] },
-      { theme_id: queues.themeId, passage_id: 'notes#6', applied_by: ['ben'], not_by: ['ann'] },
+      { theme_id: queues.theme_id, passage_id: 'notes#5', applied_by: ['ann'], not_by: ['ben'] },
+      { theme_id: queues.theme_id, passage_id: 'notes#6', applied_by: ['ben'], not_by: ['ann'] },
     ]);
     expect(r.circularity).toBeNull(); // no coding came from an accepted suggestion
     const text = trellis(['agree', '--coders', 'ann,ben'], dir).stdout;
@@ -94,7 +94,7 @@ describe('trellis stats', () => {
     const g = s.template_growth;
     const last = g.curve.at(-1);
     expect(last.transcript).toBe('t05-ward9-fy2');
-    expect(last.entered).toContainEqual({ id: expect.any(String), path: 'Paper workarounds', topLevel: true, how: 'added' });
+    expect(last.entered).toContainEqual({ id: expect.any(String), path: 'Paper workarounds', top_level: true, how: 'added' });
     expect(g.curve.slice(0, 4).map((p: { transcript: string }) => p.transcript)).toEqual(files.slice(0, 4).map((f) => f.replace(/\.\w+$/, '')));
     expect(g.curve[0].entered.length).toBeGreaterThan(0);
     expect(g.curve[0].entered.every((e: { how: string }) => e.how === 'coded')).toBe(true);

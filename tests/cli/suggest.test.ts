@@ -87,12 +87,12 @@ describe('trellis suggest', () => {
     const [t] = JSON.parse(r.stdout).themes;
     expect(t.path).toBe('Patient safety > Deterioration and escalation');
     expect(t.exemplars).toBe(10);
-    expect(t.topTerms.length).toBeGreaterThan(3);
-    expect(t.topTerms.map((x: { term: string }) => x.term)).toEqual(expect.arrayContaining(['score']));
+    expect(t.top_terms.length).toBeGreaterThan(3);
+    expect(t.top_terms.map((x: { term: string }) => x.term)).toEqual(expect.arrayContaining(['score']));
     const all = JSON.parse(trellis(['profile', '--json'], dir).stdout).themes;
     const allergies = all.find((x: { path: string }) => x.path.endsWith('> Allergies'));
-    expect(allergies.tooFew).toBe(true);
-    expect(allergies.expectedPrecision).toBeNull();
+    expect(allergies.too_few).toBe(true);
+    expect(allergies.expected_precision).toBeNull();
   });
 });
 
@@ -135,7 +135,7 @@ describe('trellis suggest after a first batch of three coded transcripts', () =>
   it("profiles the themes' top terms as the study writes them (British spelling kept)", () => {
     const r = trellis(['profile', '--json', '--terms', '30'], dir);
     expect(r.status, r.stderr).toBe(0);
-    const terms = (JSON.parse(r.stdout).themes as { topTerms: { term: string; written: string }[] }[]).flatMap((t) => t.topTerms);
+    const terms = (JSON.parse(r.stdout).themes as { top_terms: { term: string; written: string }[] }[]).flatMap((t) => t.top_terms);
     expect(terms.length).toBeGreaterThan(20);
     for (const t of terms) expect(typeof t.written).toBe('string');
     // The analysis spells the lemma "center"; the interviews write "centre".
