@@ -8,7 +8,7 @@
 // made by `script`, timed until the first passage and its key line are drawn), beside the
 // scikit-learn peer's vectorise + fit + predict and KMeans on the same passages, in the same run.
 //
-//   node bench/scale.mjs [--max N] [--transcripts N] [--studies survey,interviews]
+//   node bench/scale.mjs [--max N] [--transcripts N] [--studies survey,interviews] [--table]
 //   env SCALE=0.25 (shrink both full sizes), SIZES=0.125,0.25,0.5,1 (fractions of the full size)
 //
 // Raw figures go to bench/out/scale.json. A benchmark, not a test: the machine is shared and
@@ -221,8 +221,9 @@ async function runStudy(kind, n) {
 
 // ---------------------------------------------------------------- the run and the tables
 
-const results = [];
-for (const kind of studies) {
+// --table: print the tables of the last run (bench/out/scale.json) without running anything.
+const results = args.includes('--table') ? JSON.parse(readFileSync(join(root, 'bench', 'out', 'scale.json'), 'utf8')).results : [];
+for (const kind of args.includes('--table') ? [] : studies) {
   const full = kind === 'survey' ? fullSurvey : fullTranscripts;
   for (const f of sizes) {
     const n = Math.max(kind === 'survey' ? 50 : 5, Math.round(full * f));
@@ -243,7 +244,7 @@ for (const kind of studies) {
   lines.push('', `### ${kind}: ${rs.map((r) => `${r.size} ${kind === 'survey' ? 'answers' : 'transcripts'} (${r.passages} passages, ${r.coded} coded)`).join(', ')}`, '');
   if (full.repeats) lines.push(`The ${full.repeats.base} transcripts of fewshot.py, repeated under new names t0001…; only the first ${full.repeats.batch} (the first batch) are coded.`, '');
   lines.push('Each cell: wall seconds / seconds per 1,000 passages / peak MiB.', '');
-  row(['step', ...rs.map((r) => `${r.passages} passages`), 'target at full size']);
+  row(['step', ...rs.map((r) => `${r.passages} passages`), 'target, at the largest size run']);
   row(Array(rs.length + 2).fill('---'));
   const cell = (s, r) => (s?.failed ? 'failed' : s ? `${s.wall.toFixed(2)} / ${((s.wall / r.passages) * 1000).toFixed(3)} / ${s.maxRssMiB.toFixed(0)}` : '-');
   const ratio = (a, b) => (a && b ? (a / b).toFixed(1) : '-');
