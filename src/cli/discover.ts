@@ -2,6 +2,7 @@ import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { dismissCluster, promoteCluster, runDiscovery, triageStudy } from '../study/discovery.js';
+import { passageCount } from '../study/passages.js';
 import { currentTemplate } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { walk } from '../template/paths.js';
@@ -9,6 +10,7 @@ import { coderName, coderOf, collect, positiveInt, studyCommand, withStudy, type
 import { discoverJson, promoteJson, triageJson } from './discover-json.js';
 import { wrap } from './marks.js';
 import { plural, printJson, say, table } from './output.js';
+import { workingNote } from './progress.js';
 
 const pct = (x: number) => `${Math.round(100 * x)}%`;
 const clip = (s: string, n: number) => {
@@ -37,6 +39,7 @@ Examples:
     )
     .action(async (opts: StudyOpts & { k?: number }) => {
       await withStudy(opts, (db) => {
+        workingNote(`Scoring ${plural(passageCount(db), 'passage')} and clustering the unclaimed ones...`, { json: opts.json, passages: passageCount(db) });
         const run = runDiscovery(db, { k: opts.k });
         const pool = run.pool.pool;
         if (opts.json) return printJson(discoverJson(run));
@@ -131,6 +134,7 @@ Examples:
     .action(async (opts: StudyOpts & { transcript?: string[] }) => {
       await withStudy(opts, (db) => {
         requireTranscripts(db, opts.transcript);
+        workingNote(`Scoring ${plural(passageCount(db), 'passage')}...`, { json: opts.json, passages: passageCount(db) });
         const { rows, clusters } = triageStudy(db, opts.transcript);
         if (opts.json) return printJson(triageJson(rows, clusters));
         const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path.split(' > ').pop()!]));

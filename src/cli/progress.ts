@@ -24,3 +24,13 @@ export function progressBar(
   bar.start(total, 0);
   return { tick: (done) => bar.update(done), stop: () => bar.stop() };
 }
+
+/**
+ * One line on stderr before a long step whose work cannot be counted from here (the analysis
+ * gives no progress callback): at least the coder knows trellis is working. Silent under --json,
+ * when stderr is not a terminal, and for studies smaller than `from` passages.
+ */
+export function workingNote(text: string, opts: { json?: boolean; passages: number; from?: number }): void {
+  if (opts.json || !process.stderr.isTTY || opts.passages < (opts.from ?? 2000)) return;
+  process.stderr.write(`${text}\n`);
+}

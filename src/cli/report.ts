@@ -3,9 +3,11 @@ import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { reportCautions } from '../report/cautions.js';
 import { renderCodebook, renderReport, type CodebookFormat } from '../report/index.js';
+import { passageCount } from '../study/passages.js';
 import { reportData } from '../study/report-data.js';
 import { checkOut, forceOption, studyCommand, withStudy, writeOut, type OutputOpts } from './common.js';
-import { printJson, say } from './output.js';
+import { plural, printJson, say } from './output.js';
+import { workingNote } from './progress.js';
 
 export function registerReport(program: Command): void {
   forceOption(studyCommand(program, 'report', 'write the study report: one self-contained HTML file with charts, opens offline'))
@@ -29,9 +31,10 @@ Examples:
     )
     .action(async (opts: OutputOpts & { title?: string; pseudonymise?: boolean }) => {
       checkOut(opts);
-      const html = await withStudy(opts, (db) =>
-        renderReport(reportData(db, { studyDir: opts.study, title: opts.title, quotes: 3, cautions: reportCautions, pseudonymise: opts.pseudonymise === true })),
-      );
+      const html = await withStudy(opts, (db) => {
+        workingNote(`Gathering the report's figures over ${plural(passageCount(db), 'passage')}...`, { json: opts.json, passages: passageCount(db) });
+        return renderReport(reportData(db, { studyDir: opts.study, title: opts.title, quotes: 3, cautions: reportCautions, pseudonymise: opts.pseudonymise === true }));
+      });
       writeOut(opts, html);
       if (opts.json) printJson({ out: resolve(opts.out), bytes: Buffer.byteLength(html), pseudonymised: opts.pseudonymise === true });
       else say(`Wrote the report to ${resolve(opts.out)} (open it in any browser; it needs no network).`);

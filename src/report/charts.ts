@@ -48,7 +48,9 @@ export function heatmapChart(data: ReportData): string | null {
   if (!transcripts.length || !themes.length) return null;
   const label = themeLabeller(data.themes);
   const rows = themes.map((path, i) => ({ ...label(path), counts: counts[i] ?? [] }));
-  const max = Math.max(0, ...rows.flatMap((r) => r.counts));
+  // A loop, not a spread: themes x transcripts cells overflow the call stack in a large survey.
+  let max = 0;
+  for (const r of rows) for (const c of r.counts) if (c > max) max = c;
 
   const size = 12;
   const indent = 14;
