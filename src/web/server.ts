@@ -60,7 +60,8 @@ function send(res: ServerResponse, status: number, type: string, body: string, c
     'Content-Type': type,
     'Content-Security-Policy': csp,
     'X-Content-Type-Options': 'nosniff',
-    'Referrer-Policy': 'no-referrer',
+    // Not no-referrer: with it the browser sends "Origin: null" on our own form posts.
+    'Referrer-Policy': 'same-origin',
     'Cache-Control': 'no-store',
     'Cross-Origin-Resource-Policy': 'same-origin',
   });
@@ -111,6 +112,10 @@ export function startServer(o: ServeOptions): Promise<Serving> {
     if (get && path === '/assets/page.css') return send(res, 200, 'text/css; charset=utf-8', CSS);
     if (get && path === '/assets/page.js') return send(res, 200, 'text/javascript; charset=utf-8', JS);
     if (get && path === '/') return back(res, '/review');
+    if (get && path === '/favicon.ico') {
+      res.writeHead(204).end();
+      return;
+    }
     if (path === '/review') {
       if (get) return html(res, 'Review', '/review', reviewPage(review.view()));
       const a = parseAct(await readForm(req));

@@ -153,6 +153,9 @@ export class WebReview {
     if (!it) throw new UserError('the queue is done: nothing to decide');
     const c = it.candidates[n - 1];
     if (!c) throw new UserError(`there is no candidate ${n} for this passage`);
+    // Another session (a terminal review, another tab) may have decided it since the page was drawn.
+    const claim = claimOn(this.db, it.passageId, this.tally.ids);
+    if (claim) throw new AlreadyDecided(it.passageId, claim);
     const s = this.states(it)[n - 1];
     if (s !== 'open') throw new UserError(`candidate ${n} (${c.path}) is ${s} already; undo changes that`);
     return c;
