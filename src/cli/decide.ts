@@ -2,10 +2,11 @@ import type { Command } from 'commander';
 import { UserError } from '../errors.js';
 import { acceptAllAbove, decide, markNothingToCode, undo, type Action, type DecisionRow } from '../study/decisions.js';
 import { currentTemplate } from '../study/template.js';
-import { pathOf } from '../template/paths.js';
-import type { Template } from '../template/types.js';
+import { describeDecision } from '../review/describe.js';
 import { coderName, coderOf, probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say } from './output.js';
+
+export { describeDecision };
 
 interface DecideOpts extends StudyOpts {
   theme?: string;
@@ -15,37 +16,6 @@ interface DecideOpts extends StudyOpts {
 }
 
 /** The coder must be named for the audit trail: --coder, or $TRELLIS_CODER. */
-
-export function describeDecision(d: DecisionRow, t: Template): string {
-  const path = (id: string | null) => {
-    if (!id) return '';
-    try {
-      return pathOf(t, id);
-    } catch {
-      return `${id} (no longer in the template)`;
-    }
-  };
-  switch (d.action) {
-    case 'accept':
-      return `decision #${d.id}: accepted ${path(d.chosen_theme)} for ${d.passage_id}`;
-    case 'recode':
-      return `decision #${d.id}: re-coded ${d.passage_id}: ${path(d.chosen_theme)} instead of ${path(d.theme_id)}`;
-    case 'reject':
-      return `decision #${d.id}: rejected ${path(d.theme_id)} for ${d.passage_id}`;
-    case 'defer':
-      return `decision #${d.id}: deferred ${path(d.theme_id)} for ${d.passage_id}`;
-    case 'undo':
-      return `decision #${d.id}: undid decision #${d.undoes}`;
-    case 'nocode':
-      return `decision #${d.id}: reviewed ${d.passage_id}, nothing to code`;
-    default: {
-      const row = d as Omit<DecisionRow, 'action'> & { action: string; cluster_id?: number | string | null };
-      if (row.action === 'promote') return `decision #${row.id}: promoted cluster ${row.cluster_id} into ${path(row.chosen_theme)}`;
-      if (row.action === 'dismiss') return `decision #${row.id}: dismissed cluster ${row.cluster_id}`;
-      return `decision #${row.id}: ${row.action}`;
-    }
-  }
-}
 
 const ACTIONS = ['accept', 'reject', 'defer'];
 
