@@ -1,33 +1,14 @@
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
+import { ReviewSession, type Outcome, type ReviewAction } from '../review/session.js';
 import type { DecisionRow } from '../study/decisions.js';
 import { openStudy, type DB } from '../study/db.js';
 import { getPassage } from '../study/passages.js';
-import {
-  AlreadyDecided,
-  ORDERS,
-  ReviewQueue,
-  Tally,
-  claimOn,
-  itemFromRun,
-  passageView,
-  recodeToNewTheme,
-  reviewDecide,
-  reviewNothingToCode,
-  standingAccepts,
-  standingRejects,
-  startReview,
-  undoLatest,
-  type ReviewCandidate,
-  type ReviewItem,
-  type ReviewOrder,
-} from '../study/review.js';
+import { ORDERS, type ReviewCandidate, type ReviewOrder } from '../study/review.js';
+import { sqliteReviewStore } from '../study/review-store.js';
 import { requireTranscripts } from '../study/transcripts.js';
-import { currentTemplate } from '../study/template.js';
-import { walk } from '../template/paths.js';
 import { coderName, coderOf, collect, studyCommand, type StudyOpts } from './common.js';
-import { describeDecision } from './decide.js';
 import { useColour } from './marks.js';
 import type { Snippets } from './reasons.js';
 import { plain, plainDeep } from './output.js';
@@ -105,11 +86,11 @@ In scripts (no terminal), decide one suggestion at a time instead:
       try {
         const coder = coderOf(opts, db);
         requireTranscripts(db, opts.transcript);
-        const start = startReview(db, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder }, () =>
+        const studyDir = resolve(opts.study);
+        const review = ReviewSession.start(sqliteReviewStore(db, studyDir), coder, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder }, () =>
           process.stdout.write('Fitting theme profiles and scoring passages...\n'),
         );
-        const filters = [...(opts.transcript ?? []).map((t) => `transcript ${t}`), ...(opts.theme ? [`theme ${opts.theme}`] : [])];
-        const session = new Session(db, resolve(opts.study), coder, opts.order, filters, new ReviewQueue(start.items), {
+        const session = new Session(db, studyDir, review, {
           colour: opts.colour && useColour(),
           dumb: process.env.TERM === 'dumb',
         });
@@ -121,21 +102,12 @@ In scripts (no terminal), decide one suggestion at a time instead:
     });
 }
 
-interface Current extends Showing {
-  /** This session has a standing decision on the passage (an accept, re-code or reject): Enter moves on. */
-  decidedHere: boolean;
-  accepted: Set<number>;
-}
-
 const SIGNALS = ['SIGTERM', 'SIGHUP', 'SIGINT'] as const;
 
-/** One interactive session: reads keys, acts through src/study/review.ts, redraws. */
+/** One interactive session: reads keys, acts through the review session (src/review/), redraws. */
 class Session {
   private mode: Mode = { kind: 'main' };
-  private current: Current | undefined;
   private message = '';
-  private note: string | undefined;
-  private readonly tally = new Tally();
   /** Lines of the current passage scrolled past, and how far it can go on this screen. */
   private scroll = 0;
   private maxScroll = 0;
@@ -143,12 +115,9 @@ class Session {
   private readonly snippets: Snippets;
 
   constructor(
-    private readonly db: DB,
+    db: DB,
     private readonly studyDir: string,
-    private readonly coder: string,
-    private readonly order: string,
-    private readonly filters: string[],
-    private readonly queue: ReviewQueue,
+    private readonly review: ReviewSession,
     private readonly look: { colour: boolean; dumb: boolean },
   ) {
     const cache = new Map<string, { transcript: string; text: string } | undefined>();
@@ -209,8 +178,7 @@ class Session {
       // The other screen of the terminal: the coder's scrollback is left as it was.
       if (alt) stdout.write('\x1b[?1049h\x1b[?25l');
       try {
-        this.advance();
-        if (this.queue.total === 0) this.message = 'No passage is waiting: every suggested passage is coded or decided.';
+        if (this.review.queue.total === 0) this.message = 'No passage is waiting: every suggested passage is coded or decided.';
         this.draw();
       } catch (e) {
         restore();
@@ -230,18 +198,19 @@ class Session {
   }
 
   private draw(): void {
+    const r = this.review;
     const m: ScreenModel = {
-      coder: this.coder,
-      order: this.order,
-      filters: this.filters,
-      showing: this.current,
-      total: this.queue.total,
-      remaining: this.queue.remaining,
-      accepted: this.tally.accepted,
-      decided: this.tally.decided,
-      deferred: this.queue.deferred.size,
+      coder: r.coder,
+      order: r.order,
+      filters: r.filters,
+      showing: r.showing,
+      total: r.queue.total,
+      remaining: r.queue.remaining,
+      accepted: r.tally.accepted,
+      decided: r.tally.decided,
+      deferred: r.queue.deferred.size,
       message: this.message,
-      note: this.note,
+      note: r.pendingNote,
       mode: this.mode,
       matches: this.matches(),
       snippets: this.snippets,
@@ -256,7 +225,7 @@ class Session {
   }
 
   private summary(): string {
-    const t = this.tally;
+    const t = this.review.tally;
     const parts = [`${t.count('accept')} accepted`, `${t.count('recode')} re-coded`, `${t.count('reject')} rejected`, `${t.count('defer')} deferred`, `${t.count('nocode')} nothing to code`, `${t.undos} undone`];
     const pct = t.decided ? ` (${Math.round((100 * t.accepted) / t.decided)}%)` : '';
     return (
@@ -265,81 +234,41 @@ class Session {
     );
   }
 
-  // ---- moving through the queue
+  // ---- acting through the review session
 
-  /** Shows the next open passage; passages decided or coded elsewhere meanwhile are passed over. */
-  private advance(): void {
-    this.mode = { kind: 'main' };
-    this.scroll = 0;
-    for (;;) {
-      const item = this.queue.next();
-      if (!item) {
-        this.current = undefined;
-        return;
-      }
-      const claim = claimOn(this.db, item.passageId, this.tally.ids);
-      const view = claim ? undefined : passageView(this.db, item.passageId);
-      if (!view) {
-        this.queue.closed.add(item.passageId);
-        continue;
-      }
-      const ids = item.candidates.map((c) => c.suggestionId);
-      const rejected = standingRejects(this.db, ids);
-      const accepted = standingAccepts(this.db, ids);
-      this.current = { item, view, rejected, accepted, position: this.queue.positionOf(item.passageId), decidedHere: rejected.size + accepted.size > 0 };
-      if (rejected.size + accepted.size >= item.candidates.length) {
-        this.queue.done.add(item.passageId);
-        continue;
-      }
-      return;
+  /** One action; when the passage on screen changes, back to the main keys at its top. */
+  private act(action: ReviewAction): Outcome {
+    const before = this.review.showing;
+    const { outcome } = this.review.act(action);
+    if (this.review.showing !== before) {
+      this.mode = { kind: 'main' };
+      this.scroll = 0;
     }
+    return outcome;
   }
 
   private openCandidates(): ReviewCandidate[] {
-    const cur = this.current;
+    const cur = this.review.showing;
     return cur ? cur.item.candidates.filter((c) => !cur.rejected.has(c.suggestionId) && !cur.accepted.has(c.suggestionId)) : [];
   }
 
-  private describe(d: DecisionRow): string {
-    const text = describeDecision(d, currentTemplate(this.db));
-    const m = /^decision #(\d+): (.*)$/.exec(text);
-    return m ? `${m[2]} (decision #${m[1]})` : text;
+  private saved(d: DecisionRow): string {
+    return `saved: ${this.review.describe(d)}`;
   }
 
-  /** Runs one write; says "saved" only once it has returned, i.e. once it is committed. */
-  private commit(work: () => DecisionRow): DecisionRow | undefined {
-    const passageId = this.current!.item.passageId;
-    try {
-      const d = work();
-      this.tally.add(d);
-      this.note = undefined;
-      this.message = `saved: ${this.describe(d)}`;
-      return d;
-    } catch (e) {
-      if (e instanceof AlreadyDecided || (e instanceof UserError && /already decided/.test(e.message))) {
-        // Another session got there first: nothing of ours was written; go on.
-        this.queue.closed.add(passageId);
-        this.advance();
-        this.message = `not saved: ${e.message}. On to the next passage.`;
+  /** The line for an action that wrote nothing; undefined when it was saved. */
+  private failure(o: Outcome): string | undefined {
+    switch (o.kind) {
+      case 'conflict':
+        // Another session got there first: nothing of ours was written; the session moved on.
+        return `not saved: ${o.message}. On to the next passage.`;
+      case 'busy':
+        return 'not saved: another process has been writing to the study for a while; press the key again in a moment.';
+      case 'refused':
+        return `not saved: ${o.message}`;
+      default:
         return undefined;
-      }
-      if (e instanceof UserError) {
-        this.message = `not saved: ${e.message}`;
-        return undefined;
-      }
-      if (isBusy(e)) {
-        this.message = 'not saved: another process has been writing to the study for a while; press the key again in a moment.';
-        return undefined;
-      }
-      throw e;
     }
-  }
-
-  private decideOn(c: ReviewCandidate, action: 'accept' | 'reject' | 'defer', themePath?: string): DecisionRow | undefined {
-    const passageId = this.current!.item.passageId;
-    return this.commit(() =>
-      reviewDecide(this.db, passageId, { suggestionId: c.suggestionId, action, themePath, note: this.note, coder: this.coder }, this.tally.ids),
-    );
   }
 
   // ---- keys
@@ -382,7 +311,7 @@ class Session {
       this.message = '';
       return;
     }
-    const cur = this.current;
+    const cur = this.review.showing;
     if (!cur) {
       this.message = 'The queue is done: u undoes your latest decision, q quits.';
       return;
@@ -396,12 +325,11 @@ class Session {
     if (ch === 'x') return this.enter({ kind: 'reject' });
     if (ch === 'd') return this.defer();
     if (ch === '0') return this.nothingToCode();
-    if (ch === 'n') return this.enter({ kind: 'note', text: this.note ?? '' });
+    if (ch === 'n') return this.enter({ kind: 'note', text: this.review.pendingNote ?? '' });
     if (ch === 'r') return this.enter({ kind: 'search', purpose: 'recode', query: '', sel: 0, entries: this.themeEntries() });
     if (key.name === 'enter' || ch === ' ') {
       if (cur.decidedHere) {
-        this.queue.done.add(cur.item.passageId);
-        this.advance();
+        this.act({ kind: 'next' });
         this.message = '';
       } else this.message = 'Decide first (1-5 accept, x reject, r re-code, 0 nothing to code), or d to defer it.';
       return;
@@ -410,7 +338,7 @@ class Session {
   }
 
   private candidate(n: number): ReviewCandidate | undefined {
-    const cur = this.current!;
+    const cur = this.review.showing!;
     const c = cur.item.candidates[n - 1];
     if (!c) {
       this.message = `There is no candidate ${n} for this passage.`;
@@ -429,57 +357,46 @@ class Session {
 
   private accept(n: number): void {
     const c = this.candidate(n);
-    if (!c) return;
-    if (this.decideOn(c, 'accept')) this.stayFor(c.suggestionId);
+    if (c) this.accepted(this.act({ kind: 'accept', candidate: c.suggestionId }));
   }
 
   /**
    * After an accept or a re-code the passage stays on screen, so that a second or third theme
    * can be accepted or added; the researcher moves on with Enter. With no candidate left open
-   * it moves on by itself.
+   * the session has moved on by itself.
    */
-  private stayFor(suggestionId: number): void {
-    const cur = this.current!;
-    cur.accepted = new Set([...cur.accepted, suggestionId]);
-    cur.decidedHere = true;
-    if (this.openCandidates().length === 0) {
-      this.queue.done.add(cur.item.passageId);
-      this.advance();
-      this.message += '. Every candidate is decided: on to the next passage.';
-    } else this.message += '. Accept another, r to add a theme, or Enter for the next passage.';
+  private accepted(o: Outcome, saved?: string): void {
+    if (o.kind !== 'saved') {
+      this.message = this.failure(o) ?? '';
+      return;
+    }
+    this.message =
+      (saved ?? this.saved(o.decision)) +
+      (o.then === 'next' ? '. Every candidate is decided: on to the next passage.' : '. Accept another, r to add a theme, or Enter for the next passage.');
   }
 
   private reject(n: number): void {
     const c = this.candidate(n);
     if (!c) return;
-    const cur = this.current!;
-    if (!this.decideOn(c, 'reject')) return;
-    cur.rejected = new Set([...cur.rejected, c.suggestionId]);
-    cur.decidedHere = true;
-    if (this.openCandidates().length === 0) {
-      this.queue.done.add(cur.item.passageId);
-      this.advance();
-      this.message += '. Every candidate is rejected: on to the next passage.';
-    } else this.message += '. Decide another candidate, or Enter for the next passage.';
-  }
-
-  private defer(): void {
-    const top = this.openCandidates()[0]!;
-    const pid = this.current!.item.passageId;
-    if (this.decideOn(top, 'defer')) {
-      this.queue.deferred.add(pid);
-      this.advance();
+    const o = this.act({ kind: 'reject', candidate: c.suggestionId });
+    if (o.kind !== 'saved') {
+      this.message = this.failure(o) ?? '';
+      return;
     }
+    this.message =
+      this.saved(o.decision) + (o.then === 'next' ? '. Every candidate is rejected: on to the next passage.' : '. Decide another candidate, or Enter for the next passage.');
   }
 
-  /** "Reviewed, nothing to code": the passage is judged, no theme applies. */
+  /** Defer, or "reviewed, nothing to code" (no theme applies): the passage is done, on to the next. */
+  private defer(): void {
+    const o = this.act({ kind: 'defer' });
+    this.message = o.kind === 'saved' ? this.saved(o.decision) : (this.failure(o) ?? '');
+  }
+
   private nothingToCode(): void {
     // After rejecting candidates, the coder may judge that no theme applies at all.
-    const pid = this.current!.item.passageId;
-    if (this.commit(() => reviewNothingToCode(this.db, pid, this.coder, this.note, this.tally.ids))) {
-      this.queue.done.add(pid);
-      this.advance();
-    }
+    const o = this.act({ kind: 'nothing' });
+    this.message = o.kind === 'saved' ? this.saved(o.decision) : (this.failure(o) ?? '');
   }
 
   private onReject(key: Key): void {
@@ -492,7 +409,7 @@ class Session {
     if (/^[1-9]$/.test(ch)) return this.reject(Number(ch));
     if (ch === 'x' || key.name === 'enter') {
       const top = this.openCandidates()[0]!;
-      return this.reject(this.current!.item.candidates.indexOf(top) + 1);
+      return this.reject(this.review.showing!.item.candidates.indexOf(top) + 1);
     }
     this.message = 'Reject cancelled (press x, then 1-5 or x).';
   }
@@ -502,16 +419,16 @@ class Session {
       this.mode = { kind: 'main' };
       this.message = 'Note cancelled.';
     } else if (key.name === 'enter') {
-      this.note = mode.text.trim() || undefined;
+      this.act({ kind: 'note', text: mode.text });
       this.mode = { kind: 'main' };
-      this.message = this.note ? 'The note will be kept with your next decision.' : 'No note.';
+      this.message = this.review.pendingNote ? 'The note will be kept with your next decision.' : 'No note.';
     } else editLine(mode, key);
   }
 
   // ---- re-coding
 
   private themeEntries(): ThemeEntry[] {
-    return [...walk(currentTemplate(this.db))].map((e) => ({ id: e.node.id, path: e.path, name: e.node.name }));
+    return this.review.themes();
   }
 
   private onSearch(key: Key, mode: Extract<Mode, { kind: 'search' }>): void {
@@ -558,17 +475,12 @@ class Session {
 
   private recodeTo(e: ThemeEntry): void {
     this.mode = { kind: 'main' };
-    // The chosen theme is one of the open candidates: that is an accept of it, not a re-code.
-    const open = this.openCandidates();
-    if (!open.length) {
+    if (!this.openCandidates().length) {
       this.message = 'Every candidate of this passage is decided: Enter for the next passage (u undoes).';
       return;
     }
-    // Re-coded after an accept, the passage gets the theme as well (the accepted one stays).
-    const same = open.find((c) => c.themeId === e.id);
-    const on = same ?? open[0]!;
-    const done = same ? this.decideOn(same, 'accept') : this.decideOn(on, 'accept', e.path);
-    if (done) this.stayFor(on.suggestionId);
+    // An open candidate's own theme is an accept of it; after an accept the theme is added.
+    this.accepted(this.act({ kind: 'recode', theme: e.id }));
   }
 
   private onName(key: Key, mode: Extract<Mode, { kind: 'name' }>): void {
@@ -583,77 +495,41 @@ class Session {
       this.message = 'Type a name for the new theme (or Esc to cancel).';
       return;
     }
-    const cur = this.current!;
-    const top = this.openCandidates()[0];
-    if (!top) {
+    if (!this.openCandidates().length) {
       this.mode = { kind: 'main' };
       this.message = 'Every candidate of this passage is decided: Enter for the next passage (u undoes).';
       return;
     }
-    let rev: number | null = null;
-    let path = '';
-    const d = this.commit(() => {
-      const r = recodeToNewTheme(this.db, this.studyDir, cur.item.passageId, { suggestionId: top.suggestionId, parentId: mode.parentId, name, note: this.note, coder: this.coder }, this.tally.ids);
-      rev = r.rev;
-      path = r.path;
-      return r.decision;
-    });
-    if (!d) {
-      // A bad name (a clash, say): stay in the prompt so it can be corrected.
-      if (this.current === cur && this.message.startsWith('not saved')) return;
+    const o = this.act({ kind: 'add', parent: mode.parentId, name });
+    if (o.kind !== 'saved') {
+      this.message = this.failure(o) ?? '';
+      // A bad name (a clash, say) or a busy study: stay in the prompt so it can be tried again.
+      if (o.kind !== 'conflict') return;
       this.mode = { kind: 'main' };
       return;
     }
     this.mode = { kind: 'main' };
-    this.message = `saved: template revision ${rev} adds ${path}; ${this.describe(d)}`;
-    this.stayFor(top.suggestionId);
+    this.accepted(o, `saved: template revision ${o.added?.rev} adds ${o.added?.path}; ${this.review.describe(o.decision)}`);
   }
 
   // ---- undo
 
   private undo(): void {
-    let result: ReturnType<typeof undoLatest>;
-    try {
-      result = undoLatest(this.db, this.coder, this.note);
-    } catch (e) {
-      if (e instanceof UserError || isBusy(e)) {
-        this.message = `nothing undone: ${e instanceof UserError ? e.message : 'another process is writing to the study; try again in a moment'}`;
-        return;
-      }
-      throw e;
-    }
-    const { undo, undone } = result;
-    this.note = undefined;
-    this.tally.undos++;
-    this.tally.remove(undone.id);
-    const what = `undone: ${this.describe(undone)} (undo entry #${undo.id})`;
-    const cur = this.current;
-    if (cur && cur.item.passageId === undone.passage_id) {
-      // A reject on the passage on screen: it stays, with that candidate back.
-      cur.rejected = standingRejects(this.db, cur.item.candidates.map((c) => c.suggestionId));
-      cur.accepted = standingAccepts(this.db, cur.item.candidates.map((c) => c.suggestionId));
-      cur.decidedHere = cur.rejected.size + cur.accepted.size > 0;
-      this.message = what;
+    const o = this.act({ kind: 'undo' });
+    if (o.kind === 'nothing-undone') {
+      this.message = `nothing undone: ${o.message}`;
       return;
     }
-    const item: ReviewItem | undefined =
-      (undone.passage_id ? this.queue.item(undone.passage_id) : undefined) ?? (undone.suggestion_id !== null ? itemFromRun(this.db, undone.suggestion_id) : undefined);
-    if (!item) {
-      this.message = `${what}; its passage is no longer in the study.`;
-      return;
-    }
-    // Back to that passage now; the one on screen comes after it.
-    if (cur) this.queue.revisit(cur.item);
-    this.queue.revisit(item);
-    this.advance();
-    this.message =
-      this.current?.item.passageId === item.passageId ? `${what}; back to that passage.` : `${what}; that passage has been decided or coded by someone else meanwhile.`;
+    if (o.kind !== 'undone') return;
+    const what = `undone: ${this.review.describe(o.undone)} (undo entry #${o.undo.id})`;
+    const tail: Record<typeof o.back, string> = {
+      same: '',
+      gone: '; its passage is no longer in the study.',
+      back: '; back to that passage.',
+      taken: '; that passage has been decided or coded by someone else meanwhile.',
+    };
+    this.message = what + tail[o.back];
   }
-}
-
-/** SQLite gave up waiting for another process's write (after the busy timeout). */
-function isBusy(e: unknown): boolean {
-  return e instanceof Error && 'code' in e && typeof e.code === 'string' && e.code.startsWith('SQLITE_BUSY');
 }
 
 /** Line editing for the note and name prompts. */

@@ -190,6 +190,11 @@ export class ReviewSession {
     return this.note;
   }
 
+  /** The current template's themes, in template order: what recode and add can name. */
+  themes(): ThemeRef[] {
+    return this.store.themes();
+  }
+
   act(action: ReviewAction): ActResult {
     this.messages = [];
     const outcome = this.run(action);

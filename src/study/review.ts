@@ -1,6 +1,6 @@
 /**
  * The review queue: which passages an interactive review session shows, in what order, and the
- * guarded writes it makes. The screen (src/cli/review.ts) only draws and reads keys.
+ * guarded writes it makes. The session rules are in src/review/session.ts; the screens only draw and read keys.
  */
 import { UserError } from '../errors.js';
 import type { Reason } from '../suggest/types.js';
