@@ -22,8 +22,8 @@ import { registerAlias } from './alias.js';
 import { registerServe } from './serve.js';
 
 export const CAUTIONS = `
-Your data: trellis never opens a network connection; the study (study.db and template.txt)
-stays in its folder on your disk. Suggestions are aids: the researcher decides every coding.
+Your data: trellis opens no network connection (trellis serve listens on 127.0.0.1 only);
+the study (study.db and template.txt) stays in its folder on your disk. Suggestions are aids: the researcher decides every coding.
 Ethics approval, consent, de-identification and data-protection duties remain with the
 research team, under their institution's rules.`;
 

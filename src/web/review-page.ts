@@ -1,7 +1,8 @@
 /** The review screen: one passage large in the middle, its candidates as buttons beneath, keys shown. */
 import type { Reason } from '../suggest/types.js';
 import { esc } from './layout.js';
-import type { CandidateView, ReviewView } from './session.js';
+import type { CandidateModel, TurnModel } from '../review/session.js';
+import type { ReviewView } from './session.js';
 
 /** Confidence in words as well as a number, so it reads without knowing the scale. */
 export function confidenceWords(c: number): string {
@@ -33,36 +34,33 @@ export function reasonText(r: Reason): string {
   }
 }
 
-/** The passage with each open candidate's matched fragment marked and numbered (not by colour). */
-export function markedText(text: string, candidates: CandidateView[]): string {
-  const spans: { from: number; to: number; n: number }[] = [];
-  candidates.forEach((c, i) => {
-    if (c.state === 'rejected') return;
-    for (const r of c.reasons) {
-      if (r.kind !== 'terms' || !r.fragment) continue;
-      const at = text.toLowerCase().indexOf(r.fragment.toLowerCase());
-      if (at >= 0 && !spans.some((s) => at < s.to && at + r.fragment!.length > s.from)) spans.push({ from: at, to: at + r.fragment.length, n: i + 1 });
-    }
-  });
-  spans.sort((a, b) => a.from - b.from);
+/** The passage with the terms each open candidate matched marked and numbered (not by colour). */
+export function markedText(text: string, candidates: CandidateModel[]): string {
+  const spans: { start: number; end: number; n: number }[] = [];
+  for (const c of candidates) {
+    if (c.state === 'rejected') continue;
+    for (const m of c.matches) if (!spans.some((s) => m.start < s.end && m.end > s.start)) spans.push({ ...m, n: c.number });
+  }
+  spans.sort((a, b) => a.start - b.start);
   let out = '';
   let at = 0;
   for (const s of spans) {
-    out += esc(text.slice(at, s.from)) + `<mark>${esc(text.slice(s.from, s.to))}<sup class="tag" aria-label="matched for candidate ${s.n}">${s.n}</sup></mark>`;
-    at = s.to;
+    out += esc(text.slice(at, s.start)) + `<mark>${esc(text.slice(s.start, s.end))}<sup class="tag" aria-label="matched for candidate ${s.n}">${s.n}</sup></mark>`;
+    at = s.end;
   }
   return out + esc(text.slice(at));
 }
 
 const kbd = (k: string) => `<kbd>${esc(k)}</kbd>`;
 
-function candidateRow(c: CandidateView, n: number): string {
+function candidateRow(c: CandidateModel): string {
+  const n = c.number;
   const pct = Math.round(c.confidence * 100);
   const state = c.state === 'open' ? '' : `<p class="state">${c.state === 'accepted' ? '✓ Accepted: the passage is coded to this theme.' : '✗ Rejected.'}</p>`;
   const buttons =
     c.state === 'open'
-      ? `<button type="submit" name="act" value="accept:${n}" data-key="${n}" class="accept">Accept ${kbd(String(n))}</button>
-<button type="submit" name="act" value="reject:${n}" data-key="x ${n}" class="reject">Reject ${kbd(`x ${n}`)}</button>`
+      ? `<button type="submit" name="act" value="accept:${c.suggestionId}" data-key="${n}" class="accept">Accept ${kbd(String(n))}</button>
+<button type="submit" name="act" value="reject:${c.suggestionId}" data-key="x ${n}" class="reject">Reject ${kbd(`x ${n}`)}</button>`
       : '';
   return `<li class="candidate ${c.state}" data-suggestion="${c.suggestionId}">
 <div class="cand-head"><span class="cand-n" aria-hidden="true">${n}</span>
@@ -74,40 +72,42 @@ ${state}
 </li>`;
 }
 
-function turn(label: string, t: { speaker: string | null; text: string } | null): string {
+function turn(label: string, t: TurnModel | null): string {
   if (!t) return '';
   return `<div class="turn"><p class="speaker">${esc(label)}${t.speaker ? `: ${esc(t.speaker)}` : ''}</p><p>${esc(t.text)}</p></div>`;
 }
 
 export function reviewPage(v: ReviewView): string {
-  const status = `<p class="progress" role="status">${v.item ? `Passage ${v.position ?? '(revisited)'} of ${v.total} in this session · ${v.remaining} left` : 'Queue done'} · accepted ${v.accepted} of ${v.decided} decided</p>`;
+  const p = v.screen.passage;
+  const g = v.screen.progress;
+  const status = `<p class="progress" role="status">${p ? `Passage ${p.position ?? '(brought back)'} of ${g.total} in this session · ${g.left} left` : 'Queue done'} · accepted ${g.accepted} of ${g.decided} decided</p>`;
   const message = v.message ? `<p class="message" role="alert">${esc(v.message)}</p>` : '';
+  const note = v.screen.note ? `<p class="pending">Note waiting for your next decision: ${esc(v.screen.note)}</p>` : '';
   const themes = `<datalist id="themes">${v.themes.map((t) => `<option value="${esc(t.path)}"></option>`).join('')}</datalist>`;
   const undo = `<form method="post" action="/review" class="inline"><button type="submit" name="act" value="undo" data-key="u">Undo my latest decision ${kbd('u')}</button></form>`;
-  if (!v.item || !v.view) {
-    return `${status}${message}<section class="done"><p>No passage is waiting for a decision. Run <code>trellis suggest</code> after importing or coding more, or start again to see passages you skipped.</p>
+  if (!p) {
+    return `${status}${message}<section class="done"><p>No passage is waiting for a decision. Start a fresh queue after importing or coding more, or to see passages you passed over.</p>
 <form method="post" action="/review" class="inline"><button type="submit" name="act" value="restart">Start a fresh queue</button></form>${undo}</section>`;
   }
-  const p = v.view.passage;
   const question = p.question ? `<p class="question"><span class="label">Interviewer's question</span> ${esc(p.question)}</p>` : '';
   const when = p.start !== null ? ` · at ${Math.floor(p.start / 60)}:${String(Math.floor(p.start % 60)).padStart(2, '0')}` : '';
-  return `${status}${message}
+  return `${status}${message}${note}
 <article class="passage" aria-labelledby="passage-head">
-<p id="passage-head" class="where">${esc(p.transcript)} · passage ${p.ordinal} of ${v.view.passages}${when} · <span class="pid">${esc(p.id)}</span></p>
+<p id="passage-head" class="where">${esc(p.transcript)} · passage ${p.ordinal} of ${p.passagesInTranscript}${when} · <span class="pid">${esc(p.id)}</span></p>
 ${question}
-${turn('Before', v.view.before)}
-<div class="this-turn"><p class="speaker">${esc(p.speaker ?? 'Participant')}</p><p class="text">${markedText(p.text, v.candidates)}</p></div>
-${turn('After', v.view.after)}
+${turn('Before', p.before)}
+<div class="this-turn"><p class="speaker">${esc(p.speaker ?? 'Participant')}</p><p class="text">${markedText(p.text, p.candidates)}</p></div>
+${turn('After', p.after)}
 </article>
 <form method="post" action="/review" id="decide">
 <section aria-labelledby="cands-head"><h2 id="cands-head">Candidate themes</h2>
 <p class="hint">Suggestions are aids; you decide. Accepting keeps you on this passage so you can add a second theme.</p>
-<ol class="candidates">${v.candidates.map((c, i) => candidateRow(c, i + 1)).join('')}</ol>
+<ol class="candidates">${p.candidates.map((c) => candidateRow(c)).join('')}</ol>
 </section>
 <section class="moves" aria-label="The passage">
 <button type="submit" name="act" value="nothing" data-key="0">Nothing to code ${kbd('0')}</button>
 <button type="submit" name="act" value="defer" data-key="d">Defer ${kbd('d')}</button>
-<button type="submit" name="act" value="previous" data-key="k" ${v.canPrevious ? '' : 'disabled'}>Previous ${kbd('k')}</button>
+<button type="submit" name="act" value="previous" data-key="k">Previous ${kbd('k')}</button>
 <button type="submit" name="act" value="next" data-key="j" class="next">Next passage ${kbd('j')}</button>
 <button type="submit" name="act" value="undo" data-key="u">Undo ${kbd('u')}</button>
 </section>

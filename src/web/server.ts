@@ -72,15 +72,15 @@ function refuse(res: ServerResponse, why: string): void {
   send(res, 403, 'text/plain; charset=utf-8', `Refused: ${why}.\n`);
 }
 
-function parseAct(f: URLSearchParams): Act | { kind: 'restart' } {
+function parseAct(f: URLSearchParams): Act {
   const act = f.get('act') ?? '';
   const m = /^(accept|reject):(\d+)$/.exec(act);
-  if (m) return { kind: m[1] as 'accept' | 'reject', n: Number(m[2]) };
+  if (m) return { kind: m[1] as 'accept' | 'reject', candidate: Number(m[2]) };
   switch (act) {
     case 'recode':
-      return { kind: 'recode', path: f.get('path') ?? '' };
+      return { kind: 'recode', theme: (f.get('path') ?? '').trim() };
     case 'new-theme':
-      return { kind: 'new-theme', name: f.get('name') ?? '', parent: f.get('parent') ?? '' };
+      return { kind: 'add', name: (f.get('name') ?? '').trim(), parent: (f.get('parent') ?? '').trim() || null };
     case 'note':
     case 'memo':
       return { kind: act, text: f.get('text') ?? '' };
@@ -118,9 +118,7 @@ export function startServer(o: ServeOptions): Promise<Serving> {
     }
     if (path === '/review') {
       if (get) return html(res, 'Review', '/review', reviewPage(review.view()));
-      const a = parseAct(await readForm(req));
-      if (a.kind === 'restart') review.restart();
-      else review.act(a);
+      review.act(parseAct(await readForm(req)));
       return back(res, '/review');
     }
     if (get && path === '/template') {

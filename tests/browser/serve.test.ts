@@ -82,7 +82,7 @@ describe.skipIf(!present)('trellis serve in Chromium', () => {
     });
     page.on('pageerror', (e) => errors.push(e.message));
     page.on('response', (r) => { if (r.status() >= 400) errors.push(`${r.status()} ${r.url()}`); });
-  });
+  }, 180_000); // building the demo study and the first suggestion run are slow on a busy machine
 
   afterAll(async () => {
     await browser?.close();
@@ -138,7 +138,7 @@ describe.skipIf(!present)('trellis serve in Chromium', () => {
     await page.keyboard.press('u'); // undoes "nothing to code": back to that passage
     await page.waitForLoadState();
     expect(await pid()).toBe(second);
-    expect(await page.locator('.message').innerText()).toMatch(/Undone/);
+    expect(await page.locator('.message').innerText()).toMatch(/undone/i);
 
     const rows = log(dir);
     const accepts = rows.filter((r) => r.action === 'accept' && r.passage_id === first);
@@ -195,9 +195,10 @@ describe.skipIf(!present)('trellis serve in Chromium', () => {
     expect(t.status, t.stderr).toBe(0);
     await page.keyboard.press('1');
     await page.waitForLoadState();
-    expect(await page.locator('.message').innerText()).toMatch(/Not saved: .*already decided/);
+    expect(await page.locator('.message').innerText()).toMatch(/not saved: .*already decided/i);
     expect(await pid()).not.toBe(here);
-    const onIt = log(dir).filter((r) => r.suggestion_id === sid);
+    // A defer is not a decision on the theme (the passage may have been deferred before).
+    const onIt = log(dir).filter((r) => r.suggestion_id === sid && r.action !== 'defer');
     expect(onIt.map((r) => [r.coder, r.action])).toEqual([['bob', 'accept']]);
   });
 
