@@ -91,6 +91,10 @@ describe.skipIf(!present)('trellis serve in Chromium', () => {
   });
 
   const pid = () => page.locator('.pid').innerText();
+  /** Every action posts a form and loads the page again: wait for that load, not the old page. */
+  const nav = async (act: () => Promise<unknown>) => {
+    await Promise.all([page.waitForNavigation(), act()]);
+  };
   const candidate = (n: number) => page.locator('.candidates > li').nth(n - 1);
 
   it('refuses a request without the token, with another Host, or a change from a foreign Origin', async () => {
@@ -117,26 +121,20 @@ describe.skipIf(!present)('trellis serve in Chromium', () => {
     await expect(page.locator('kbd').first().isVisible()).resolves.toBe(true);
     const first = await pid();
     const themes = [await candidate(1).locator('.theme').innerText(), await candidate(2).locator('.theme').innerText()];
-    await page.keyboard.press('1');
-    await page.waitForLoadState();
+    await nav(() => page.keyboard.press('1'));
     expect(await pid()).toBe(first); // accepting stays on the passage
     expect(await candidate(1).getAttribute('class')).toContain('accepted');
-    await page.keyboard.press('2');
-    await page.waitForLoadState();
+    await nav(() => page.keyboard.press('2'));
     expect(await candidate(2).getAttribute('class')).toContain('accepted');
-    await page.keyboard.press('j');
-    await page.waitForLoadState();
+    await nav(() => page.keyboard.press('j'));
     const second = await pid();
     expect(second).not.toBe(first);
     await page.keyboard.press('x');
-    await page.keyboard.press('1');
-    await page.waitForLoadState();
+    await nav(() => page.keyboard.press('1'));
     expect(await candidate(1).getAttribute('class')).toContain('rejected');
-    await page.keyboard.press('0'); // nothing to code: on to the next
-    await page.waitForLoadState();
+    await nav(() => page.keyboard.press('0')); // nothing to code: on to the next
     expect(await pid()).not.toBe(second);
-    await page.keyboard.press('u'); // undoes "nothing to code": back to that passage
-    await page.waitForLoadState();
+    await nav(() => page.keyboard.press('u')); // undoes "nothing to code": back to that passage
     expect(await pid()).toBe(second);
     expect(await page.locator('.message').innerText()).toMatch(/undone/i);
 
@@ -148,33 +146,25 @@ describe.skipIf(!present)('trellis serve in Chromium', () => {
   });
 
   it('reviews by mouse: two themes on a second passage, re-code by type-ahead, defer, previous', async () => {
-    await page.locator('button', { hasText: 'Next passage' }).click();
-    await page.waitForLoadState();
+    await nav(() => page.locator('button', { hasText: 'Next passage' }).click());
     const third = await pid();
     const t1 = await candidate(1).locator('.theme').innerText();
     const t2 = await candidate(2).locator('.theme').innerText();
-    await candidate(1).getByRole('button', { name: /Accept/ }).click();
-    await page.waitForLoadState();
-    await candidate(2).getByRole('button', { name: /Accept/ }).click();
-    await page.waitForLoadState();
+    await nav(() => candidate(1).getByRole('button', { name: /Accept/ }).click());
+    await nav(() => candidate(2).getByRole('button', { name: /Accept/ }).click());
     expect(await pid()).toBe(third);
-    await page.locator('button', { hasText: 'Next passage' }).click();
-    await page.waitForLoadState();
+    await nav(() => page.locator('button', { hasText: 'Next passage' }).click());
     const fourth = await pid();
     const open = await page.locator('.candidates .theme').allInnerTexts();
     const other = (await page.locator('#themes option').evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value))).find((p) => !open.includes(p))!;
     await page.locator('#recode').fill(other);
-    await page.locator('button', { hasText: /^Code$/ }).click();
-    await page.waitForLoadState();
+    await nav(() => page.locator('button', { hasText: /^Code$/ }).click());
     expect(await page.locator('.message').innerText()).toContain(other);
-    await page.locator('button', { hasText: 'Next passage' }).click();
-    await page.waitForLoadState();
+    await nav(() => page.locator('button', { hasText: 'Next passage' }).click());
     const fifth = await pid();
-    await page.locator('button', { hasText: 'Defer' }).click();
-    await page.waitForLoadState();
+    await nav(() => page.locator('button', { hasText: 'Defer' }).click());
     expect(await pid()).not.toBe(fifth);
-    await page.locator('button', { hasText: 'Previous' }).click();
-    await page.waitForLoadState();
+    await nav(() => page.locator('button', { hasText: 'Previous' }).click());
     expect(await pid()).toBe(fifth);
 
     const rows = log(dir);
@@ -187,14 +177,12 @@ describe.skipIf(!present)('trellis serve in Chromium', () => {
   });
 
   it('never decides a suggestion twice when a terminal decides it while the tab is open', async () => {
-    await page.locator('button', { hasText: 'Next passage' }).click();
-    await page.waitForLoadState();
+    await nav(() => page.locator('button', { hasText: 'Next passage' }).click());
     const here = await pid();
     const sid = Number(await candidate(1).getAttribute('data-suggestion'));
     const t = trellis(['decide', String(sid), 'accept', '--coder', 'bob'], dir);
     expect(t.status, t.stderr).toBe(0);
-    await page.keyboard.press('1');
-    await page.waitForLoadState();
+    await nav(() => page.keyboard.press('1'));
     expect(await page.locator('.message').innerText()).toMatch(/not saved: .*already decided/i);
     expect(await pid()).not.toBe(here);
     // A defer is not a decision on the theme (the passage may have been deferred before).
@@ -212,8 +200,7 @@ describe.skipIf(!present)('trellis serve in Chromium', () => {
     expect(coded.some((n) => n > 0)).toBe(true);
     const i = coded.findIndex((n) => n > 0);
     const name = await rows.nth(i).locator('a').innerText();
-    await rows.nth(i).locator('a').click();
-    await page.waitForLoadState();
+    await nav(() => rows.nth(i).locator('a').click());
     expect(await page.locator('h1').innerText()).toBe(name);
     expect(await page.locator('ol.coded > li').count()).toBe(coded[i]);
     expect(await page.locator('#prof').count()).toBe(1);
@@ -223,8 +210,7 @@ describe.skipIf(!present)('trellis serve in Chromium', () => {
     await page.goto(`http://127.0.0.1:${port}/triage`);
     expect(await page.locator('table tbody tr').count()).toBeGreaterThan(0);
     await page.goto(`http://127.0.0.1:${port}/clusters`);
-    await page.locator('button', { hasText: /Look for unclaimed clusters/ }).click();
-    await page.waitForLoadState();
+    await nav(() => page.locator('button', { hasText: /Look for unclaimed clusters/ }).click());
     expect(await page.locator('.message').innerText()).toMatch(/Found \d+ clusters/);
     await page.goto(`http://127.0.0.1:${port}/report`);
     expect(await page.locator('svg').count()).toBeGreaterThan(0);
