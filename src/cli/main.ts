@@ -19,10 +19,11 @@ import { registerTemplate } from './template.js';
 import { registerMemo } from './memo.js';
 import { registerQuote } from './quote.js';
 import { registerAlias } from './alias.js';
+import { registerServe } from './serve.js';
 
 export const CAUTIONS = `
-Your data: trellis never opens a network connection; the study (study.db and template.txt)
-stays in its folder on your disk. Suggestions are aids: the researcher decides every coding.
+Your data: trellis opens no network connection (trellis serve listens on 127.0.0.1 only);
+the study (study.db and template.txt) stays in its folder on your disk. Suggestions are aids: the researcher decides every coding.
 Ethics approval, consent, de-identification and data-protection duties remain with the
 research team, under their institution's rules.`;
 
@@ -43,6 +44,7 @@ Examples:
   trellis sheet import sheet.csv --coder alex
   trellis suggest --transcript t05           candidate themes with confidence and reasons
   trellis review --coder alex                decide them one passage at a time
+  trellis serve --coder alex                 the same review in your browser (127.0.0.1 only)
   trellis discover                           what the template misses
   trellis stats                              how often suggestions were accepted
   trellis memo add "..." --theme Workload    a memo on a theme, transcript, passage or the study
@@ -68,6 +70,7 @@ ${CAUTIONS}`,
   registerMemo(program);
   registerQuote(program);
   registerAlias(program);
+  registerServe(program);
   return program;
 }
 
