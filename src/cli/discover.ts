@@ -3,7 +3,7 @@ import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { dismissCluster, promoteCluster, runDiscovery, triageStudy } from '../study/discovery.js';
 import { passageCount } from '../study/passages.js';
-import { currentTemplate } from '../study/template.js';
+import { currentTemplate, themePaths } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { walk } from '../template/paths.js';
 import { coderName, coderOf, collect, positiveInt, studyCommand, withStudy, type StudyOpts } from './common.js';
@@ -43,7 +43,7 @@ Examples:
         const run = runDiscovery(db, { k: opts.k });
         const pool = run.pool.pool;
         if (opts.json) return printJson(discoverJson(run));
-        const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+        const names = themePaths(db);
         const counts = run.pool.counts;
         say(`Unclaimed pool: ${plural(pool.length, 'passage')} (left out: ${counts.coded} coded, ${counts['nothing-to-code']} nothing to code, ${counts.claimed} claimed by a theme, ${counts.short} short, ${counts['small-talk']} small talk, ${counts.interviewer} interviewer).`);
         const almost = new Map<string, number>();

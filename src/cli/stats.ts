@@ -2,9 +2,8 @@ import type { Command } from 'commander';
 import { UserError } from '../errors.js';
 import type { GroupAcceptance } from '../measure/acceptance.js';
 import { agreement, studyStats, TOOL_CODER } from '../study/measures.js';
-import { currentTemplate } from '../study/template.js';
+import { currentTemplate, themePaths } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
-import { walk } from '../template/paths.js';
 import { collect, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table } from './output.js';
 import { getPassage } from '../study/passages.js';
@@ -14,7 +13,7 @@ const pct = (x: number | null) => (x === null ? '-' : `${(100 * x).toFixed(0)}%`
 const fix = (x: number | null, d = 2) => (x === null ? '-' : x.toFixed(d));
 
 function themeNames(db: Parameters<typeof currentTemplate>[0]): (id: string | null) => string {
-  const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+  const paths = themePaths(db);
   return (id) => (id ? (paths.get(id) ?? `${id} (retired)`) : '-');
 }
 

@@ -11,7 +11,7 @@ import { decide, markNothingToCode, undo, type Action, type DecisionRow } from '
 import { getPassage, passageTokens, type StoredPassage } from './passages.js';
 import { reviseTemplate } from './revise.js';
 import { suggest } from './suggestions.js';
-import { currentTemplate } from './template.js';
+import { currentTemplate, themePaths } from './template.js';
 
 export const ORDERS = ['transcript', 'uncertain', 'theme', 'confidence'] as const;
 export type ReviewOrder = (typeof ORDERS)[number];
@@ -301,7 +301,7 @@ export function itemFromRun(db: DB, suggestionId: number): ReviewItem | undefine
   const rows = db
     .prepare('SELECT id, theme_id, confidence, above, reasons FROM suggestions WHERE run_id = ? AND passage_id = ? ORDER BY rank')
     .all(s.run_id, s.passage_id) as { id: number; theme_id: string; confidence: number; above: number; reasons: string }[];
-  const paths = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path]));
+  const paths = themePaths(db);
   return {
     passageId: s.passage_id,
     transcript: p.name,
