@@ -4,6 +4,7 @@ import { openStudy } from '../study/db.js';
 import { startServer } from '../web/server.js';
 import { coderName, coderOf, studyCommand } from './common.js';
 import { say } from './output.js';
+import { UserError } from '../errors.js';
 import { InvalidArgumentError } from 'commander';
 
 function portNumber(v: string): number {
@@ -13,7 +14,9 @@ function portNumber(v: string): number {
 }
 
 export function registerServe(program: Command): void {
-  studyCommand(program, 'serve', 'review in the browser: a page on this computer only (127.0.0.1), until Ctrl-C')
+  const cmd = studyCommand(program, 'serve', 'review in the browser: a page on this computer only (127.0.0.1), until Ctrl-C');
+  cmd.options.find((o) => o.long === '--json')?.hideHelp();
+  cmd
     .option('--port <n>', 'the port (default: any free one)', portNumber, 0)
     .option('--coder <name>', 'who decides (default: $TRELLIS_CODER or the study\'s coder)', coderName)
     .addHelpText(
@@ -33,7 +36,8 @@ Examples:
   trellis serve --coder alex
   trellis serve --study handover --port 8765 --coder priya`,
     )
-    .action(async (opts: { study: string; port: number; coder?: string }) => {
+    .action(async (opts: { study: string; port: number; coder?: string; json?: boolean }) => {
+      if (opts.json) throw new UserError('serve runs a page until Ctrl-C and has no --json output; for scripts use "trellis suggest --json" and "trellis decide"');
       const db = openStudy(opts.study);
       try {
         const coder = coderOf(opts, db);

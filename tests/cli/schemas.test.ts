@@ -12,8 +12,8 @@ import { CORPUS, codedDemoStudy, trellis, write } from './run.js';
 const SCHEMAS = resolve(import.meta.dirname, '../../docs/schema');
 const SHARED = 'common.schema.json';
 
-/** Commands whose --json is refused: review is interactive (its hidden --json says so, exit 1). */
-const NO_JSON_OUTPUT = new Set(['review']);
+/** Commands whose --json is refused: review and serve are interactive (their hidden --json says so, exit 1). */
+const NO_JSON_OUTPUT = new Set(['review', 'serve']);
 
 /** Objects keyed by passage id, not by names: their keys are data, so not checked for snake_case. */
 const KEYED_BY_ID: Record<string, string[]> = { discover: ['nearest', 'none_fits'] };
@@ -140,10 +140,14 @@ describe('--json outputs and their schemas', () => {
     expect(commands.map(fileOf).sort()).toEqual(files);
   });
 
-  it('refuses --json where a command has no JSON output (review is interactive)', () => {
-    const r = trellis(['review', '--json'], dir);
-    expect(r.status).toBe(1);
-    expect(r.stdout).toBe('');
+  it('refuses --json where a command has no JSON output (review and serve are interactive)', () => {
+    for (const command of NO_JSON_OUTPUT) {
+      const r = trellis([command, '--json'], dir);
+      expect(r.status, command).toBe(1);
+      expect(r.stdout).toBe('');
+    }
+    // serve says why (review, run here without a terminal, first says it needs one)
+    expect(trellis(['serve', '--json'], dir).stderr).toContain('has no --json output');
   });
 
   it("validates every command's output against its schema", () => {
