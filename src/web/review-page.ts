@@ -1,5 +1,7 @@
 /** The review screen: one passage large in the middle, its candidates as buttons beneath, keys shown. */
-import type { Reason } from '../suggest/types.js';
+import { NO_SNIPPETS, reasonText } from '../review/reasons.js';
+
+const num = (n: number) => n.toFixed(2);
 import { esc } from './layout.js';
 import type { CandidateModel, TurnModel } from '../review/session.js';
 import type { ReviewView } from './session.js';
@@ -13,26 +15,6 @@ export function confidenceWords(c: number): string {
   return 'very unlikely';
 }
 
-const num = (n: number) => n.toFixed(2);
-
-export function reasonText(r: Reason): string {
-  switch (r.kind) {
-    case 'terms':
-      return `distinctive terms: ${r.terms.map((t) => `${t.written ?? t.term} (${num(t.weight)})`).join(', ')}${r.fragment ? `, in "${r.fragment}"` : ''}`;
-    case 'exemplar':
-      return `most like coded passage ${r.passageId} (similarity ${num(r.similarity)})`;
-    case 'seeds':
-      return `seed terms: ${r.terms.join(', ')}`;
-    case 'seed-only':
-      return 'profile from the definition and seed terms only (no coded passage yet)';
-    case 'parent':
-      return `fits ${r.theme}; no sub-theme stands out`;
-    case 'context':
-      return `the surrounding passages point here too (${num(r.weight)})`;
-    case 'question':
-      return `the interviewer's question points here (${num(r.weight)})`;
-  }
-}
 
 /** The passage with the terms each open candidate matched marked and numbered (not by colour). */
 export function markedText(text: string, candidates: CandidateModel[]): string {
@@ -66,7 +48,7 @@ function candidateRow(c: CandidateModel): string {
 <div class="cand-head"><span class="cand-n" aria-hidden="true">${n}</span>
 <h3 class="theme">${esc(c.path)}</h3>
 <p class="conf"><strong>${num(c.confidence)}</strong> · ${confidenceWords(c.confidence)} (${pct} in 100)${c.above ? ', above its threshold' : ', below its threshold'}</p></div>
-<ul class="reasons" aria-label="Why ${esc(c.path)}">${c.reasons.map((r) => `<li>${esc(reasonText(r))}</li>`).join('')}</ul>
+<ul class="reasons" aria-label="Why ${esc(c.path)}">${c.reasons.map((r) => `<li>${esc(reasonText(r, NO_SNIPPETS))}</li>`).join('')}</ul>
 ${state}
 <div class="cand-actions">${buttons}</div>
 </li>`;
