@@ -6,9 +6,9 @@
  */
 import type { DecisionRow } from '../study/decisions.js';
 import type { Template } from '../template/types.js';
-import type { Claim, PassageView, ReviewDecision, ReviewItem, ReviewSetup, ReviewStart } from '../study/review.js';
+import type { Claim, PassageView, ReviewCandidate, ReviewDecision, ReviewItem, ReviewSetup, ReviewStart } from '../study/review.js';
 
-export type { Claim, DecisionRow, PassageView, ReviewItem, ReviewSetup, ReviewStart };
+export type { Claim, DecisionRow, PassageView, ReviewCandidate, ReviewItem, ReviewSetup, ReviewStart };
 
 /** A theme of the current template, in template order. */
 export interface ThemeRef {

@@ -16,7 +16,7 @@
  */
 import { UserError } from '../errors.js';
 import type { Reason } from '../suggest/types.js';
-import type { DecisionRow, PassageView, ReviewItem, ReviewSetup, ReviewStore, ThemeRef } from './port.js';
+import type { DecisionRow, PassageView, ReviewCandidate, ReviewItem, ReviewSetup, ReviewStore, ThemeRef } from './port.js';
 import { describeBriefly } from './describe.js';
 import { ReviewQueue } from './queue.js';
 import { Tally } from './tally.js';
@@ -74,17 +74,10 @@ export type Outcome =
   | { kind: 'noted'; note: string | null }
   | { kind: 'moved' };
 
-export interface CandidateModel {
+/** A candidate as a front end shows it: the queue's candidate, its place, matches and state. */
+export interface CandidateModel extends ReviewCandidate {
   /** 1-based place in the list. */
   number: number;
-  suggestionId: number;
-  themeId: string;
-  path: string;
-  confidence: number;
-  /** At or above the theme's threshold. */
-  above: boolean;
-  threshold: number;
-  reasons: Reason[];
   /** Where the passage text holds the terms its reasons name: [start, end) character offsets. */
   matches: { start: number; end: number }[];
   state: 'open' | 'accepted' | 'rejected';
