@@ -18,8 +18,9 @@ export function registerProfile(program: Command): void {
     .action(async (theme: string | undefined, opts: StudyOpts & { targetPrecision: number; terms: number }) => {
       await withStudy(opts, (db) => {
         const only = theme ? findByPath(currentTemplate(db), theme).id : null;
-        const { model } = fitModel(db, { targetPrecision: opts.targetPrecision });
+        const { model, keep } = fitModel(db, { targetPrecision: opts.targetPrecision });
         const reports = model.themeReports().filter((r) => !only || r.themeId === only).map((r) => ({ ...r, topTerms: r.topTerms.slice(0, opts.terms) }));
+        keep(); // the next command on the same codings scores from this fit
         // Terms as the study writes them (the analysis may spell a lemma otherwise).
         const forms = writtenForms(db, reports.flatMap((r) => r.topTerms.map((t) => t.term)));
         for (const r of reports) r.topTerms = r.topTerms.map((t) => ({ ...t, written: forms.get(t.term) ?? t.term }));

@@ -58,11 +58,13 @@ interface Scored {
   fingerprint: string;
   codedPassages: Set<string>;
   background: string[][];
+  /** Stores the fitted model state (call inside the command's write, once it has succeeded). */
+  keep: () => void;
 }
 
 /** Fits the suggestion model, scores every uncoded passage and sorts out the unclaimed pool. */
 function scoreStudy(db: DB, poolOpts: PoolOptions = {}): Scored {
-  const { model, inputs, negatives } = fitModel(db);
+  const { model, inputs, negatives, keep } = fitModel(db);
   const stored = new Map((db.prepare('SELECT id, words, speaker FROM passages').all() as { id: string; words: number; speaker: string | null }[]).map((r) => [r.id, r]));
   const passages: PoolCandidate[] = inputs.passages.map((p) => {
     const row = stored.get(p.id);
@@ -75,7 +77,7 @@ function scoreStudy(db: DB, poolOpts: PoolOptions = {}): Scored {
     poolOpts,
   );
   const codedPassages = new Set(inputs.codings.map((c) => c.passageId));
-  return { passages, suggestions, pool, fingerprint: model.fingerprint, codedPassages, background: inputs.passages.map((p) => p.terms) };
+  return { passages, suggestions, pool, fingerprint: model.fingerprint, codedPassages, background: inputs.passages.map((p) => p.terms), keep };
 }
 
 function dismissals(db: DB): Dismissal[] {
@@ -133,6 +135,7 @@ export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
       for (const p of c.passageIds) insP.run(id, p, sim.get(p) ?? 0);
       return { row_id: id, cluster_id: key, label: clusterLabel(detail.terms.map((t) => t.term)), size: c.size, cohesion: c.cohesion, status: 'open', passage_ids: [...c.passageIds].sort(), detail };
     });
+    scored.keep();
     return { runId, result, pool: scored.pool, clusters, noneFitsAt };
   })();
 }
@@ -284,5 +287,6 @@ export function triageStudy(db: DB, transcripts?: string[]): { rows: TranscriptT
     clusters: clusters.map((c) => ({ id: c.cluster_id, passageIds: c.passage_ids })),
   });
   if (transcripts?.length) rows = rows.filter((r) => transcripts.includes(r.transcript));
+  if (!db.readonly) db.transaction(scored.keep)();
   return { rows, clusters };
 }

@@ -272,6 +272,18 @@ export const MIGRATIONS: string[] = [
     SELECT d.* FROM decisions d
     WHERE d.action != 'undo' AND NOT EXISTS (SELECT 1 FROM decisions u WHERE u.undoes = d.id);
   `,
+  // 12: the suggestion model's learned state, kept so that later commands on the same inputs
+  // (review, discover, triage, profile, the next suggest) score from it instead of fitting again.
+  `
+  CREATE TABLE model_states (
+    inputs      TEXT PRIMARY KEY,   -- hash of all the fit learned from: passages, codings, rejections, template, options
+    fingerprint TEXT NOT NULL,
+    state       BLOB NOT NULL,      -- the state as JSON, gzip-compressed
+    created_at  TEXT NOT NULL,
+    used_at     TEXT NOT NULL
+  );
+  ALTER TABLE suggestion_runs ADD COLUMN model_inputs TEXT;   -- the model_states row the run scored with
+  `,
 ];
 
 export const SCHEMA_VERSION = MIGRATIONS.length;

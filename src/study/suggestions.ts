@@ -1,5 +1,5 @@
 import { UserError } from '../errors.js';
-import { ThemeSuggester } from '../suggest/suggester.js';
+import { resolveOptions, ThemeSuggester } from '../suggest/suggester.js';
 import type { Candidate, PassageSuggestions, Reason, SuggesterOptions, ThemeReport } from '../suggest/types.js';
 import type { DB } from './db.js';
 import { modelInputs } from './model.js';
@@ -7,6 +7,7 @@ import { passageTokens } from './passages.js';
 import { matchedFragment } from '../text/fragment.js';
 import { nothingToCode, rejections } from './decisions.js';
 import { currentRevision } from './template.js';
+import { inputsKey, loadState, saveState, touchState } from './model-store.js';
 
 export interface StoredCandidate extends Candidate {
   suggestionId: number;
@@ -33,14 +34,41 @@ export interface SuggestOptions extends SuggesterOptions {
   progress?: (step: 'fit' | 'score' | 'store', done: number) => void;
 }
 
-/** Fits the theme profiles on the study's current codings (for `suggest` and `profile`). */
+/** The version of the stored model state this build reads and writes. */
+const STATE_VERSION = 3;
+
+/**
+ * The suggestion model on the study's current codings: the state stored by an earlier fit on
+ * exactly these inputs when the study keeps one (scored from it, which gives the same
+ * suggestions), otherwise a new fit. `keep()` stores the new state (or marks the stored one used):
+ * a command calls it inside its own write, after it has succeeded.
+ */
 export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: number) => void) {
   const rev = currentRevision(db);
   if (!rev) throw new UserError('the study has no template yet: run "trellis template set FILE" first');
   const inputs = modelInputs(db);
   const negatives = rejections(db);
-  const model = new ThemeSuggester(opts).fit(inputs.passages, inputs.codings, inputs.themes, { negatives, progress });
-  return { model, inputs, rev, negatives };
+  const options = resolveOptions(opts);
+  const key = inputsKey(inputs, negatives, options, STATE_VERSION);
+  let model: ThemeSuggester | null = null;
+  // (Only the few-example scorer's state can score on its own; the others are lab settings.)
+  const stored = options.scorer === 'fewshot' ? loadState(db, key) : null;
+  if (stored) {
+    try {
+      model = ThemeSuggester.fromState(stored.state, inputs.themes, inputs.passages, stored.fingerprint);
+    } catch {
+      model = null; // a state this build cannot read: fit again
+    }
+  }
+  const reused = model !== null;
+  if (model) progress?.(1);
+  else model = new ThemeSuggester(opts).fit(inputs.passages, inputs.codings, inputs.themes, { negatives, progress });
+  const fitted = model;
+  const keep = () => {
+    if (reused) touchState(db, key);
+    else if (options.scorer === 'fewshot') saveState(db, key, fitted.state, fitted.fingerprint);
+  };
+  return { model, inputs, rev, negatives, key, reused, keep };
 }
 
 /**
@@ -50,7 +78,7 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
 export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
   // (The progress callback is not a model option: options are stored with the run.)
   const { progress, ...opts } = options;
-  const { model, inputs, rev, negatives } = fitModel(db, opts, progress && ((d) => progress('fit', d)));
+  const { model, inputs, rev, negatives, key, keep } = fitModel(db, opts, progress && ((d) => progress('fit', d)));
   // A theme a coder rejected for a passage is not suggested for it again.
   const rejected = new Set(negatives.map((n) => `${n.passageId}\u0000${n.themeId}`));
   const byId = new Map(inputs.passages.map((p) => [p.id, p]));
@@ -93,8 +121,8 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
   return db.transaction(() => {
     const runId = Number(
       db
-        .prepare('INSERT INTO suggestion_runs (created_at, rev, fingerprint, options, passages, unclaimed) VALUES (?, ?, ?, ?, ?, ?)')
-        .run(new Date().toISOString(), rev.rev, model.fingerprint, JSON.stringify(model.options), kept.length, kept.filter((p) => p.unclaimed).length)
+        .prepare('INSERT INTO suggestion_runs (created_at, rev, fingerprint, options, passages, unclaimed, model_inputs) VALUES (?, ?, ?, ?, ?, ?, ?)')
+        .run(new Date().toISOString(), rev.rev, model.fingerprint, JSON.stringify(model.options), kept.length, kept.filter((p) => p.unclaimed).length, key)
         .lastInsertRowid,
     );
     // Ids are given explicitly (the next free ones, inside this transaction), so that many rows
@@ -124,6 +152,7 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
       });
     });
     flush();
+    keep();
     const passages = kept as SuggestRun['passages'];
     const paths = new Map(inputs.themes.map((t) => [t.id, t.path]));
     return { runId, rev: rev.rev, fingerprint: model.fingerprint, passages, reports: model.themeReports(), paths };

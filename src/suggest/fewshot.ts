@@ -124,7 +124,7 @@ export interface Calibration {
 
 /** The learned state: enough to score any passage, including one added after the fit. */
 export interface FewshotState {
-  version: 1;
+  version: 2;
   options: FewshotResolved;
   tfidf: TfidfState;
   themes: { id: string; path: string; parent: number; depth: number; children: number; direct: number; rolled: number; transcripts: number }[];
@@ -134,8 +134,12 @@ export interface FewshotState {
   all: { indices: number[]; values: number[] };
   /** Coded passages (for the nearest-passage signal): id, transcript, vector, themes (rolled up). */
   coded: { id: string; transcript: string; indices: number[]; values: number[]; themes: number[] }[];
-  /** The uncoded passages' soft counts (semi-supervised EM), added to `counts` and `all`. */
-  soft: Soft;
+  /**
+   * The uncoded passages that joined the counts in the last EM round (semi-supervised EM): each
+   * one's vector and weights. Their sums are added to `counts` and `all`; a passage listed here
+   * is scored without its own share, as the fit scored it.
+   */
+  soft: SoftPassage[];
   /** Rejected suggestions: the passage's vector and the themes it was rejected for. */
   rejected: { indices: number[]; values: number[]; themes: number[] }[];
   /** Per theme, its name, definition and seed terms as a vector (empty when it has none). */
@@ -236,6 +240,7 @@ export function fitFewshot(
   const tree = buildTree(themes);
   const nT = themes.length;
   const pIndex = new Map(passages.map((p, i) => [p.id, i]));
+  const ids = passages.map((p) => p.id);
   const direct: number[][] = passages.map(() => []);
   for (const c of codings) {
     const p = pIndex.get(c.passageId);
@@ -298,7 +303,7 @@ export function fitFewshot(
   const nP = passages.length;
   // Base counts, kept so that each round of the uncoded passages' soft counts starts from them.
   const base = { R: st.R.slice(), tot: st.tot.slice(), G: st.G.slice(), gtot: st.gtot };
-  let soft: Soft = { counts: themes.map(() => ({ indices: [], values: [] })), all: { indices: [], values: [] }, mass: 0 };
+  let shares: SoftPassage[] = [];
   let raw!: Float64Array;
   let nearest!: Int32Array;
   let rows!: number[];
@@ -315,12 +320,12 @@ export function fitFewshot(
     if (round > 0) {
       // Semi-supervised EM (multinomial models): the uncoded passages join the counts of the
       // themes in proportion to their confidences, weighted by em, and the model is refitted.
-      soft = softCounts(conf, x, codedT, transcriptOf, tree, V, o.em, negOf, like);
+      shares = softShares(conf, x, ids, codedT, transcriptOf, tree, o.em, negOf, like);
       st.R.set(base.R);
       st.tot.set(base.tot);
       st.G.set(base.G);
       st.gtot = base.gtot;
-      addSoft(st, soft);
+      addSoft(st, softTotals(shares, nT, V));
     }
     // After the first round only the Naive Bayes signals change: the others are kept.
     if (round === 0) {
@@ -388,7 +393,7 @@ export function fitFewshot(
     transcripts: new Set(state0.coded.filter((c) => c.themes.includes(t)).map((c) => c.transcript)).size,
   }));
   const state: FewshotState = {
-    version: 1,
+    version: 2,
     options: o,
     tfidf: vec.state,
     themes: themesOut,
@@ -396,7 +401,7 @@ export function fitFewshot(
     all: denseToSparse(base.G),
     coded: codedIdx.map((p, ci) => ({ id: passages[p]!.id, transcript: passages[p]!.transcript, ...sp(x[p]!), themes: state0.coded[ci]!.themes })),
     rejected: rejected.map((r) => ({ ...sp(r.vector), themes: r.themes })),
-    soft,
+    soft: shares,
     seeds: seedVecs.map(sp),
     unitMass: st.unit,
     seedScale,
@@ -413,24 +418,33 @@ export function fitFewshot(
 }
 
 /**
- * Scores passages with a fitted state only (they need not have been seen by the fit). Passages
- * are given in transcript order, so that context can look at their neighbours.
+ * Scores passages with a fitted state only (they need not have been seen by the fit), exactly as
+ * the fit scored them: a passage of a coded transcript without that transcript's codings (without
+ * its own, when only one transcript is coded), an uncoded passage of the fit without its own
+ * soft share. Passages are given in transcript order, whole transcripts, so that context can
+ * look at their neighbours.
  */
 export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages: ModelPassage[]): ScoredCells {
+  if (state.version !== 2) throw new Error(`fewshot state version ${String(state.version)} is not this version's (2): fit again`);
   const o = state.options;
   const tree = buildTree(themes);
   const vec = TfidfVectorizer.fromState(state.tfidf);
   const V = vec.size;
   const nT = state.themes.length;
-  const coded = state.coded.map((c) => ({
-    vector: { indices: Int32Array.from(c.indices), values: Float64Array.from(c.values) },
-    themes: c.themes,
-    direct: [],
-    transcript: -1,
-  }));
   const dense = (s: { indices: number[]; values: number[] }) => ({ indices: Int32Array.from(s.indices), values: Float64Array.from(s.values) });
-  const st = buildStats(coded, tree, V, state.seeds.map(dense), o, state.rejected.map((r) => ({ vector: dense(r), themes: r.themes })));
-  addSoft(st, state.soft);
+  // The folds of the fit: one per coded transcript, or one per coded passage when only one is coded.
+  const codedTranscripts = new Map<string, number>();
+  for (const c of state.coded) if (!codedTranscripts.has(c.transcript)) codedTranscripts.set(c.transcript, codedTranscripts.size);
+  const byPassage = codedTranscripts.size < 2;
+  const foldOf = (ci: number) => (byPassage ? ci : codedTranscripts.get(state.coded[ci]!.transcript)!);
+  const coded = state.coded.map((c, ci) => ({ vector: dense(c), themes: c.themes, direct: [], transcript: foldOf(ci) }));
+  const codedOf = new Map<string, number[]>();
+  state.coded.forEach((c, ci) => (codedOf.get(c.transcript) ?? codedOf.set(c.transcript, []).get(c.transcript)!).push(ci));
+  const codedId = new Map(state.coded.map((c, ci) => [c.id, ci]));
+  const rejected = state.rejected.map((r) => ({ vector: dense(r), themes: r.themes }));
+  const st = buildStats(coded, tree, V, state.seeds.map(dense), o, rejected);
+  addSoft(st, softTotals(state.soft, nT, V));
+  const ownShare = new Map(o.emLeaveOut ? state.soft.map((sp) => [sp.id, sp]) : []);
   st.words = passages.map((p) => p.words ?? p.terms.length);
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
   const members: number[][] = [];
@@ -442,19 +456,43 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   const nP = passages.length;
   const raw = new Float64Array(nP * nT * NR);
   const nearest = new Int32Array(nP * nT).fill(-1);
-  passages.forEach((p, i) => rawSignals(st, vec.vector(p.terms), -1, raw, nearest, i));
-  const like = rejectedLike(
-    passages.map((p) => vec.vector(p.terms)),
-    state.rejected.map((r) => ({ vector: dense(r), themes: r.themes })),
-    nT,
-  );
+  const xs = passages.map((p) => vec.vector(p.terms));
+  for (const m of members) {
+    const out = codedOf.get(passages[m[0]!]!.transcript) ?? [];
+    if (out.length && byPassage) {
+      for (const i of m) {
+        const ci = codedId.get(passages[i]!.id);
+        const restore = ci !== undefined ? leaveOut(st, coded, [ci], -1) : null;
+        rawSignals(st, xs[i]!, ci !== undefined ? foldOf(ci) : -1, raw, nearest, i, false, null);
+        if (restore) restore();
+      }
+      continue;
+    }
+    const restore = out.length ? leaveOut(st, coded, out, -1) : null;
+    for (const i of m) {
+      const own = out.length ? undefined : ownShare.get(passages[i]!.id);
+      rawSignals(st, xs[i]!, out.length ? foldOf(out[0]!) : -1, raw, nearest, i, false, own ? shareOf(own, nT) : null);
+    }
+    if (restore) restore();
+  }
+  const like = rejectedLike(xs, rejected, nT);
   const feats = cellFeatures(st, raw, members, nP, state.seedScale, like);
   const context = new Float64Array(nP * nT);
   return { conf: applyCalibration(state.calibration, state.seedCalibration, feats, nP * nT, like, context), raw, nearest, context };
 }
 
+/** An uncoded passage's part of the soft counts: its vector, its weight per theme (sparse), and over all themes. */
+export interface SoftPassage {
+  id: string;
+  indices: number[];
+  values: number[];
+  themes: number[];
+  weights: number[];
+  all: number;
+}
+
 /** Soft counts: per theme and over all themes, sparse, with the total mass added to `all`. */
-export interface Soft {
+interface Soft {
   counts: { indices: number[]; values: number[] }[];
   all: { indices: number[]; values: number[] };
   mass: number;
@@ -476,27 +514,45 @@ function softShare(conf: Float64Array, p: number, nT: number, tree: Tree, weight
   return { theme: share, all: weight * Math.min(1, total) };
 }
 
-function softCounts(conf: Float64Array, x: SparseVector[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, V: number, weight: number, negOf: Map<number, number[]>, like: Float64Array): Soft {
+/** Each uncoded passage's soft weights (theme indices and values, and over all themes), in passage order. */
+function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, weight: number, negOf: Map<number, number[]>, like: Float64Array): SoftPassage[] {
   const nT = tree.themes.length;
+  const out: SoftPassage[] = [];
+  for (let p = 0; p < x.length; p++) {
+    if (codedT[transcriptOf[p]!]) continue;
+    const w = softShare(conf, p, nT, tree, weight, negOf.get(p), like);
+    const themes: number[] = [];
+    const weights: number[] = [];
+    for (let t = 0; t < nT; t++) if (w.theme[t]) themes.push(t), weights.push(w.theme[t]!);
+    out.push({ id: ids[p]!, indices: [...x[p]!.indices], values: [...x[p]!.values], themes, weights, all: w.all });
+  }
+  return out;
+}
+
+/** The soft counts the shares add up to (the fit and the scoring of a stored state sum them alike). */
+function softTotals(shares: readonly SoftPassage[], nT: number, V: number): Soft {
   const R = new Float64Array(nT * V);
   const G = new Float64Array(V);
   let mass = 0;
-  for (let p = 0; p < x.length; p++) {
-    if (codedT[transcriptOf[p]!]) continue;
-    const v = x[p]!;
-    const w = softShare(conf, p, nT, tree, weight, negOf.get(p), like);
-    const g = w.all;
-    const on: number[] = [];
-    for (let t = 0; t < nT; t++) if (w.theme[t]) on.push(t);
-    for (let k = 0; k < v.indices.length; k++) {
-      const j = v.indices[k]!;
-      G[j] = G[j]! + g * v.values[k]!;
-      mass += g * v.values[k]!;
+  for (const sp of shares) {
+    const g = sp.all;
+    for (let k = 0; k < sp.indices.length; k++) {
+      const j = sp.indices[k]!;
+      const v = sp.values[k]!;
+      G[j] = G[j]! + g * v;
+      mass += g * v;
       const off = j * nT;
-      for (const t of on) R[off + t] = R[off + t]! + w.theme[t]! * v.values[k]!;
+      for (let q = 0; q < sp.themes.length; q++) R[off + sp.themes[q]!] = R[off + sp.themes[q]!]! + sp.weights[q]! * v;
     }
   }
   return { counts: Array.from({ length: nT }, (_, t) => themeColumn(R, t, nT, V)), all: denseToSparse(G), mass };
+}
+
+/** A stored share as the dense weights rawSignals takes out. */
+function shareOf(sp: SoftPassage, nT: number): { theme: Float64Array; all: number } {
+  const theme = new Float64Array(nT);
+  sp.themes.forEach((t, q) => (theme[t] = sp.weights[q]!));
+  return { theme, all: sp.all };
 }
 
 function addSoft(st: Stats, soft: Soft): void {

@@ -31,7 +31,7 @@ import { fitGrouped } from './logistic.js';
 import { adjacent, question, transcript as transcriptContext } from './context.js';
 import { fingerprint } from './fingerprint.js';
 import { MIN_EXAMPLES, MIN_TRANSCRIPTS, themeStrength } from './strength.js';
-import { fitFewshot, type FewshotOptions, type FewshotState } from './fewshot.js';
+import { fitFewshot, scoreFewshot, type FewshotOptions, type FewshotState, type ScoredCells } from './fewshot.js';
 import { buildTree, chooseThemes, rolledUpLabels, type Tree } from './hierarchy.js';
 import { CENTROID, EXEMPLARS, LOGODDS, Profiles, SIGNALS, type Corpus } from './profiles.js';
 import { chooseThreshold, precisionRecallAt } from './thresholds.js';
@@ -104,7 +104,7 @@ export interface LayerState {
 }
 
 export interface SuggesterState {
-  version: 2;
+  version: 3;
   options: ResolvedOptions;
   tfidf: TfidfState;
   themes: { id: string; path: string; profiled: boolean; seedOnly: boolean; tooFew: boolean; scored: boolean }[];
@@ -117,6 +117,11 @@ export interface SuggesterState {
   /** Maps a seed-only theme's cosine to its seed profile into a confidence (pooled over themes). */
   seedCalibrator: Platt | null;
   thresholds: number[];
+  /**
+   * Per theme, the terms a reason may cite as distinctive of it (z > 1.96 against the rest of the
+   * coded batch), as indices into `tfidf`'s vocabulary, with the theme's excess weight of each.
+   */
+  evidence: { indices: number[]; weights: number[] }[];
   reports: ThemeReport[];
   /** Coded passages and transcripts the fit learned from, and the rejections it used. */
   coded: { passages: number; transcripts: number; codings: number; ignoredCodings: number; negatives: number };
@@ -160,6 +165,12 @@ export class ThemeSuggester {
   private profiles!: Profiles;
   private corpus!: Corpus;
   private termLists: string[][] = [];
+  /** Raw term counts of each passage (same vocabulary as `vec`). */
+  private counts: SparseVector[] = [];
+  /** Per theme: vocabulary index -> excess weight, for the terms a reason may cite. */
+  private evidence: Map<number, number>[] = [];
+  /** What `nearest` indexes: the coded passages' ids (few-example scorer) or every passage's. */
+  private exemplarIds: string[] = [];
   /** [passage][theme] combined score and confidence. */
   private score = new Float64Array(0);
   private conf = new Float64Array(0);
@@ -239,6 +250,9 @@ export class ThemeSuggester {
     const nT = themes.length;
     const corpus: Corpus = (this.corpus = { x, c, vocabulary: this.vec.size, transcriptOf, members, codedTranscript, labels: labelsInBatch, negatives: negs, themes: nT });
     const prof = (this.profiles = new Profiles(corpus, o.priorStrength, o.signals.exemplars ? o.neighbours : 0, o.rocchio));
+    this.counts = c;
+    this.exemplarIds = passages.map((p) => p.id);
+    this.evidence = this.evidenceOf(prof, nT);
 
     const profiled = themes.map((_, t) => prof.positives[t]! > 0);
     const seedOnly = themes.map((th, t) => !profiled[t] && this.seedTerms(th).length > 0);
@@ -454,15 +468,7 @@ export class ThemeSuggester {
     const scored = themes.map((_, t) => (few ? few.state.themes[t]!.rolled > 0 || few.state.seeds[t]!.indices.length > 0 : profiled[t]! || (seedOnly[t]! && !!seedCalibrator)));
     const heldOutOf: number[][] = themes.map(() => []);
     if (few) {
-      this.conf = new Float64Array(few.cells.conf);
-      this.ctxPart = new Float64Array(few.cells.context);
-      for (let cell = 0; cell < nP * nT; cell++) {
-        const c = Math.min(Math.max(this.conf[cell]!, 1e-12), 1 - 1e-12);
-        this.score[cell] = Math.log(c / (1 - c));
-        const ci = few.cells.nearest[cell]!;
-        this.nearest[cell] = ci >= 0 ? this.pIndex.get(few.state.coded[ci]!.id)! : -1;
-        this.nearestSim[cell] = ci >= 0 ? few.cells.raw[cell * 4 + 2]! : 0;
-      }
+      this.useCells(few.cells, few.state);
       few.heldOut.theme.forEach((t, i) => heldOutOf[t]!.push(i));
       const batch = codedTranscript.reduce((a, b) => a + b, 0);
       for (let t = 0; t < nT; t++) tooFew[t] = scored[t]! && themeStrength(few.state.themes[t]!.rolled, few.state.themes[t]!.transcripts, batch, true, o.minExamples, o.minTranscripts) === 'few examples';
@@ -538,7 +544,7 @@ export class ThemeSuggester {
     progress(1);
     const codedPassages = labelsInBatch.filter((l) => l.length).length;
     this.st = {
-      version: 2,
+      version: 3,
       options: o,
       tfidf: this.vec.state,
       themes: themes.map((th, t) => ({ id: th.id, path: th.path, profiled: profiled[t]!, seedOnly: few ? scored[t]! && few.state.themes[t]!.rolled === 0 : seedOnly[t]!, tooFew: tooFew[t]!, scored: scored[t]! })),
@@ -548,6 +554,10 @@ export class ThemeSuggester {
       substance,
       seedCalibrator,
       thresholds,
+      evidence: this.evidence.map((m) => {
+        const indices = [...m.keys()].sort((a, b) => a - b);
+        return { indices, weights: indices.map((i) => m.get(i)!) };
+      }),
       reports,
       coded: {
         passages: codedPassages,
@@ -563,6 +573,67 @@ export class ThemeSuggester {
     const light = f ? { ...this.st, fewshot: { options: f.options, calibration: f.calibration, seedCalibration: f.seedCalibration, threshold: f.threshold, seedScale: f.seedScale } } : this.st;
     this.fp = fingerprint([JSON.stringify(light), prof.s, prof.y, this.score, this.conf]);
     return this;
+  }
+
+  /**
+   * A model from a stored state alone (the few-example scorer's): it scores the given passages,
+   * which need not be the ones it was fitted on, exactly as the fit scored those it saw.
+   * @param passages whole transcripts, in transcript order (context reads a passage's neighbours)
+   * @param fp the fingerprint the fit gave (a state does not hold its own)
+   */
+  static fromState(state: SuggesterState, themes: ThemeInfo[], passages: ModelPassage[], fp: string): ThemeSuggester {
+    if (state.version !== 3 || !state.fewshot) throw new Error('this stored model cannot be reloaded (an older version, or not the few-example scorer): fit again');
+    if (themes.length !== state.themes.length || themes.some((th, t) => th.id !== state.themes[t]!.id)) throw new Error('the stored model was fitted on other themes: fit again');
+    const m = new ThemeSuggester(state.options);
+    m.st = state;
+    m.fp = fp;
+    m.tree = buildTree(themes);
+    m.passages = passages;
+    m.pIndex = new Map(passages.map((p, i) => [p.id, i]));
+    m.vec = TfidfVectorizer.fromState(state.tfidf);
+    m.checkable = Uint8Array.from({ length: m.vec.size }, (_, i) => (citable(m.vec.term(i)) ? 1 : 0));
+    m.termLists = state.options.bigrams ? passages.map((p) => withBigrams(p.terms, true)) : passages.map((p) => p.terms);
+    m.counts = m.termLists.map((l) => m.vec.vectorAndCounts(l).counts);
+    m.evidence = state.evidence.map((e) => new Map(e.indices.map((i, k) => [i, e.weights[k]!])));
+    const n = passages.length * themes.length;
+    m.score = new Float64Array(n);
+    m.conf = new Float64Array(n);
+    m.ctxPart = new Float64Array(n);
+    m.qPart = new Float64Array(n);
+    m.nearest = new Int32Array(n).fill(-1);
+    m.nearestSim = new Float64Array(n);
+    m.useCells(scoreFewshot(state.fewshot, themes, passages), state.fewshot);
+    return m;
+  }
+
+  /** Takes the few-example scorer's confidences, context parts and nearest coded passages. */
+  private useCells(cells: ScoredCells, few: FewshotState): void {
+    this.conf = new Float64Array(cells.conf);
+    this.ctxPart = new Float64Array(cells.context);
+    this.exemplarIds = few.coded.map((c) => c.id);
+    for (let cell = 0; cell < this.conf.length; cell++) {
+      const c = Math.min(Math.max(this.conf[cell]!, 1e-12), 1 - 1e-12);
+      this.score[cell] = Math.log(c / (1 - c));
+      const ci = cells.nearest[cell]!;
+      this.nearest[cell] = ci;
+      this.nearestSim[cell] = ci >= 0 ? cells.raw[cell * 4 + 2]! : 0;
+    }
+  }
+
+  /** Per theme, the citable terms distinctive of it (excess weight > 0, z > 1.96). */
+  private evidenceOf(prof: Profiles, nT: number): Map<number, number>[] {
+    const delta = prof.fullDelta();
+    const z = prof.fullZ();
+    const out = Array.from({ length: nT }, () => new Map<number, number>());
+    for (let l = 0; l < prof.vc; l++) {
+      const i = prof.termOf[l]!;
+      if (!this.checkable[i]) continue;
+      for (let t = 0; t < nT; t++) {
+        const d = delta[l * nT + t]!;
+        if (d > 0 && z[l * nT + t]! > 1.96) out[t]!.set(i, d);
+      }
+    }
+    return out;
   }
 
   /**
@@ -693,7 +764,7 @@ export class ThemeSuggester {
       if (terms.length) out.push({ kind: 'terms', terms });
       const ex = near ? near.nearest[t]! : this.nearest[p * nT + t]!;
       const sim = near ? near.sim[t]! : this.nearestSim[p * nT + t]!;
-      if (ex >= 0) out.push({ kind: 'exemplar', passageId: this.passages[ex]!.id, similarity: round(sim) });
+      if (ex >= 0) out.push({ kind: 'exemplar', passageId: near ? this.passages[ex]!.id : this.exemplarIds[ex]!, similarity: round(sim) });
       // Reasons say why a theme is suggested: context that points elsewhere (a negative part) is
       // not one, and would read as "the surrounding passages point here too (-0.15)".
       if (this.ctxPart[p * nT + t]! > 0) out.push({ kind: 'context', weight: round(this.ctxPart[p * nT + t]!) });
@@ -707,20 +778,16 @@ export class ThemeSuggester {
 
   /** The passage's terms that are distinctive of the theme (z > 1.96), by contribution. */
   private matchedTerms(p: number, t: number, n: number): { term: string; weight: number }[] {
-    const c = this.corpus.c[p]!;
-    const { loc, nT } = this.profiles;
-    const delta = this.profiles.fullDelta();
-    const z = this.profiles.fullZ();
+    const c = this.counts[p]!;
+    const evidence = this.evidence[t]!;
     // The n best by a running selection (this runs for every reason of every passage): weights
     // and term indices only, the term strings looked up for ties and for the n kept.
     const bw: number[] = [];
     const bi: number[] = [];
     const before = (w: number, i: number, j: number) => w > bw[j]! || (w === bw[j]! && this.vec.term(i) < this.vec.term(bi[j]!));
     for (let k = 0; k < c.indices.length; k++) {
-      const l = loc[c.indices[k]!]!;
-      if (l < 0 || !this.checkable[c.indices[k]!]) continue;
-      const d = delta[l * nT + t]!;
-      if (!(d > 0 && z[l * nT + t]! > 1.96)) continue;
+      const d = evidence.get(c.indices[k]!);
+      if (d === undefined) continue;
       const w = round(c.values[k]! * d);
       const i = c.indices[k]!;
       if (bw.length === n && !before(w, i, n - 1)) continue;

@@ -130,7 +130,9 @@ export function startServer(o: ServeOptions): Promise<Serving> {
       const id = url.searchParams.get('id') ?? '';
       const entry = [...walk(currentTemplate(o.db))].find((e) => e.node.id === id);
       if (!entry) return send(res, 404, 'text/html; charset=utf-8', page('No such theme', '/template', '<p>That theme is not in the current template. <a href="/template">Back to the template</a></p>', o.coder));
-      const report = fitModel(o.db).model.themeReports().find((r) => r.themeId === id);
+      const fitted = fitModel(o.db);
+      fitted.keep();
+      const report = fitted.model.themeReports().find((r) => r.themeId === id);
       const byPassage = new Map<string, string[]>();
       for (const c of currentCodings(o.db)) if (c.theme_id === id) byPassage.set(c.passage_id, [...(byPassage.get(c.passage_id) ?? []), c.coder]);
       const passages = [...byPassage].flatMap(([pid, coders]) => {

@@ -198,3 +198,71 @@ describe('a first batch of one coded transcript', () => {
     expect(fit.cells.conf[7 * 2 + 1]!).toBeGreaterThan(fit.cells.conf[7 * 2 + 0]!);
   });
 });
+
+describe('few-example scorer: the state alone reproduces the fit', () => {
+  // Invented interviews about ward handovers: t1-t3 coded, t4-t5 not; one rejection in t5.
+  const lines: Record<string, string[][]> = {
+    t1: [['rota', 'shift', 'late'], ['handover', 'sheet', 'paper'], ['manager', 'support', 'listen']],
+    t2: [['shift', 'rota', 'night'], ['sheet', 'handover', 'print'], ['tired', 'busy', 'shift']],
+    t3: [['support', 'manager', 'help'], ['paper', 'sheet', 'pocket'], ['rota', 'swap', 'weekend']],
+    t4: [['rota', 'weekend', 'shift'], ['handover', 'print', 'sheet'], ['listen', 'help', 'manager'], ['busy', 'night']],
+    t5: [['pocket', 'paper', 'fold'], ['swap', 'shift', 'late'], ['support', 'listen']],
+  };
+  const passages: ModelPassage[] = Object.entries(lines).flatMap(([t, docs]) =>
+    docs.map((terms, i) => ({ id: `${t}-${i}`, transcript: t, ordinal: i + 1, role: 'participant', terms }) as ModelPassage),
+  );
+  const themes = [theme('hours'), theme('rota', 'hours'), theme('paper'), theme('support'), theme('pay', null, { definition: 'money', seeds: ['salary'], definitionTerms: ['money', 'salary'] })];
+  const codings: Coding[] = [
+    { passageId: 't1-0', themeId: 'rota' },
+    { passageId: 't1-1', themeId: 'paper' },
+    { passageId: 't1-2', themeId: 'support' },
+    { passageId: 't2-0', themeId: 'rota' },
+    { passageId: 't2-1', themeId: 'paper' },
+    { passageId: 't2-2', themeId: 'hours' },
+    { passageId: 't3-0', themeId: 'support' },
+    { passageId: 't3-1', themeId: 'paper' },
+    { passageId: 't3-2', themeId: 'rota' },
+  ];
+  const negatives: Coding[] = [{ passageId: 't5-1', themeId: 'support' }];
+  const nT = themes.length;
+
+  const same = (fit: ReturnType<typeof fitFewshot>, scored: ReturnType<typeof scoreFewshot>, rows: number[]) => {
+    let checked = 0;
+    rows.forEach((p, i) => {
+      for (let t = 0; t < nT; t++) {
+        expect(scored.conf[i * nT + t]).toBeCloseTo(fit.cells.conf[p * nT + t]!, 12);
+        expect(scored.nearest[i * nT + t]).toBe(fit.cells.nearest[p * nT + t]);
+        checked++;
+      }
+    });
+    return checked;
+  };
+
+  it('gives every passage, coded or not, the confidence the fit gave it (EM rounds, rejections, JSON round trip)', () => {
+    const fit = fitFewshot(passages, codings, themes, {}, negatives);
+    expect(fit.state.soft.length).toBe(7); // the passages of t4 and t5 joined the counts
+    const again = scoreFewshot(JSON.parse(JSON.stringify(fit.state)), themes, passages);
+    expect(same(fit, again, passages.map((_, i) => i))).toBe(passages.length * nT);
+  });
+  it('scores one uncoded transcript on its own as it scored it among all the others', () => {
+    const fit = fitFewshot(passages, codings, themes, {}, negatives);
+    const t4 = passages.map((p, i) => [p, i] as const).filter(([p]) => p.transcript === 't4');
+    const alone = scoreFewshot(fit.state, themes, t4.map(([p]) => p));
+    same(fit, alone, t4.map(([, i]) => i));
+  });
+  it('leaves a coded passage out of its own fold when only one transcript is coded', () => {
+    const one = codings.filter((c) => c.passageId.startsWith('t1'));
+    const fit = fitFewshot(passages, one, themes, {});
+    const again = scoreFewshot(fit.state, themes, passages);
+    same(fit, again, passages.map((_, i) => i));
+  });
+  it('differs from the fit when a passage is scored with its own soft share (the check can fail)', () => {
+    const fit = fitFewshot(passages, codings, themes, {}, negatives);
+    const renamed = passages.map((p) => (p.transcript === 't4' ? { ...p, id: `new-${p.id}` } : p));
+    const again = scoreFewshot(fit.state, themes, renamed);
+    const i = passages.findIndex((p) => p.id === 't4-0');
+    let diff = 0;
+    for (let t = 0; t < nT; t++) diff = Math.max(diff, Math.abs(again.conf[i * nT + t]! - fit.cells.conf[i * nT + t]!));
+    expect(diff).toBeGreaterThan(1e-9);
+  });
+});

@@ -1,0 +1,66 @@
+// Each suggestion run stores the model state it used, and later commands on the same inputs
+// score from it instead of fitting again, with the same results as a new fit.
+import { describe, expect, it } from 'vitest';
+import { codedDemoStudy } from '../cli/run.js';
+import { openStudy, type DB } from '../../src/study/db.js';
+import { decide } from '../../src/study/decisions.js';
+import { runDiscovery, triageStudy } from '../../src/study/discovery.js';
+import { KEPT_STATES } from '../../src/study/model-store.js';
+import { fitModel, suggest, type SuggestRun } from '../../src/study/suggestions.js';
+
+const states = (db: DB) => db.prepare('SELECT inputs, fingerprint FROM model_states ORDER BY created_at').all() as { inputs: string; fingerprint: string }[];
+const runKey = (db: DB, id: number) => (db.prepare('SELECT model_inputs FROM suggestion_runs WHERE id = ?').get(id) as { model_inputs: string }).model_inputs;
+/** What a run suggested, without the ids the run gave its rows. */
+const content = (r: SuggestRun) => r.passages.map((p) => ({ ...p, candidates: p.candidates.map(({ suggestionId: _, ...c }) => c) }));
+
+describe('stored model state', () => {
+  it('is written by suggest and reused by the next suggest on the same inputs, which suggests the same', () => {
+    const db = openStudy(codedDemoStudy());
+    expect(states(db)).toHaveLength(0);
+    const first = suggest(db, { top: 5 });
+    expect(states(db)).toEqual([{ inputs: runKey(db, first.runId), fingerprint: first.fingerprint }]);
+    expect(fitModel(db).reused).toBe(true);
+    const second = suggest(db, { top: 5 });
+    expect(runKey(db, second.runId)).toBe(runKey(db, first.runId));
+    expect(second.fingerprint).toBe(first.fingerprint);
+    expect(content(second)).toEqual(content(first));
+    expect(states(db)).toHaveLength(1);
+
+    // A decision changes what the model learns from: a new fit, a new state beside the old.
+    const c = first.passages.find((p) => p.candidates.length > 1)!.candidates[0]!;
+    decide(db, { suggestionId: c.suggestionId, action: 'reject', coder: 'tester' });
+    expect(fitModel(db).reused).toBe(false);
+    const third = suggest(db, { top: 5 });
+    expect(runKey(db, third.runId)).not.toBe(runKey(db, first.runId));
+    expect(states(db)).toHaveLength(2);
+    db.close();
+  });
+
+  it('gives discover and triage the results of a new fit', () => {
+    const dir = codedDemoStudy();
+    const fresh = openStudy(codedDemoStudy());
+    const db = openStudy(dir);
+    suggest(db, { top: 3 });
+    expect(fitModel(db).reused).toBe(true);
+    const reused = runDiscovery(db);
+    const refitted = runDiscovery(fresh);
+    expect(reused.clusters.map((c) => [c.cluster_id, c.passage_ids, c.detail.nearest_theme])).toEqual(refitted.clusters.map((c) => [c.cluster_id, c.passage_ids, c.detail.nearest_theme]));
+    expect(reused.pool.pool.map((p) => [p.id, p.noneFits])).toEqual(refitted.pool.pool.map((p) => [p.id, p.noneFits]));
+    expect(triageStudy(db).rows).toEqual(triageStudy(fresh).rows);
+    db.close();
+    fresh.close();
+  });
+
+  it('is not written by a command that fails, and only the latest few are kept', () => {
+    const db = openStudy(codedDemoStudy());
+    expect(() => runDiscovery(db, { k: 100000 })).toThrow(/out of range/);
+    expect(states(db)).toHaveLength(0);
+    for (let i = 0; i < KEPT_STATES + 1; i++) suggest(db, { targetPrecision: 0.5 + i / 20 });
+    const kept = states(db);
+    expect(kept).toHaveLength(KEPT_STATES);
+    // The oldest (target precision 0.5) went; the newest is there.
+    expect(fitModel(db, { targetPrecision: 0.5 }).reused).toBe(false);
+    expect(fitModel(db, { targetPrecision: 0.5 + KEPT_STATES / 20 }).reused).toBe(true);
+    db.close();
+  });
+});
