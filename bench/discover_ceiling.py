@@ -8,6 +8,14 @@ over the category's passages in the pool), at the k of the best mean silhouette 
 k. A benchmark aid, run by bench/discover-ceiling.mjs with Debian's python3-sklearn.
 
 usage: discover_ceiling.py PASSAGES.json SEED A B CATEGORY...
+       discover_ceiling.py pool OUT WORK DISCOVER.json THEME
+
+The second form bounds the clustering of the pool trellis actually gave on a protocol of
+../shared/bench/fewshot.py (OUT, run in WORK with --leave-out THEME; DISCOVER.json is
+`trellis discover --json` on that study): the F1 of a perfect cluster of that pool (every
+left-out passage in it and nothing else: 2r / (1 + r) for pool recall r), and scikit-learn's
+KMeans on the same pool (TF-IDF of the passages' text, k = 2..12), scored as the shared script
+scores trellis's clusters (F1 against all the left-out theme's test passages).
 """
 import json
 import sys
@@ -17,6 +25,47 @@ from sklearn.cluster import KMeans
 from sklearn.feature_extraction.text import TfidfVectorizer
 from sklearn.metrics import silhouette_score
 
+
+
+def same_pool(src, work, found_path, leave):
+    import csv, os
+    sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "shared", "bench"))
+    import fewshot
+    rows = [json.loads(l) for l in open(os.path.join(src, "truth.jsonl"), encoding="utf-8")]
+    by_t = {}
+    for r in rows:
+        by_t.setdefault(r["transcript"], []).append(r)
+    text, hold = {}, set()
+    for s in csv.DictReader(open(os.path.join(work, "sheet.csv"), encoding="utf-8-sig", newline="")):
+        t = os.path.splitext(os.path.basename(s["transcript"]))[0]
+        if t not in by_t and t.startswith("survey-"):
+            t = t[len("survey-"):]
+        norm = fewshot.norm(s["text"])
+        hit = next((r for r in by_t.get(t, []) if norm and norm in fewshot.norm(r["text"])), None)
+        if hit is None:
+            continue
+        text[s["passage_id"]] = s["text"]
+        if hit["split"] == "test" and any(fewshot.under(th, leave) for th in hit["themes"]):
+            hold.add(s["passage_id"])
+    found = json.load(open(found_path, encoding="utf-8"))
+    pool = [pid for pid in found.get("unclaimed", []) if pid in text]
+    y = np.array([pid in hold for pid in pool])
+    r = y.sum() / max(len(hold), 1)
+    out = {"pool": len(pool), "left_out_in_pool": int(y.sum()), "left_out": len(hold), "perfect_cluster_f1": float(2 * r / (1 + r)) if r else 0.0}
+    if len(pool) > 12:
+        X = TfidfVectorizer(sublinear_tf=True, stop_words="english").fit_transform([text[pid] for pid in pool])
+        by_k = []
+        for k in range(2, 13):
+            labels = KMeans(n_clusters=k, n_init=5, random_state=0).fit(X).labels_
+            f1 = max(2 * (y & (labels == j)).sum() / ((labels == j).sum() + len(hold)) for j in range(k))
+            by_k.append({"k": k, "f1": float(f1), "silhouette": float(silhouette_score(X, labels, sample_size=min(3000, len(pool)), random_state=0))})
+        out.update({"kmeans_best_f1": max(b["f1"] for b in by_k), "kmeans_f1_at_silhouette_k": max(by_k, key=lambda b: b["silhouette"])["f1"], "by_k": by_k})
+    print(json.dumps(out))
+
+
+if sys.argv[1] == "pool":
+    same_pool(*sys.argv[2:6])
+    sys.exit(0)
 path, seed, a, b = sys.argv[1], int(sys.argv[2]), float(sys.argv[3]), float(sys.argv[4])
 passages = json.load(open(path, encoding="utf-8"))
 for left in sys.argv[5:]:

@@ -41,11 +41,58 @@ export function rampClass(value: number, max: number): number {
 }
 
 // ---------------------------------------------------------------------------------------------
+// Themes' spread over many transcripts (a survey): one bar a theme
+
+/** For each theme, the share of transcripts with at least one passage of it, and its passages. */
+export function spreadChart(data: ReportData): string | null {
+  const { transcripts, themes, counts } = data.heatmap;
+  if (!transcripts.length || !themes.length) return null;
+  const label = themeLabeller(data.themes);
+  const rows = themes.map((path, i) => {
+    let reached = 0;
+    let total = 0;
+    for (const c of counts[i] ?? []) (reached += c > 0 ? 1 : 0), (total += c);
+    return { ...label(path), reached, total };
+  });
+  const size = 12;
+  const indent = 14;
+  const labelW = Math.min(300, Math.max(120, ...rows.map((r) => r.level * indent + textWidth(r.label, size) + 12)));
+  const numW = 190;
+  const barW = Math.max(200, WIDTH - labelW - numW - 8);
+  const rowH = 22;
+  const top = 26;
+  const height = top + rows.length * rowH + 40;
+  const x = linear([0, 1], [labelW, labelW + barW]);
+  const parts: string[] = [text(labelW, top - 10, `Share of the ${int(transcripts.length)} transcripts with the theme`, { size: 12, fill: MUTED })];
+  rows.forEach((r, i) => {
+    const y = top + i * rowH;
+    if (r.level === 0 && i > 0) parts.push(line(4, y, WIDTH - 4, y, { stroke: RULE, strokeWidth: 1 }));
+    const share = r.reached / transcripts.length;
+    parts.push(text(4 + r.level * indent, y + rowH / 2, fit(r.label, labelW - 10 - r.level * indent, size), { size, baseline: 'middle', weight: r.level === 0 ? 'bold' : 'normal', title: r.title }));
+    parts.push(rect(labelW, y + 4, barW, rowH - 8, { fill: ZERO_FILL }));
+    if (r.reached) parts.push(rect(labelW, y + 4, Math.max(1, x(share) - labelW), rowH - 8, { fill: BLUES_7[4]! }));
+    parts.push(text(labelW + barW + 8, y + rowH / 2, `${pct(share)} (${int(r.reached)}), ${int(r.total)} ${r.total === 1 ? 'passage' : 'passages'}`, { size: 12, baseline: 'middle' }));
+  });
+  parts.push(text(4, height - 12, 'Each bar: the transcripts with at least one passage coded to the theme or any of its sub-themes.', { size: 12, fill: MUTED }));
+  const desc =
+    `Share of the ${transcripts.length} transcripts with at least one passage per theme (including sub-themes). ` +
+    rows.map((r) => `${r.label}: ${r.reached} transcripts, ${r.total} passages.`).join(' ');
+  return chart({ id: 'chart-heatmap', width: WIDTH, height, title: 'Transcripts reached by each theme', desc, body: parts.join('') });
+}
+
 // Theme x transcript heat map
+
+/**
+ * Beyond this many transcripts a map with a column per transcript cannot be read (a survey of
+ * 20,000 answers would be millions of cells and hundreds of MB of SVG): each theme's spread over
+ * the transcripts is drawn instead (spreadChart).
+ */
+export const MAP_COLUMNS = 60;
 
 export function heatmapChart(data: ReportData): string | null {
   const { transcripts, themes, counts } = data.heatmap;
   if (!transcripts.length || !themes.length) return null;
+  if (transcripts.length > MAP_COLUMNS) return spreadChart(data);
   const label = themeLabeller(data.themes);
   const rows = themes.map((path, i) => ({ ...label(path), counts: counts[i] ?? [] }));
   // A loop, not a spread: themes x transcripts cells overflow the call stack in a large survey.

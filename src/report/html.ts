@@ -4,7 +4,7 @@
  */
 
 import { AGREEMENT_CAUTION, KRIPPENDORFF_GUIDANCE, LANDIS_KOCH_BANDS } from '../measure/bands.js';
-import { FEW_DECISIONS, acceptanceChart, calibrationChart, growthChart, heatmapChart, overTimeChart, themeLabeller, unclaimedChart } from './charts.js';
+import { FEW_DECISIONS, MAP_COLUMNS, acceptanceChart, calibrationChart, growthChart, heatmapChart, overTimeChart, themeLabeller, unclaimedChart } from './charts.js';
 import { BASE_CSS, htmlDocument } from './document.js';
 import { esc, fixed, int, oneLine, pct, plural, when } from './escape.js';
 import { QUOTE_RULES, choiceLine } from './quotes.js';
@@ -176,6 +176,14 @@ function revisionHistory(d: ReportData): string {
 function coverage(d: ReportData): string {
   const svg = heatmapChart(d);
   if (!svg) return empty('No transcripts have been coded yet, so there is nothing to map.');
+  if (d.heatmap.transcripts.length > MAP_COLUMNS) {
+    return figure(
+      'Transcripts reached by each theme',
+      svg,
+      `With ${d.heatmap.transcripts.length.toLocaleString('en-GB')} transcripts a column each would not be readable, so each theme shows the share of transcripts with at least one of its passages (counts include sub-themes). "trellis export matrix" writes the full theme-by-transcript table.`,
+      true,
+    );
+  }
   return figure(
     'Passages per theme and transcript',
     svg,
