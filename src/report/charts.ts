@@ -62,21 +62,25 @@ export function spreadChart(data: ReportData): string | null {
   const rowH = 22;
   const top = 26;
   const height = top + rows.length * rowH + 40;
-  const x = linear([0, 1], [labelW, labelW + barW]);
-  const parts: string[] = [text(labelW, top - 10, `Share of the ${int(transcripts.length)} transcripts with the theme`, { size: 12, fill: MUTED })];
+  // Bars run to the largest share (rounded up), so that themes of a few per cent still show.
+  const most = Math.max(...rows.map((r) => r.reached)) / transcripts.length;
+  const scaleTo = most > 0 ? Math.min(1, niceMax(most * 100) / 100) : 1;
+  const x = linear([0, scaleTo], [labelW, labelW + barW]);
+  const share = (r: { reached: number }) => r.reached / transcripts.length;
+  const shown = (v: number) => (v > 0 && v < 0.0005 ? '<0.1%' : pct(v, v > 0 && v < 0.1 ? 1 : 0));
+  const parts: string[] = [text(labelW, top - 10, `Share of the ${int(transcripts.length)} transcripts with the theme (a full bar: ${pct(scaleTo)})`, { size: 12, fill: MUTED })];
   rows.forEach((r, i) => {
     const y = top + i * rowH;
     if (r.level === 0 && i > 0) parts.push(line(4, y, WIDTH - 4, y, { stroke: RULE, strokeWidth: 1 }));
-    const share = r.reached / transcripts.length;
     parts.push(text(4 + r.level * indent, y + rowH / 2, fit(r.label, labelW - 10 - r.level * indent, size), { size, baseline: 'middle', weight: r.level === 0 ? 'bold' : 'normal', title: r.title }));
     parts.push(rect(labelW, y + 4, barW, rowH - 8, { fill: ZERO_FILL }));
-    if (r.reached) parts.push(rect(labelW, y + 4, Math.max(1, x(share) - labelW), rowH - 8, { fill: BLUES_7[4]! }));
-    parts.push(text(labelW + barW + 8, y + rowH / 2, `${pct(share)} (${int(r.reached)}), ${int(r.total)} ${r.total === 1 ? 'passage' : 'passages'}`, { size: 12, baseline: 'middle' }));
+    if (r.reached) parts.push(rect(labelW, y + 4, Math.max(1, x(share(r)) - labelW), rowH - 8, { fill: BLUES_7[4]! }));
+    parts.push(text(labelW + barW + 8, y + rowH / 2, `${shown(share(r))} (${int(r.reached)}), ${int(r.total)} ${r.total === 1 ? 'passage' : 'passages'}`, { size: 12, baseline: 'middle' }));
   });
   parts.push(text(4, height - 12, 'Each bar: the transcripts with at least one passage coded to the theme or any of its sub-themes.', { size: 12, fill: MUTED }));
   const desc =
     `Share of the ${transcripts.length} transcripts with at least one passage per theme (including sub-themes). ` +
-    rows.map((r) => `${r.label}: ${r.reached} transcripts, ${r.total} passages.`).join(' ');
+    rows.map((r) => `${r.label}: ${r.reached} ${r.reached === 1 ? 'transcript' : 'transcripts'}, ${r.total} ${r.total === 1 ? 'passage' : 'passages'}.`).join(' ');
   return chart({ id: 'chart-heatmap', width: WIDTH, height, title: 'Transcripts reached by each theme', desc, body: parts.join('') });
 }
 
