@@ -34,3 +34,18 @@ export function workingNote(text: string, opts: { json?: boolean; passages: numb
   if (opts.json || !process.stderr.isTTY || opts.passages < (opts.from ?? 2000)) return;
   process.stderr.write(`${text}\n`);
 }
+
+/**
+ * One bar over a command made of steps, each given its share of the whole (measured on a large
+ * study), for work that reports how far each step is (0 to 1).
+ */
+export function stepBar<S extends string>(label: string, shares: Record<S, readonly [number, number]>, show: boolean): { step: (step: S, done: number) => void; stop: () => void } {
+  const bar = progressBar(1000, label, { show, share: true });
+  return {
+    step: (step, done) => {
+      const [from, to] = shares[step];
+      bar.tick(Math.round(1000 * (from + (to - from) * done)));
+    },
+    stop: () => bar.stop(),
+  };
+}

@@ -7,7 +7,7 @@ import { clock } from '../sheet/sheet.js';
 import { collect, positiveInt, probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { markTerms, wrap } from './marks.js';
 import { plural, printJson, printJsonStream, say, table, warn } from './output.js';
-import { progressBar } from './progress.js';
+import { stepBar } from './progress.js';
 import { markedTerms, reasonText, type Snippets } from './reasons.js';
 import { passageJson, passageJsonText } from './suggest-json.js';
 
@@ -36,15 +36,7 @@ function snippetCache(db: DB): Snippets {
  * 10,000-passage run (about 1.7 s, 0.4 s and 0.5 s). Only for studies large enough to wait on.
  */
 function suggestBar(db: DB) {
-  const SHARES = { fit: [0, 0.65], score: [0.65, 0.8], store: [0.8, 1] } as const;
-  const bar = progressBar(1000, 'suggesting', { show: passageCount(db) >= 2000, share: true });
-  return {
-    step: (step: keyof typeof SHARES, done: number) => {
-      const [from, to] = SHARES[step];
-      bar.tick(Math.round(1000 * (from + (to - from) * done)));
-    },
-    stop: () => bar.stop(),
-  };
+  return stepBar('suggesting', { fit: [0, 0.65], score: [0.65, 0.8], store: [0.8, 1] }, passageCount(db) >= 2000);
 }
 
 export function registerSuggest(program: Command): void {

@@ -62,7 +62,8 @@ function silhouetteOf(vectors: readonly SparseVector[], labels: ArrayLike<number
  * @param background the content lemmas of every passage of the study, pool passages included:
  *   the "rest of the study" a cluster's terms are compared with
  */
-export function discover(pool: readonly DiscoverItem[], background: readonly (readonly string[])[], opts: DiscoverOptions = {}): DiscoverResult {
+/** @param progress told the share of the k sweep done (0 to 1); it does not change the result */
+export function discover(pool: readonly DiscoverItem[], background: readonly (readonly string[])[], opts: DiscoverOptions = {}, progress: (done: number) => void = () => {}): DiscoverResult {
   const o = resolveDiscoverOptions(opts);
   const items = pool.slice().sort((a, b) => naturalCompare(a.id, b.id));
   for (let i = 1; i < items.length; i++) if (items[i]!.id === items[i - 1]!.id) throw new RangeError(`passage ${items[i]!.id} is in the pool twice`);
@@ -114,6 +115,8 @@ export function discover(pool: readonly DiscoverItem[], background: readonly (re
         base.silhouette.push({ k: kk, score });
         // Ties keep the smaller k.
         if (!best || score > best.score + 1e-12) best = { k: kk, score, fit: f };
+        // The final fit at the chosen k costs about one more step of the sweep.
+        progress((kk - Math.max(lo, 2) + 1) / (hi - Math.max(lo, 2) + 2));
       }
       k = best!.k;
       chosenBy = 'silhouette';

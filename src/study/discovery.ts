@@ -62,15 +62,18 @@ interface Scored {
   keep: () => void;
 }
 
+/** How far a discovery or triage is: the step, and the share of it done (0 to 1). */
+export type DiscoveryProgress = (step: 'fit' | 'score' | 'cluster', done: number) => void;
+
 /** Fits the suggestion model, scores every uncoded passage and sorts out the unclaimed pool. */
-function scoreStudy(db: DB, poolOpts: PoolOptions = {}): Scored {
-  const { model, inputs, negatives, keep } = fitModel(db);
+function scoreStudy(db: DB, poolOpts: PoolOptions = {}, progress?: DiscoveryProgress): Scored {
+  const { model, inputs, negatives, keep } = fitModel(db, {}, progress && ((d) => progress('fit', d)));
   const stored = new Map((db.prepare('SELECT id, words, speaker FROM passages').all() as { id: string; words: number; speaker: string | null }[]).map((r) => [r.id, r]));
   const passages: PoolCandidate[] = inputs.passages.map((p) => {
     const row = stored.get(p.id);
     return { id: p.id, transcript: p.transcript, speaker: row?.speaker ?? null, role: p.role, terms: p.terms, words: row?.words };
   });
-  const suggestions = model.predict(inputs.uncoded, { reasons: 0 });
+  const suggestions = model.predict(inputs.uncoded, { reasons: 0, progress: progress && ((d) => progress('score', d)) });
   const thresholds = Object.fromEntries(model.themeReports().map((r) => [r.themeId, r.threshold]));
   const pool = unclaimedPool(
     { passages, suggestions, themes: inputs.themes.map((t) => ({ id: t.id, parentId: t.parentId })), codings: inputs.codings, rejected: negatives, nothingToCode: nothingToCode(db), thresholds },
@@ -90,14 +93,15 @@ function dismissals(db: DB): Dismissal[] {
  * `discover`: clusters the unclaimed pool into possible new themes and stores the run; clusters a
  * coder dismissed before do not come back unless new material joins them.
  */
-export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
+export function runDiscovery(db: DB, opts: DiscoverOptions = {}, progress?: DiscoveryProgress): DiscoveryRun {
   const rev = currentRevision(db);
   if (!rev) throw new UserError('the study has no template yet: run "trellis template set FILE" first');
   const noneFitsAt = NONE_FITS_AT;
-  const scored = scoreStudy(db, { noneFitsAt });
+  const scored = scoreStudy(db, { noneFitsAt }, progress);
+  progress?.('cluster', 0);
   const n = scored.pool.pool.length;
   if (opts.k !== undefined && n > 0 && opts.k > n) throw new UserError(`--k ${opts.k} is out of range: the unclaimed pool holds ${n} passage${n === 1 ? '' : 's'}, so k can be 1 to ${n}`);
-  const result = discover(scored.pool.pool, scored.background, { ...opts, dismissals: dismissals(db) });
+  const result = discover(scored.pool.pool, scored.background, { ...opts, dismissals: dismissals(db) }, progress && ((d) => progress('cluster', d)));
   return db.transaction(() => {
     const runId = Number(
       db
@@ -136,6 +140,7 @@ export function runDiscovery(db: DB, opts: DiscoverOptions = {}): DiscoveryRun {
       return { row_id: id, cluster_id: key, label: clusterLabel(detail.terms.map((t) => t.term)), size: c.size, cohesion: c.cohesion, status: 'open', passage_ids: [...c.passageIds].sort(), detail };
     });
     scored.keep();
+    progress?.('cluster', 1);
     return { runId, result, pool: scored.pool, clusters, noneFitsAt };
   })();
 }
@@ -274,9 +279,9 @@ export function latestClusters(db: DB): StoredCluster[] {
 }
 
 /** `triage`: transcripts with passages left to code, ranked by how much of that part the template fails to claim. */
-export function triageStudy(db: DB, transcripts?: string[]): { rows: TranscriptTriage[]; clusters: StoredCluster[] } {
+export function triageStudy(db: DB, transcripts?: string[], progress?: DiscoveryProgress): { rows: TranscriptTriage[]; clusters: StoredCluster[] } {
   const noneFitsAt = NONE_FITS_AT;
-  const scored = scoreStudy(db, { noneFitsAt });
+  const scored = scoreStudy(db, { noneFitsAt }, progress);
   const clusters = latestClusters(db).filter((c) => c.status === 'open');
   const done = new Set([...scored.codedPassages, ...nothingToCode(db)]);
   let rows = triage({
