@@ -28,22 +28,11 @@ from sklearn.metrics import silhouette_score
 
 
 def same_pool(src, work, found_path, leave):
-    import csv, os
-    sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "shared", "bench"))
-    import fewshot
-    rows = [json.loads(l) for l in open(os.path.join(src, "truth.jsonl"), encoding="utf-8")]
-    by_t = {}
-    for r in rows:
-        by_t.setdefault(r["transcript"], []).append(r)
+    import os
+    sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+    from fewshot_passages import fewshot, matched
     text, hold = {}, set()
-    for s in csv.DictReader(open(os.path.join(work, "sheet.csv"), encoding="utf-8-sig", newline="")):
-        t = os.path.splitext(os.path.basename(s["transcript"]))[0]
-        if t not in by_t and t.startswith("survey-"):
-            t = t[len("survey-"):]
-        norm = fewshot.norm(s["text"])
-        hit = next((r for r in by_t.get(t, []) if norm and norm in fewshot.norm(r["text"])), None)
-        if hit is None:
-            continue
+    for s, hit in matched(src, work):
         text[s["passage_id"]] = s["text"]
         if hit["split"] == "test" and any(fewshot.under(th, leave) for th in hit["themes"]):
             hold.add(s["passage_id"])

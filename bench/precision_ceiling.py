@@ -12,30 +12,21 @@ which no rule fitted on the coded batch can beat either. The same global oracle 
 scikit-learn peer's scores (the shared script's models, trained on the same coded passages), so the
 bound can be read as a property of the data, not of trellis's model alone.
 """
-import csv, json, os, sys
+import json, os, sys
 from collections import defaultdict
 
 HERE = os.path.dirname(os.path.abspath(__file__))
-sys.path.insert(0, os.path.join(HERE, "..", "..", "shared", "bench"))
-import fewshot  # noqa: E402  (the shared script's own text matching, so passages map as it maps them)
+sys.path.insert(0, HERE)
+from fewshot_passages import fewshot, matched  # noqa: E402  (passages mapped as the shared script maps them)
 
 src, work, sugg, peer_recall = sys.argv[1], sys.argv[2], sys.argv[3], float(sys.argv[4])
-rows = [json.loads(l) for l in open(os.path.join(src, "truth.jsonl"), encoding="utf-8")]
-by_t = defaultdict(list)
-for r in rows:
-    by_t[r["transcript"]].append(r)
 truth = {}
 train, test = [], []
-for s in csv.DictReader(open(os.path.join(work, "sheet.csv"), encoding="utf-8-sig", newline="")):
-    t = os.path.splitext(os.path.basename(s["transcript"]))[0]
-    if t not in by_t and t.startswith("survey-"):
-        t = t[len("survey-"):]
-    text = fewshot.norm(s["text"])
-    hit = next((r for r in by_t.get(t, []) if text and text in fewshot.norm(r["text"])), None)
-    if hit and hit["split"] == "test" and hit["themes"]:
+for s, hit in matched(src, work):
+    if hit["split"] == "test" and hit["themes"]:
         truth[s["passage_id"]] = set(hit["themes"])
         test.append({"pid": s["passage_id"], "text": s["text"], "themes": hit["themes"]})
-    elif hit and hit["split"] == "train" and hit["themes"]:
+    elif hit["split"] == "train" and hit["themes"]:
         train.append({"pid": s["passage_id"], "text": s["text"], "themes": hit["themes"]})
 res = json.load(open(sugg, encoding="utf-8"))
 gold = sum(len(T) for T in truth.values())

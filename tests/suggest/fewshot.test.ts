@@ -4,22 +4,11 @@ import { describe, expect, it } from 'vitest';
 import { fitFewshot, scoreFewshot } from '../../src/suggest/fewshot.js';
 import { fitGrouped } from '../../src/suggest/logistic.js';
 import { ThemeSuggester } from '../../src/suggest/suggester.js';
-import type { Coding, ModelPassage, ThemeInfo } from '../../src/suggest/types.js';
+import type { Coding, ModelPassage } from '../../src/suggest/types.js';
+import { theme } from '../helpers/themes.js';
 
 const ref = JSON.parse(readFileSync(join(import.meta.dirname, '../reference/fewshot.json'), 'utf8'));
 
-const theme = (id: string, parentId: string | null = null, extra: Partial<ThemeInfo> = {}): ThemeInfo => ({
-  id,
-  parentId,
-  name: id,
-  path: id,
-  apriori: false,
-  definition: '',
-  seeds: [],
-  nameTerms: [id.toLowerCase()],
-  definitionTerms: [],
-  ...extra,
-});
 /** One passage a transcript, participant turns. */
 const passagesOf = (docs: string[][]): ModelPassage[] => docs.map((terms, i) => ({ id: `p${i}`, transcript: `t${i}`, ordinal: 1, role: 'participant', terms }));
 const RAW = 4; // signals per cell: mnb, cnb, knn, seed

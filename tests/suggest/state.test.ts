@@ -3,20 +3,9 @@
 // for passages it saw and for passages added after the fit.
 import { describe, expect, it } from 'vitest';
 import { ThemeSuggester } from '../../src/suggest/suggester.js';
-import type { Coding, ModelPassage, PassageSuggestions, ThemeInfo } from '../../src/suggest/types.js';
+import type { Coding, ModelPassage, PassageSuggestions } from '../../src/suggest/types.js';
+import { theme } from '../helpers/themes.js';
 
-const theme = (id: string, parentId: string | null = null, extra: Partial<ThemeInfo> = {}): ThemeInfo => ({
-  id,
-  parentId,
-  name: id,
-  path: parentId ? `${parentId} > ${id}` : id,
-  apriori: false,
-  definition: '',
-  seeds: [],
-  nameTerms: [id.toLowerCase()],
-  definitionTerms: [],
-  ...extra,
-});
 
 // Invented handover interviews: t1-t3 coded, t4-t5 to code.
 const lines: Record<string, string[][]> = {
@@ -31,7 +20,7 @@ const toPassages = (src: Record<string, string[][]>): ModelPassage[] =>
 const passages = toPassages(lines);
 const themes = [
   theme('Workload'),
-  theme('Rota', 'Workload', { nameTerms: ['rota'] }),
+  theme('Rota', 'Workload', { path: 'Workload > Rota', nameTerms: ['rota'] }),
   theme('Paper'),
   theme('Support'),
   theme('Pay', null, { apriori: true, definition: 'money', seeds: ['salary'], definitionTerms: ['money', 'salary'] }),
