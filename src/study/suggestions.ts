@@ -35,7 +35,7 @@ export interface SuggestOptions extends SuggesterOptions {
 }
 
 /** The version of the stored model state this build reads and writes. */
-const STATE_VERSION = 3;
+const STATE_VERSION = 4;
 
 /**
  * The suggestion model on the study's current codings: the state stored by an earlier fit on
@@ -51,8 +51,7 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
   const options = resolveOptions(opts);
   const key = inputsKey(inputs, negatives, options, STATE_VERSION);
   let model: ThemeSuggester | null = null;
-  // (Only the few-example scorer's state can score on its own; the others are lab settings.)
-  const stored = options.scorer === 'fewshot' ? loadState(db, key) : null;
+  const stored = loadState(db, key);
   if (stored) {
     try {
       model = ThemeSuggester.fromState(stored.state, inputs.themes, inputs.passages, stored.fingerprint);
@@ -66,7 +65,7 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
   const fitted = model;
   const keep = () => {
     if (reused) touchState(db, key);
-    else if (options.scorer === 'fewshot') saveState(db, key, fitted.state, fitted.fingerprint);
+    else saveState(db, key, fitted.state, fitted.fingerprint);
   };
   return { model, inputs, rev, negatives, key, reused, keep };
 }

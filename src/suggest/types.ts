@@ -54,43 +54,13 @@ export interface SuggesterOptions {
   minTranscripts?: number;
   /** Total pseudo-count of the informative Dirichlet prior of the log-odds (default 500). */
   priorStrength?: number;
-  /** Coded passages averaged in the nearest-exemplar signal (default 5). */
-  neighbours?: number;
-  /** Distance decay of the transcript-context signal; candidates tried by cross-validation. */
-  decays?: number[];
-  /** Transcript context as a weighted mean, or scaled by the root of its weight; candidates tried by cross-validation. */
-  contextScales?: ('mean' | 'sqrt')[];
   /** Cosine above which two themes' centroids are reported as overlapping (0.8). */
   overlapCosine?: number;
-  /** Which themes compete for a passage: those at the same depth (default 'level', measured best), siblings, or none. */
-  competition?: 'siblings' | 'level' | 'none';
-  /** Ridge penalty of the signal-combination weights (default 1). */
-  ridge?: number;
   /** Share of a theme's profile vector its rejected passages may take away (Rocchio's gamma, default 0.25). */
   rocchio?: number;
-  /** Add back to LOTO signals the gain of one more transcript, estimated leave-two-out (default true). */
-  looCorrection?: boolean;
-  /**
-   * Which scorer gives the confidences: 'fewshot' (default: every theme a candidate from its first
-   * coded passage, one calibration shared by all themes; src/suggest/fewshot.ts) or 'layers'
-   * (the conditional logit over themes of one depth, themes profiled from their coded passages).
-   */
-  scorer?: 'fewshot' | 'layers';
   /** Options of the few-example scorer. */
   fewshot?: import('./fewshot.js').FewshotOptions;
-  /** Candidate signals; all by default. The lab switches them off to measure each. */
-  signals?: Partial<Record<SignalName, boolean>>;
 }
-
-/** The per-passage signals a theme's score combines. */
-export type SignalName =
-  | 'centroid' // cosine to the theme's centroid
-  | 'logodds' // mean weighted log-odds of the passage's terms
-  | 'exemplars' // mean cosine to the theme's nearest coded passages
-  | 'adjacent' // the combined base score of the passages just before and after
-  | 'transcript' // the base score of the rest of the transcript, decaying with distance
-  | 'question' // the base score of the interviewer's question before the passage
-  | 'length'; // the passage's length (and the speaker's role), which decides whether it is coded at all
 
 export interface TermWeight {
   term: string;

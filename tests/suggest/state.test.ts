@@ -68,9 +68,9 @@ describe('the suggestion model as data', () => {
   });
 
   it('keeps settings apart from what it learned, and refuses a state fitted on other themes', () => {
-    expect(stored.options.scorer).toBe('fewshot');
+    expect(stored.options.targetPrecision).toBe(0.7);
     expect(stored.fewshot.calibration.weights.length).toBeGreaterThan(0);
     expect(() => ThemeSuggester.fromState(stored, themes.slice(0, 4), passages, fitted.fingerprint)).toThrow(/other themes/);
-    expect(() => ThemeSuggester.fromState({ ...stored, version: 2 }, themes, passages, fitted.fingerprint)).toThrow(/fit again/);
+    expect(() => ThemeSuggester.fromState({ ...stored, version: 3 }, themes, passages, fitted.fingerprint)).toThrow(/fit again/);
   });
 });

@@ -194,35 +194,6 @@ describe('progress of a fit and a prediction', () => {
   });
 });
 
-describe('context weight is learned from the coded batch (the layers scorer)', () => {
-  const weight = (runs: boolean) => {
-    const { passages, codings } = syntheticStudy(runs);
-    const st = new ThemeSuggester({ scorer: 'layers' }).fit(passages, codings, FLAT).state.context;
-    // An input the model does not use (the adjacent signal is off by default) weighs 0.
-    const w = (name: string) => (st.inputs.includes(name) ? st.weights[st.inputs.indexOf(name)]! : 0);
-    return { base: w('base'), context: Math.abs(w('adjacent')) + Math.abs(w('transcript')), decay: st.decay };
-  };
-  it('is large when talk on a theme runs over several passages', () => {
-    const r = weight(true);
-    expect(r.context).toBeGreaterThan(0.5 * r.base);
-    // Runs of five passages: the context that wins by cross-validation is local, not the whole transcript.
-    expect(r.decay).toBeLessThan(1);
-  });
-  it('is given as a reason only where the surrounding passages support the theme', () => {
-    const { passages, codings } = syntheticStudy(true);
-    const model = new ThemeSuggester({ scorer: 'layers' }).fit(passages, codings, FLAT);
-    const reasons = model.predict(passages.filter((p) => Number(p.transcript.slice(1)) >= 12).map((p) => p.id), { reasons: 4 })
-      .flatMap((p) => p.candidates.flatMap((c) => c.reasons))
-      .filter((r) => r.kind === 'context' || r.kind === 'question');
-    expect(reasons.length).toBeGreaterThan(50);
-    for (const r of reasons) expect(r.kind !== 'terms' && 'weight' in r && r.weight).toBeGreaterThan(0);
-  });
-  it('is near zero when neighbouring passages are unrelated', () => {
-    const r = weight(false);
-    expect(r.context).toBeLessThan(0.15 * r.base);
-  });
-});
-
 describe('context weight is learned from the coded batch (the few-example scorer)', () => {
   const weight = (runs: boolean) => {
     const { passages, codings } = syntheticStudy(runs);
