@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { UserError } from '../errors.js';
-import { acceptAllAbove, decide, markNothingToCode, undo, type Action, type DecisionRow } from '../study/decisions.js';
+import { acceptAllAbove, decide, markNothingToCode, undo, type Action } from '../study/decisions.js';
 import { currentTemplate } from '../study/template.js';
 import { describeDecision } from '../review/describe.js';
 import { coderName, coderOf, probability, studyCommand, withStudy, type StudyOpts } from './common.js';

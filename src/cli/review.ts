@@ -13,7 +13,7 @@ import { useColour } from './marks.js';
 import type { Snippets } from './reasons.js';
 import { plain, plainDeep } from './output.js';
 import { decodeKeys, type Key } from './review-keys.js';
-import { MAX_MATCHES, layoutScreen, type Mode, type ScreenModel, type Showing, type Style } from './review-screen.js';
+import { MAX_MATCHES, layoutScreen, type Mode, type ScreenModel, type Style } from './review-screen.js';
 import { matchThemes, type ThemeEntry } from './review-search.js';
 
 interface ReviewOpts extends StudyOpts {

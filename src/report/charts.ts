@@ -282,7 +282,7 @@ export function calibrationChart(data: ReportData): string | null {
   ]);
   const clear = (b: Box) =>
     b.x0 >= left + 2 && b.x1 <= left + side - 2 && b.y0 >= top + 1 && b.y1 <= top + side - 2 && !taken.some((t) => b.x0 < t.x1 && b.x1 > t.x0 && b.y0 < t.y1 && b.y1 > t.y0);
-  for (const { r, conf, cx, cy, radius } of pts) {
+  for (const { r, cx, cy, radius } of pts) {
     parts.push(
       marker('circle', cx, cy, radius, {
         fill: blue,

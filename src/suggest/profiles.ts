@@ -1,22 +1,13 @@
 /**
- * Theme profiles as sums over the coded batch, so that leave-one-transcript-out (LOTO) scores
- * are exact and cheap: a fold's profile is the full sum minus the held-out transcripts' part,
- * never a refit. Three signals per (passage, theme):
- *   centroid  - cosine of the passage's TF-IDF vector to the theme's profile vector: the sum of
- *               its coded passages minus a Rocchio share of the passages a coder rejected for it;
- *   logodds   - mean weighted log-odds (theme vs the rest of the coded batch and the passages
- *               rejected for it, informative Dirichlet prior from the whole study) of the terms;
- *   exemplars - mean cosine to the theme's k nearest coded passages (from other transcripts).
- * Dense per-theme arrays cover only the terms of labelled passages, stored term-major so scoring
- * one passage against every theme walks memory in order.
+ * Theme profiles as sums over the coded batch: per (term, theme) the weighted log-odds of the
+ * theme against the rest of the coded batch and the passages rejected for it (informative
+ * Dirichlet prior from the whole study), which give the reasons' distinctive terms and the
+ * theme reports' top terms, and each theme's profile vector (the sum of its coded passages minus
+ * a Rocchio share of the passages a coder rejected for it), whose cosines flag overlapping
+ * themes. Dense per-theme arrays cover only the terms of labelled passages, term-major.
  */
 import type { SparseVector } from '../math/sparse.js';
 import { logOddsDelta } from '../math/logodds.js';
-
-export const SIGNALS = 3;
-export const CENTROID = 0;
-export const LOGODDS = 1;
-export const EXEMPLARS = 2;
 
 export interface Corpus {
   /** TF-IDF vectors and raw term counts of every passage (same term indices). */
@@ -33,16 +24,6 @@ export interface Corpus {
   /** Themes a coder rejected for each passage (never one of its labels); optional. */
   negatives?: number[][];
   themes: number;
-}
-
-export interface FoldSignals {
-  /** [member][theme][signal] flattened. */
-  f: Float64Array;
-  /** 1 where the theme still has coded passages once the held transcripts are left out. */
-  valid: Uint8Array;
-  /** Nearest coded exemplar of each (member, theme): passage index or -1, and its cosine. */
-  nearest: Int32Array;
-  nearestSim: Float64Array;
 }
 
 export class Profiles {
@@ -70,35 +51,23 @@ export class Profiles {
   readonly rejected: Int32Array;
   /** Weight of one rejected passage in a theme's profile vector (a positive weighs 1). */
   readonly negWeight: Float64Array;
-  /** Coded passages (passage indices) and an inverted index of their TF-IDF vectors. */
+  /** Coded passages (passage indices). */
   readonly coded: Int32Array;
-  private readonly postStart: Int32Array;
-  private readonly postDoc: Int32Array;
-  private readonly postVal: Float64Array;
   private readonly negs: number[][];
-  /** Transcripts whose own labels or rejections are in the sums (so their folds differ). */
-  readonly held: Uint8Array;
 
   /**
-   * @param k nearest exemplars averaged; 0 skips the exemplar signal (nearest exemplars for
-   * reasons are then found on demand by nearestExemplars)
    * @param rocchio share of a theme's positive mass its rejections may subtract from its
    * profile vector (Rocchio's gamma; each rejected passage weighs at most this much)
    */
   constructor(
     readonly corpus: Corpus,
     readonly priorStrength: number,
-    readonly k: number,
     readonly rocchio = 0.25,
   ) {
     const nT = (this.nT = corpus.themes);
     const negs = (this.negs = corpus.negatives ?? corpus.x.map(() => []));
     const coded: number[] = [];
-    this.held = new Uint8Array(corpus.members.length);
-    corpus.members.forEach((m, ti) => {
-      if (corpus.codedTranscript[ti]) coded.push(...m);
-      if (corpus.codedTranscript[ti] || m.some((p) => negs[p]!.length)) this.held[ti] = 1;
-    });
+    corpus.members.forEach((m, ti) => corpus.codedTranscript[ti] && coded.push(...m));
     this.coded = Int32Array.from(coded);
     const rejectedPassages: number[] = [];
     for (let p = 0; p < negs.length; p++) if (negs[p]!.length) rejectedPassages.push(p);
@@ -167,27 +136,8 @@ export class Profiles {
     }
     this.prior = all.map((v) => (this.a0 * v) / Math.max(total, 1));
 
-    // Inverted index over coded passages, in CSR form.
-    const counts = new Int32Array(vc + 1);
-    for (const p of coded) for (const i of corpus.x[p]!.indices) counts[this.loc[i]! + 1]!++;
-    for (let l = 0; l < vc; l++) counts[l + 1] = counts[l + 1]! + counts[l]!;
-    this.postStart = counts.slice();
-    this.postDoc = new Int32Array(counts[vc]!);
-    this.postVal = new Float64Array(counts[vc]!);
-    const fill = counts.slice();
-    coded.forEach((p, ci) => {
-      const x = corpus.x[p]!;
-      for (let k = 0; k < x.indices.length; k++) {
-        const l = this.loc[x.indices[k]!]!;
-        const at = fill[l]!++;
-        this.postDoc[at] = ci;
-        this.postVal[at] = x.values[k]!;
-      }
-    });
-    this.local = new Int32Array(vc).fill(-1);
     // Terms the profiles see: used by a coded passage, or by a passage rejected outside the
     // coded transcripts (the extra rest); other terms score nothing.
-    this.anyNeg = this.nneg.some((v) => v > 0);
     this.restSeen = new Uint8Array(vc);
     for (let l = 0; l < vc; l++) {
       let seen = this.ytot[l]! > 0;
@@ -197,9 +147,6 @@ export class Profiles {
   }
 
   private readonly restSeen: Uint8Array;
-  private readonly anyNeg: boolean;
-  private gBest: Float64Array | null = null;
-  private gArg: Int32Array | null = null;
 
   /**
    * Adds (sign 1) one passage's part of the sums into the given term-major arrays: its vector to
@@ -248,245 +195,10 @@ export class Profiles {
     }
   }
 
-  private sc: { px: Float64Array; pc: Float64Array; pneg: Float64Array; delta: Float64Array; tc: Float64Array; done: Uint8Array; seen: Uint8Array } | null = null;
-
-  /** Fold scratch for nl local rows, zeroed over that part (grown when a fold needs more). */
-  private scratch(nl: number) {
-    const nT = this.nT;
-    if (!this.sc || this.sc.tc.length < nl) {
-      const cap = Math.max(nl, 2 * (this.sc?.tc.length ?? 0));
-      const f = () => new Float64Array(cap * nT);
-      this.sc = { px: f(), pc: f(), pneg: f(), delta: f(), tc: new Float64Array(cap), done: new Uint8Array(cap), seen: new Uint8Array(cap) };
-      return this.sc;
-    }
-    const sc = this.sc;
-    const end = nl * nT;
-    sc.px.fill(0, 0, end);
-    sc.pc.fill(0, 0, end);
-    sc.pneg.fill(0, 0, end);
-    sc.delta.fill(0, 0, end);
-    sc.tc.fill(0, 0, nl);
-    sc.done.fill(0, 0, nl);
-    sc.seen.fill(0, 0, nl);
-    return sc;
-  }
-
-  /** Scratch: vocabulary position -> row of the held transcripts' local arrays (-1 = none). */
-  private readonly local: Int32Array;
-  private get allThemes(): Int32Array {
-    return (this.themeList ??= Int32Array.from({ length: this.nT }, (_, t) => t));
-  }
-  private themeList: Int32Array | null = null;
-
-  /**
-   * Signals of every passage of transcript `ti` against every theme, from the profiles without
-   * the codings and rejections of `ti` (and of `also`, when given: a leave-two-out fold). For a
-   * transcript with neither, that is the full profile.
-   */
-  foldSignals(ti: number, also = -1, only?: readonly number[]): FoldSignals {
-    const { corpus, nT, loc, s, y, k: kNear, local } = this;
-    // The themes to score (all, unless the caller needs a few: the others are left at 0).
-    const tl = only ? Int32Array.from(only) : this.allThemes;
-    const nTl = tl.length;
-    const members = corpus.members[ti]!;
-    const heldTranscripts = [ti, ...(also >= 0 ? [also] : [])].filter((h) => this.held[h]);
-    const held = heldTranscripts.length > 0;
-    const m = members.length;
-
-    // The held transcripts' share of the sums, over the terms they use (local rows).
-    const terms: number[] = [];
-    if (held) {
-      for (const h of heldTranscripts) {
-        for (const p of corpus.members[h]!) {
-          for (const i of corpus.x[p]!.indices) {
-            const l = loc[i]!;
-            if (l >= 0 && local[l] === -1) {
-              local[l] = terms.length;
-              terms.push(l);
-            }
-          }
-        }
-      }
-    }
-    const nl = terms.length;
-    // Scratch reused across folds (zeroed over the part used): one fold's arrays are a few
-    // hundred KB, and allocating them afresh for every fold was most of the fit's GC.
-    const sc = this.scratch(nl);
-    const px = sc.px;
-    const pc = sc.pc;
-    const pneg = sc.pneg;
-    const pn = new Float64Array(nT);
-    const pnn = new Float64Array(nT);
-    const tc = sc.tc;
-    const ppos = new Int32Array(nT);
-    let tn = 0;
-    const at = (l: number) => local[l]!;
-    for (const h of heldTranscripts) {
-      const inCoded = corpus.codedTranscript[h] === 1;
-      for (const p of corpus.members[h]!) {
-        if (inCoded) {
-          const c = corpus.c[p]!;
-          for (let q = 0; q < c.indices.length; q++) {
-            const r = local[loc[c.indices[q]!]!]!;
-            tc[r] = tc[r]! + c.values[q]!;
-            tn += c.values[q]!;
-          }
-          for (const t of corpus.labels[p]!) ppos[t]!++;
-        }
-        this.addPassage(p, inCoded, 1, px, pc, pn, pneg, pnn, at);
-      }
-    }
-
-    const valid = new Uint8Array(nT);
-    const norm = new Float64Array(nT);
-    const foldN = new Float64Array(nT);
-    const foldNneg = new Float64Array(nT);
-    for (let t = 0; t < nT; t++) {
-      valid[t] = this.positives[t]! - ppos[t]! > 0 ? 1 : 0;
-      let sp = 0;
-      let pp = 0;
-      for (let r = 0; r < nl; r++) {
-        const v = px[r * nT + t]!;
-        if (v === 0) continue;
-        sp += s[terms[r]! * nT + t]! * v;
-        pp += v * v;
-      }
-      norm[t] = Math.sqrt(Math.max(this.ss[t]! - 2 * sp + pp, 0));
-      foldN[t] = this.n[t]! - pn[t]!;
-      foldNneg[t] = this.nneg[t]! - pnn[t]!;
-    }
-    const nAll = this.ntot - tn;
-    const table = held ? null : this.fullDelta();
-    const foldDelta = sc.delta;
-    const foldDone = sc.done;
-    const foldSeen = sc.seen;
-
-    const f = new Float64Array(m * nT * SIGNALS);
-    const nearest = new Int32Array(m * nT).fill(-1);
-    const nearestSim = new Float64Array(m * nT);
-    const dots = new Float64Array(nT);
-    const lo = new Float64Array(nT);
-    const acc = new Float64Array(kNear ? this.coded.length : 0);
-    const top = new Float64Array(nT * kNear);
-    const touched: number[] = [];
-
-    members.forEach((p, mi) => {
-      const x = corpus.x[p]!;
-      const c = corpus.c[p]!;
-      const base = mi * nT * SIGNALS;
-      // centroid
-      dots.fill(0);
-      for (let q = 0; q < x.indices.length; q++) {
-        const l = loc[x.indices[q]!]!;
-        if (l < 0) continue;
-        const v = x.values[q]!;
-        const r = held ? local[l]! : -1;
-        const o = l * nT;
-        if (r < 0) for (let t = 0; t < nT; t++) dots[t] = dots[t]! + v * s[o + t]!;
-        else {
-          const or = r * nT;
-          for (let j = 0; j < nTl; j++) {
-            const t = tl[j]!;
-            dots[t] = dots[t]! + v * (s[o + t]! - px[or + t]!);
-          }
-        }
-      }
-      for (let j = 0; j < nTl; j++) {
-        const t = tl[j]!;
-        f[base + t * SIGNALS + CENTROID] = norm[t]! > 1e-12 ? dots[t]! / norm[t]! : 0;
-      }
-      // log-odds
-      lo.fill(0);
-      let weight = 0;
-      for (let q = 0; q < c.indices.length; q++) {
-        const l = loc[c.indices[q]!]!;
-        if (l < 0) continue;
-        const w = c.values[q]!;
-        if (table) {
-          if (!this.restSeen[l]) continue; // unseen by the profiles
-          weight += w;
-          const o = l * nT;
-          for (let t = 0; t < nT; t++) lo[t] = lo[t]! + w * table[o + t]!;
-          continue;
-        }
-        // Every term of a held transcript has a local row; its fold deltas are worked out once.
-        const r = local[l]!;
-        if (!foldDone[r]) {
-          foldDone[r] = 1;
-          const all = this.ytot[l]! - tc[r]!;
-          let negSeen = false;
-          if (this.anyNeg) for (let t = 0; t < nT && !negSeen; t++) negSeen = this.yneg[l * nT + t]! - pneg[r * nT + t]! > 0;
-          foldSeen[r] = all > 0 || negSeen ? 1 : 0; // else a term only the held transcripts use: unseen by the fold
-          if (foldSeen[r]) {
-            const aw = this.prior[l]!;
-            for (let j = 0; j < nTl; j++) {
-              const t = tl[j]!;
-              const yt = y[l * nT + t]! - pc[r * nT + t]!;
-              const yn = this.yneg[l * nT + t]! - pneg[r * nT + t]!;
-              foldDelta[r * nT + t] = logOddsDelta(yt, foldN[t]!, all - yt + yn, nAll - foldN[t]! + foldNneg[t]!, aw, this.a0);
-            }
-          }
-        }
-        if (!foldSeen[r]) continue;
-        weight += w;
-        const o = r * nT;
-        for (let j = 0; j < nTl; j++) {
-          const t = tl[j]!;
-          lo[t] = lo[t]! + w * foldDelta[o + t]!;
-        }
-      }
-      for (let j = 0; j < nTl; j++) {
-        const t = tl[j]!;
-        f[base + t * SIGNALS + LOGODDS] = weight > 0 ? lo[t]! / weight : 0;
-      }
-      if (kNear === 0) return;
-      // exemplars: cosines to coded passages of other transcripts via the inverted index
-      for (let q = 0; q < x.indices.length; q++) {
-        const l = loc[x.indices[q]!]!;
-        if (l < 0) continue;
-        const v = x.values[q]!;
-        for (let at = this.postStart[l]!; at < this.postStart[l + 1]!; at++) {
-          const d = this.postDoc[at]!;
-          if (acc[d] === 0) touched.push(d);
-          acc[d] = acc[d]! + v * this.postVal[at]!;
-        }
-      }
-      top.fill(0);
-      for (const d of touched) {
-        const sim = acc[d]!;
-        acc[d] = 0;
-        const pd = this.coded[d]!;
-        if (heldTranscripts.includes(corpus.transcriptOf[pd]!) || corpus.transcriptOf[pd] === ti) continue;
-        for (const t of corpus.labels[pd]!) {
-          const o = t * kNear;
-          if (sim <= top[o + kNear - 1]!) continue;
-          let j = kNear - 1;
-          while (j > 0 && top[o + j - 1]! < sim) {
-            top[o + j] = top[o + j - 1]!;
-            j--;
-          }
-          top[o + j] = sim;
-          if (j === 0) {
-            nearest[mi * nT + t] = pd;
-            nearestSim[mi * nT + t] = sim;
-          }
-        }
-      }
-      touched.length = 0;
-      for (let t = 0; t < nT; t++) {
-        let sum = 0;
-        for (let j = 0; j < kNear; j++) sum += top[t * kNear + j]!;
-        f[base + t * SIGNALS + EXEMPLARS] = sum / kNear;
-      }
-    });
-    for (const l of terms) local[l] = -1;
-    return { f, valid, nearest, nearestSim };
-  }
-
   private delta: Float64Array | null = null;
   private zs: Float64Array | null = null;
 
-  /** Log-odds deltas of the full batch, term-major (the same for every transcript not held). */
+  /** Log-odds deltas of the full batch, term-major . */
   fullDelta(): Float64Array {
     if (this.delta) return this.delta;
     const { nT, vc } = this;
@@ -520,112 +232,6 @@ export class Profiles {
     }
     return (this.zs = z);
   }
-
-  /**
-   * The nearest coded passage of each theme to passage p, from transcripts other than p's,
-   * with its cosine: [passage index or -1, cosine] per theme. With `themes`, only those are
-   * kept (the others stay at -1, 0). (MaxScore pruning of the common terms was tried: the exact
-   * re-scoring of the passages it could not rule out cost more than it saved.)
-   */
-  nearestExemplars(p: number, themes?: readonly number[]): { nearest: Int32Array; sim: Float64Array } {
-    const { corpus, nT, loc, postStart, postDoc, postVal } = this;
-    const x = corpus.x[p]!;
-    const acc = (this.acc ??= new Float64Array(this.coded.length));
-    // Coded passages renumbered so that each label set's are contiguous (in passage order): the
-    // walk is branch-free and the best of a group is a plain running maximum. (Keeping a list of
-    // the passages touched cost a mispredicted branch per posting, twice the walk itself.)
-    const G = (this.byGroup ??= this.groupIndex());
-    const doc = G.doc;
-    for (let q = 0; q < x.indices.length; q++) {
-      const l = loc[x.indices[q]!]!;
-      if (l < 0) continue;
-      const v = x.values[q]!;
-      const end = postStart[l + 1]!;
-      for (let at = postStart[l]!; at < end; at++) {
-        const d = doc[at]!;
-        acc[d] = acc[d]! + v * postVal[at]!;
-      }
-    }
-    // The best passage per label set (coded passages share a handful of them), then per theme.
-    const nG = G.themes.length;
-    const gBest = (this.gBest ??= new Float64Array(nG));
-    const gArg = (this.gArg ??= new Int32Array(nG));
-    const own = corpus.transcriptOf[p]!;
-    const { coded } = this;
-    for (let g = 0; g < nG; g++) {
-      // Strictly greater: of equal cosines the first, i.e. the lowest passage index, wins; a
-      // passage nothing reached stays at 0 and never wins.
-      let best = 0;
-      let arg = -1;
-      const to = G.start[g + 1]!;
-      for (let at = G.start[g]!; at < to; at++) {
-        const v = acc[at]!;
-        if (v > best && G.transcript[at] !== own) {
-          best = v;
-          arg = at;
-        }
-      }
-      gBest[g] = best;
-      gArg[g] = arg >= 0 ? G.ci[arg]! : -1;
-    }
-    acc.fill(0);
-    const nearest = new Int32Array(nT).fill(-1);
-    const sim = new Float64Array(nT);
-    const want = (this.want ??= new Uint8Array(nT));
-    if (themes) for (const t of themes) want[t] = 1;
-    else want.fill(1);
-    for (let g = 0; g < nG; g++) {
-      if (gArg[g]! < 0) continue;
-      const v = gBest[g]!;
-      const pd = coded[gArg[g]!]!;
-      for (const t of G.themes[g]!) {
-        if (!want[t]) continue;
-        if (v > sim[t]! || (v === sim[t]! && nearest[t]! >= 0 && pd < nearest[t]!)) {
-          sim[t] = v;
-          nearest[t] = pd;
-        }
-      }
-    }
-    want.fill(0);
-    return { nearest, sim };
-  }
-
-  private want: Uint8Array | null = null;
-  private byGroup: ReturnType<Profiles['groupIndex']> | null = null;
-
-  /** The postings renumbered by label set: position of every coded passage, grouped, in passage order. */
-  /** For the exemplar search: the coded passages grouped by label set, with their transcripts. */
-  private groupIndex(): { doc: Int32Array; start: Int32Array; ci: Int32Array; transcript: Int32Array; themes: number[][] } {
-    const { corpus, coded } = this;
-    const nc = coded.length;
-    const themes: number[][] = [];
-    const groupKey = new Map<string, number>();
-    const groupOf = Int32Array.from(coded, (p) => {
-      const key = corpus.labels[p]!.join(',');
-      let g = groupKey.get(key);
-      if (g === undefined) {
-        groupKey.set(key, (g = themes.length));
-        themes.push(corpus.labels[p]!.slice());
-      }
-      return g;
-    });
-    const nG = themes.length;
-    const start = new Int32Array(nG + 1);
-    for (let d = 0; d < nc; d++) start[groupOf[d]! + 1]!++;
-    for (let g = 0; g < nG; g++) start[g + 1] = start[g + 1]! + start[g]!;
-    const fill = start.slice();
-    const rank = new Int32Array(nc);
-    const ci = new Int32Array(nc);
-    const transcript = new Int32Array(nc);
-    for (let d = 0; d < nc; d++) {
-      const at = fill[groupOf[d]!]!++;
-      rank[d] = at;
-      ci[at] = d;
-      transcript[at] = corpus.transcriptOf[coded[d]!]!;
-    }
-    return { doc: this.postDoc.map((d) => rank[d]!), start, ci, transcript, themes };
-  }
-  private acc: Float64Array | null = null;
 
   /** Cosine between two themes' full profile vectors. */
   centroidCosine(a: number, b: number): number {

@@ -162,7 +162,7 @@ export class ThemeSuggester {
     this.checkable = Uint8Array.from({ length: this.vec.size }, (_, i) => (citable(this.vec.term(i)) ? 1 : 0));
     const nT = themes.length;
     const corpus: Corpus = { x, c, vocabulary: this.vec.size, transcriptOf, members, codedTranscript, labels: labelsInBatch, negatives: negs, themes: nT };
-    const prof = (this.profiles = new Profiles(corpus, o.priorStrength, 0, o.rocchio));
+    const prof = (this.profiles = new Profiles(corpus, o.priorStrength, o.rocchio));
     this.counts = c;
     this.exemplarIds = passages.map((p) => p.id);
     this.evidence = this.evidenceOf(prof, nT);

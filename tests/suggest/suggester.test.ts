@@ -2,8 +2,6 @@ import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/errors.js';
 import { ThemeSuggester } from '../../src/suggest/index.js';
 import { buildTree, chooseThemes } from '../../src/suggest/hierarchy.js';
-import { Profiles, SIGNALS, type Corpus } from '../../src/suggest/profiles.js';
-import { TfidfVectorizer } from '../../src/text/tfidf.js';
 import { FLAT, THEMES, messagingStudy, syntheticStudy, tinyStudy } from './study.js';
 
 const LEAVES = new Set(['staff', 'admin', 'support']);
@@ -119,61 +117,6 @@ function transcriptIndex(passages: readonly { transcript: string }[]) {
   });
   return { members, transcriptOf };
 }
-
-describe('leave-one-transcript-out signals are exact', () => {
-  const { passages, codings } = syntheticStudy(true);
-  const vec = new TfidfVectorizer();
-  const { vectors, counts } = vec.fitVectorise(passages.map((p) => p.terms));
-  const { members, transcriptOf } = transcriptIndex(passages);
-  const index = new Map(FLAT.map((t, i) => [t.id, i]));
-  const byId = new Map(passages.map((p, i) => [p.id, i]));
-  // Rejections: theme a for the first five passages of an uncoded transcript.
-  const negOf = (t: number) => passages.map((p, i) => (transcriptOf[i] === t && p.ordinal <= 5 ? [0] : []));
-  /** The study's corpus without the codings of the `held` transcripts, with rejections in `negTranscripts`. */
-  const corpusWithout = (held: number[], negTranscripts: number[] = []): Corpus => {
-    const coded = new Uint8Array(members.length);
-    const labels = passages.map(() => [] as number[]);
-    for (const c of codings) {
-      const p = byId.get(c.passageId)!;
-      if (held.includes(transcriptOf[p]!)) continue;
-      coded[transcriptOf[p]!] = 1;
-      labels[p] = [index.get(c.themeId)!];
-    }
-    const negatives = passages.map((_, i) => (negTranscripts.includes(transcriptOf[i]!) ? negOf(transcriptOf[i]!)[i]! : []));
-    return { x: vectors, c: counts, vocabulary: vec.size, transcriptOf, members, codedTranscript: coded, labels, negatives, themes: FLAT.length };
-  };
-
-  it('equal the signals of profiles built without that transcript', () => {
-    // A prior of 50 stays under the cap (a tenth of the coded text) in every fold, so both sides
-    // use the same prior, as one fit does.
-    const full = new Profiles(corpusWithout([]), 50, 3);
-    for (const held of [0, 5, 11]) {
-      const without = new Profiles(corpusWithout([held]), 50, 3);
-      expect(without.a0).toBe(full.a0);
-      const a = full.foldSignals(held);
-      const b = without.foldSignals(held);
-      expect(a.f.length).toBe(members[held]!.length * FLAT.length * SIGNALS);
-      a.f.forEach((v, i) => expect(v).toBeCloseTo(b.f[i]!, 9));
-      expect([...a.nearest]).toEqual([...b.nearest]);
-    }
-  });
-
-  it('also when two transcripts are left out, and when the held-out one has rejections', () => {
-    const full = new Profiles(corpusWithout([], [15]), 50, 0);
-    // Leave two out: transcripts 3 and 7.
-    const a = full.foldSignals(3, 7);
-    const b = new Profiles(corpusWithout([3, 7], [15]), 50, 0).foldSignals(3);
-    a.f.forEach((v, i) => expect(v).toBeCloseTo(b.f[i]!, 9));
-    // The uncoded transcript with rejections is held out of its own profile.
-    const c = full.foldSignals(15);
-    const d = new Profiles(corpusWithout([]), 50, 0).foldSignals(15);
-    c.f.forEach((v, i) => expect(v).toBeCloseTo(d.f[i]!, 9));
-    // and the rejections do change the other transcripts' signals of theme a
-    const e = full.foldSignals(16);
-    const g = new Profiles(corpusWithout([]), 50, 0).foldSignals(16);
-    expect(e.f.some((v, i) => Math.abs(v - g.f[i]!) > 1e-6)).toBe(true);
-  });
-});
 
 describe('progress of a fit and a prediction', () => {
   it('is reported in order, from 0 to 1, and does not change the model', () => {
