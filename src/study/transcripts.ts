@@ -25,6 +25,9 @@ export function listTranscripts(db: DB): TranscriptRow[] {
 
 export function deleteTranscript(db: DB, id: number): void {
   db.prepare('DELETE FROM transcripts WHERE id = ?').run(id);
+  // Stored model states hold the vocabulary and vectors of every passage they were fitted on: a
+  // transcript replaced (say, by its de-identified version) must not live on in them.
+  db.prepare('DELETE FROM model_states').run();
 }
 
 /** Prepared statements for writing many transcripts and passages quickly in one transaction. */

@@ -64,3 +64,23 @@ describe('stored model state', () => {
     db.close();
   });
 });
+
+describe('stored model state and a replaced transcript', () => {
+  it('is dropped when a transcript is replaced, so the old text does not live on in it', async () => {
+    const { readTranscriptFile } = await import('../../src/ingest/read.js');
+    const { importTranscripts } = await import('../../src/study/import.js');
+    const { writeFileSync, mkdtempSync } = await import('node:fs');
+    const { join } = await import('node:path');
+    const { tmpdir } = await import('node:os');
+    const db = openStudy(codedDemoStudy());
+    suggest(db, { top: 1 });
+    const stored = () => (db.prepare('SELECT state FROM model_states').all() as { state: Buffer }[]).length;
+    expect(stored()).toBe(1);
+    const name = (db.prepare('SELECT name FROM transcripts ORDER BY id DESC LIMIT 1').get() as { name: string }).name;
+    const file = join(mkdtempSync(join(tmpdir(), 'trellis-replace-')), `${name}.txt`);
+    writeFileSync(file, 'Interviewer: How was the handover?\n\nNurse: Quiet, for once; the board was up to date.\n');
+    await importTranscripts(db, [{ file, ...(await readTranscriptFile(file)) }], { coder: 'tester', replace: true });
+    expect(stored()).toBe(0);
+    db.close();
+  });
+});
