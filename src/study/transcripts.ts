@@ -23,10 +23,24 @@ export function listTranscripts(db: DB): TranscriptRow[] {
   return db.prepare('SELECT id, name, file, format, hash, labelled, added_at FROM transcripts ORDER BY id').all() as TranscriptRow[];
 }
 
+/** What a cluster shows in place of a central passage whose transcript was replaced. */
+export const REPLACED = '[transcript replaced since]';
+
 export function deleteTranscript(db: DB, id: number): void {
+  // Clusters outlive their passages (the audit trail keeps what was found and decided), but not
+  // their words: a transcript replaced (say, by its de-identified version) leaves none of its text
+  // among a cluster's central passages. (Its suggestions, which quote it, go with it: see import.)
+  const ids = new Set((db.prepare('SELECT id FROM passages WHERE transcript_id = ?').all(id) as { id: string }[]).map((r) => r.id));
+  const update = db.prepare('UPDATE clusters SET detail = ? WHERE id = ?');
+  for (const c of db.prepare('SELECT id, detail FROM clusters').all() as { id: number; detail: string }[]) {
+    const detail = JSON.parse(c.detail) as { central?: { passage_id: string; text: string }[] };
+    const hit = (detail.central ?? []).filter((x) => ids.has(x.passage_id) && x.text !== REPLACED);
+    if (!hit.length) continue;
+    for (const x of hit) x.text = REPLACED;
+    update.run(JSON.stringify(detail), c.id);
+  }
   db.prepare('DELETE FROM transcripts WHERE id = ?').run(id);
-  // Stored model states hold the vocabulary and vectors of every passage they were fitted on: a
-  // transcript replaced (say, by its de-identified version) must not live on in them.
+  // Stored model states hold the vocabulary and vectors of every passage they were fitted on.
   db.prepare('DELETE FROM model_states').run();
 }
 

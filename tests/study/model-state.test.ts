@@ -66,7 +66,7 @@ describe('stored model state', () => {
 });
 
 describe('stored model state and a replaced transcript', () => {
-  it('is dropped when a transcript is replaced, so the old text does not live on in it', async () => {
+  it('is dropped when a transcript is replaced, and no reason or cluster quotes the old text any more', async () => {
     const { readTranscriptFile } = await import('../../src/ingest/read.js');
     const { importTranscripts } = await import('../../src/study/import.js');
     const { writeFileSync, mkdtempSync } = await import('node:fs');
@@ -79,8 +79,20 @@ describe('stored model state and a replaced transcript', () => {
     const name = (db.prepare('SELECT name FROM transcripts ORDER BY id DESC LIMIT 1').get() as { name: string }).name;
     const file = join(mkdtempSync(join(tmpdir(), 'trellis-replace-')), `${name}.txt`);
     writeFileSync(file, 'Interviewer: How was the handover?\n\nNurse: Quiet, for once; the board was up to date.\n');
+    const old = (db.prepare('SELECT p.id, p.text FROM passages p JOIN transcripts t ON t.id = p.transcript_id WHERE t.name = ?').all(name) as { id: string; text: string }[]);
+    runDiscovery(db);
+    // The old text is quoted before: a cluster shows a central passage whole.
+    const quoted = () => {
+      const rows = [
+        ...(db.prepare('SELECT reasons AS t FROM suggestions').all() as { t: string }[]),
+        ...(db.prepare('SELECT detail AS t FROM clusters').all() as { t: string }[]),
+      ].map((r) => r.t);
+      return old.filter((p) => rows.some((r) => r.includes(JSON.stringify(p.text).slice(1, -1)))).length;
+    };
+    expect(quoted()).toBeGreaterThan(0);
     await importTranscripts(db, [{ file, ...(await readTranscriptFile(file)) }], { coder: 'tester', replace: true });
     expect(stored()).toBe(0);
+    expect(quoted()).toBe(0);
     db.close();
   });
 });
