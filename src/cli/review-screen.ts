@@ -3,7 +3,8 @@
  * colour (bold, dim, reverse) only adds emphasis, so nothing is lost without it.
  */
 import { clock } from '../sheet/sheet.js';
-import type { PassageView, ReviewItem } from '../study/review.js';
+import type { PassageView } from '../study/review.js';
+import type { ReviewItem } from '../review/order.js';
 import { markTerms, wrap } from './marks.js';
 import { markedTerms, reasonText, type Snippets } from './reasons.js';
 import type { ThemeEntry } from './review-search.js';

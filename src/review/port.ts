@@ -6,7 +6,8 @@
  */
 import type { DecisionRow } from '../study/decisions.js';
 import type { Template } from '../template/types.js';
-import type { Claim, PassageView, ReviewCandidate, ReviewDecision, ReviewItem, ReviewSetup, ReviewStart } from '../study/review.js';
+import type { Claim, PassageView, ReviewDecision } from '../study/review.js';
+import type { ReviewCandidate, ReviewItem, ReviewSetup, ReviewStart } from './order.js';
 
 export type { Claim, DecisionRow, PassageView, ReviewCandidate, ReviewItem, ReviewSetup, ReviewStart };
 

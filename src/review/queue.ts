@@ -1,5 +1,5 @@
 /** The order a review session goes through its passages in (pure). */
-import type { ReviewItem } from '../study/review.js';
+import type { ReviewItem } from './order.js';
 
 /**
  * Where the session stands (pure): the queue in order, a cursor, passages decided or deferred

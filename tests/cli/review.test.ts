@@ -9,7 +9,8 @@ import { decodeKeys } from '../../src/cli/review-keys.js';
 import { matchThemes } from '../../src/cli/review-search.js';
 import { unflattenTemplate, walk } from '../../src/template/paths.js';
 import type { Template } from '../../src/template/types.js';
-import { ReviewQueue, orderQueue, uncertainty, type ReviewItem } from '../../src/study/review.js';
+import { ReviewQueue } from '../../src/review/queue.js';
+import { orderQueue, uncertainty, type ReviewItem } from '../../src/review/order.js';
 import { ReviewTerminal, loose } from './review-pty.js';
 import { CORPUS, freshStudy, trellis } from './run.js';
 
