@@ -493,8 +493,9 @@ export interface SoftPassage {
 
 /** Soft counts: per theme and over all themes, sparse, with the total mass added to `all`. */
 interface Soft {
-  counts: { indices: number[]; values: number[] }[];
-  all: { indices: number[]; values: number[] };
+  /** Term-major, as Stats.R. */
+  R: Float64Array;
+  G: Float64Array;
   mass: number;
 }
 
@@ -545,7 +546,7 @@ function softTotals(shares: readonly SoftPassage[], nT: number, V: number): Soft
       for (let q = 0; q < sp.themes.length; q++) R[off + sp.themes[q]!] = R[off + sp.themes[q]!]! + sp.weights[q]! * v;
     }
   }
-  return { counts: Array.from({ length: nT }, (_, t) => themeColumn(R, t, nT, V)), all: denseToSparse(G), mass };
+  return { R, G, mass };
 }
 
 /** A stored share as the dense weights rawSignals takes out. */
@@ -555,14 +556,20 @@ function shareOf(sp: SoftPassage, nT: number): { theme: Float64Array; all: numbe
   return { theme, all: sp.all };
 }
 
+/** Adds the soft counts to the stats: each theme's total sums them in term order. */
 function addSoft(st: Stats, soft: Soft): void {
-  soft.counts.forEach((c, t) => {
-    for (let k = 0; k < c.indices.length; k++) {
-      st.R[c.indices[k]! * st.nT + t] = st.R[c.indices[k]! * st.nT + t]! + c.values[k]!;
-      st.tot[t] = st.tot[t]! + c.values[k]!;
+  const { nT } = st;
+  const V = soft.G.length;
+  for (let j = 0; j < V; j++) {
+    const off = j * nT;
+    for (let t = 0; t < nT; t++) {
+      const v = soft.R[off + t]!;
+      if (!v) continue;
+      st.R[off + t] = st.R[off + t]! + v;
+      st.tot[t] = st.tot[t]! + v;
     }
-  });
-  for (let k = 0; k < soft.all.indices.length; k++) st.G[soft.all.indices[k]!] = st.G[soft.all.indices[k]!]! + soft.all.values[k]!;
+    if (soft.G[j]) st.G[j] = st.G[j]! + soft.G[j]!;
+  }
   st.gtot += soft.mass;
 }
 
