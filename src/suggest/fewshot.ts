@@ -491,7 +491,7 @@ export interface SoftPassage {
   all: number;
 }
 
-/** Soft counts: per theme and over all themes, sparse, with the total mass added to `all`. */
+/** Soft counts per (term, theme) and per term over all themes, dense, with their total mass. */
 interface Soft {
   /** Term-major, as Stats.R. */
   R: Float64Array;
