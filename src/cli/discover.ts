@@ -10,7 +10,7 @@ import { coderName, coderOf, collect, positiveInt, studyCommand, withStudy, type
 import { discoverJson, promoteJson, triageJson } from './discover-json.js';
 import { wrap } from './marks.js';
 import { plural, printJson, say, table } from './output.js';
-import { stepBar } from './progress.js';
+import { withStepBar } from './progress.js';
 
 const pct = (x: number) => `${Math.round(100 * x)}%`;
 const clip = (s: string, n: number) => {
@@ -40,13 +40,7 @@ Examples:
     .action(async (opts: StudyOpts & { k?: number }) => {
       await withStudy(opts, (db) => {
         // Shares of a 4,000-answer survey's discover with a stored model: scoring 0.45, clustering 0.5.
-        const bar = stepBar('discovering', { fit: [0, 0.45], score: [0.45, 0.5], cluster: [0.5, 1] }, !opts.json && passageCount(db) >= 2000);
-        let run;
-        try {
-          run = runDiscovery(db, { k: opts.k }, bar.step);
-        } finally {
-          bar.stop();
-        }
+        const run = withStepBar('discovering', { fit: [0, 0.45], score: [0.45, 0.5], cluster: [0.5, 1] }, !opts.json && passageCount(db) >= 2000, (step) => runDiscovery(db, { k: opts.k }, step));
         const pool = run.pool.pool;
         if (opts.json) return printJson(discoverJson(run));
         const names = themePaths(db);
@@ -140,14 +134,7 @@ Examples:
     .action(async (opts: StudyOpts & { transcript?: string[] }) => {
       await withStudy(opts, (db) => {
         requireTranscripts(db, opts.transcript);
-        const bar = stepBar('scoring', { fit: [0, 0.85], score: [0.85, 1], cluster: [1, 1] }, !opts.json && passageCount(db) >= 2000);
-        let triaged;
-        try {
-          triaged = triageStudy(db, opts.transcript, bar.step);
-        } finally {
-          bar.stop();
-        }
-        const { rows, clusters } = triaged;
+        const { rows, clusters } = withStepBar('scoring', { fit: [0, 0.85], score: [0.85, 1], cluster: [1, 1] }, !opts.json && passageCount(db) >= 2000, (step) => triageStudy(db, opts.transcript, step));
         if (opts.json) return printJson(triageJson(rows, clusters));
         const names = new Map([...walk(currentTemplate(db))].map((e) => [e.node.id, e.path.split(' > ').pop()!]));
         if (!rows.length) return say('No transcript has passages left to code.');

@@ -36,16 +36,18 @@ export function workingNote(text: string, opts: { json?: boolean; passages: numb
 }
 
 /**
- * One bar over a command made of steps, each given its share of the whole (measured on a large
- * study), for work that reports how far each step is (0 to 1).
+ * Runs `work` under one bar over a command made of steps, each given its share of the whole
+ * (measured on a large study); `work` reports how far each step is (0 to 1). The bar is stopped
+ * however `work` ends.
  */
-export function stepBar<S extends string>(label: string, shares: Record<S, readonly [number, number]>, show: boolean): { step: (step: S, done: number) => void; stop: () => void } {
+export function withStepBar<S extends string, T>(label: string, shares: Record<S, readonly [number, number]>, show: boolean, work: (step: (step: S, done: number) => void) => T): T {
   const bar = progressBar(1000, label, { show, share: true });
-  return {
-    step: (step, done) => {
+  try {
+    return work((step, done) => {
       const [from, to] = shares[step];
       bar.tick(Math.round(1000 * (from + (to - from) * done)));
-    },
-    stop: () => bar.stop(),
-  };
+    });
+  } finally {
+    bar.stop();
+  }
 }

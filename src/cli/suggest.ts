@@ -1,13 +1,13 @@
 import type { Command } from 'commander';
 import { getPassage, passageCount, passageTokens } from '../study/passages.js';
-import { suggest, type SuggestRun } from '../study/suggestions.js';
+import { suggest } from '../study/suggestions.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import type { DB } from '../study/db.js';
 import { clock } from '../sheet/sheet.js';
 import { collect, positiveInt, probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { markTerms, wrap } from './marks.js';
 import { plural, printJson, printJsonStream, say, table, warn } from './output.js';
-import { stepBar } from './progress.js';
+import { withStepBar } from './progress.js';
 import { markedTerms, reasonText, type Snippets } from './reasons.js';
 import { passageJson, passageJsonText } from './suggest-json.js';
 
@@ -29,14 +29,6 @@ function snippetCache(db: DB): Snippets {
       return cache.get(id);
     },
   };
-}
-
-/**
- * One bar over the run: fitting, scoring and storing, weighted by their measured shares of a
- * 10,000-passage run (about 1.7 s, 0.4 s and 0.5 s). Only for studies large enough to wait on.
- */
-function suggestBar(db: DB) {
-  return stepBar('suggesting', { fit: [0, 0.65], score: [0.65, 0.8], store: [0.8, 1] }, passageCount(db) >= 2000);
 }
 
 export function registerSuggest(program: Command): void {
@@ -66,13 +58,11 @@ Examples:
       await withStudy(opts, (db) => {
         requireTranscripts(db, opts.transcript);
         if (!opts.json) process.stderr.write('Fitting theme profiles and scoring passages...\n');
-        const bar = suggestBar(db);
-        let run: SuggestRun;
-        try {
-          run = suggest(db, { transcripts: opts.transcript, top: opts.top, targetPrecision: opts.targetPrecision, includeCoded: opts.all, progress: bar.step });
-        } finally {
-          bar.stop();
-        }
+        // One bar over fitting, scoring and storing, by their shares of a 10,000-passage run
+        // (about 1.7 s, 0.4 s and 0.5 s); only for studies large enough to wait on.
+        const run = withStepBar('suggesting', { fit: [0, 0.65], score: [0.65, 0.8], store: [0.8, 1] }, passageCount(db) >= 2000, (step) =>
+          suggest(db, { transcripts: opts.transcript, top: opts.top, targetPrecision: opts.targetPrecision, includeCoded: opts.all, progress: step }),
+        );
         const snippets = snippetCache(db);
         const path = (id: string) => run.paths.get(id) ?? id;
         // Say what is weak, naming the themes: their confidence cannot be checked yet.

@@ -1,5 +1,5 @@
 import { UserError } from '../errors.js';
-import { resolveOptions, ThemeSuggester } from '../suggest/suggester.js';
+import { resolveOptions, STATE_VERSION, ThemeSuggester } from '../suggest/suggester.js';
 import type { Candidate, PassageSuggestions, Reason, SuggesterOptions, ThemeReport } from '../suggest/types.js';
 import type { DB } from './db.js';
 import { modelInputs } from './model.js';
@@ -33,9 +33,6 @@ export interface SuggestOptions extends SuggesterOptions {
   /** Told how far the run is: the step, and the share of it done (0 to 1). */
   progress?: (step: 'fit' | 'score' | 'store', done: number) => void;
 }
-
-/** The version of the stored model state this build reads and writes. */
-const STATE_VERSION = 4;
 
 /**
  * The suggestion model on the study's current codings: the state stored by an earlier fit on

@@ -304,6 +304,7 @@ export function fitFewshot(
   // Base counts, kept so that each round of the uncoded passages' soft counts starts from them.
   const base = { R: st.R.slice(), tot: st.tot.slice(), G: st.G.slice(), gtot: st.gtot };
   let shares: SoftPassage[] = [];
+  let shareAt = new Map<number, SoftPassage>();
   let raw!: Float64Array;
   let nearest!: Int32Array;
   let rows!: number[];
@@ -321,6 +322,7 @@ export function fitFewshot(
       // Semi-supervised EM (multinomial models): the uncoded passages join the counts of the
       // themes in proportion to their confidences, weighted by em, and the model is refitted.
       shares = softShares(conf, x, ids, codedT, transcriptOf, tree, o.em, negOf, like);
+      shareAt = new Map(shares.map((sp) => [pIndex.get(sp.id)!, sp]));
       st.R.set(base.R);
       st.tot.set(base.tot);
       st.G.set(base.G);
@@ -349,7 +351,8 @@ export function fitFewshot(
       const restore = out.length ? leaveOut(st, state0.coded, out, -1) : null;
       for (const p of members[ti]!) {
         // An uncoded passage is scored without its own soft counts (as a new passage would be).
-        const self = round > 0 && !out.length && o.emLeaveOut ? softShare(conf, p, nT, tree, o.em, negOf.get(p), like) : null;
+        const own = round > 0 && !out.length && o.emLeaveOut ? shareAt.get(p) : undefined;
+        const self = own ? shareOf(own, nT) : null;
         rawSignals(st, x[p]!, out.length ? ti : -1, raw, nearest, p, round > 0, self);
       }
       if (restore) restore();

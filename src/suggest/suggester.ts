@@ -48,8 +48,11 @@ export function resolveOptions(o: SuggesterOptions = {}): ResolvedOptions {
   };
 }
 
+/** The version of SuggesterState this build writes and reads (a stored state of another is fitted again). */
+export const STATE_VERSION = 4;
+
 export interface SuggesterState {
-  version: 4;
+  version: typeof STATE_VERSION;
   options: ResolvedOptions;
   tfidf: TfidfState;
   themes: { id: string; path: string; profiled: boolean; seedOnly: boolean; tooFew: boolean; scored: boolean }[];
@@ -232,7 +235,7 @@ export class ThemeSuggester {
     progress(1);
     const codedPassages = labelsInBatch.filter((l) => l.length).length;
     this.st = {
-      version: 4,
+      version: STATE_VERSION,
       options: o,
       tfidf: this.vec.state,
       themes: themes.map((th, t) => ({ id: th.id, path: th.path, profiled: profiled[t]!, seedOnly: seedOnly[t]!, tooFew: tooFew[t]!, scored: scored[t]! })),
@@ -266,7 +269,7 @@ export class ThemeSuggester {
    * @param fp the fingerprint the fit gave (a state does not hold its own)
    */
   static fromState(state: SuggesterState, themes: ThemeInfo[], passages: ModelPassage[], fp: string): ThemeSuggester {
-    if (state.version !== 4) throw new Error('this stored model is of another version: fit again');
+    if (state.version !== STATE_VERSION) throw new Error('this stored model is of another version: fit again');
     if (themes.length !== state.themes.length || themes.some((th, t) => th.id !== state.themes[t]!.id)) throw new Error('the stored model was fitted on other themes: fit again');
     const m = new ThemeSuggester(state.options);
     m.st = state;
@@ -281,9 +284,7 @@ export class ThemeSuggester {
     m.evidence = state.evidence.map((e) => new Map(e.indices.map((i, k) => [i, e.weights[k]!])));
     const n = passages.length * themes.length;
     m.score = new Float64Array(n);
-    m.conf = new Float64Array(n);
-    m.ctxPart = new Float64Array(n);
-    m.nearest = new Int32Array(n).fill(-1);
+    m.nearest = new Int32Array(n);
     m.nearestSim = new Float64Array(n);
     m.useCells(scoreFewshot(state.fewshot, themes, passages), state.fewshot);
     return m;
