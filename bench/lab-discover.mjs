@@ -8,7 +8,7 @@
 // that best matches the left-out category, and a side-by-side with scikit-learn's k-means.
 //
 //   node bench/lab-discover.mjs                         religion, science_fiction, humor
-//   LEAVE_OUT=religion CLAIM=any node bench/lab-discover.mjs
+//   LEAVE_OUT=religion node bench/lab-discover.mjs
 //   MODE=repr node bench/lab-discover.mjs               memory/quality of the dense rows on a large pool
 //   SEED=2 SKIP_PEER=1 ...
 //
@@ -92,33 +92,11 @@ function protocol(all, train, leftOut, claimAt) {
   const model = new ThemeSuggester().fit(passages, codings, th);
   const t1 = performance.now();
   const fallback = model.themeReports().filter((r) => r.warnings.some((w) => w.includes('did not reach the target precision'))).map((r) => r.themeId);
-  let preds = model.predict(test.map((p) => p.id), { reasons: 0 });
+  const preds = model.predict(test.map((p) => p.id), { reasons: 0 });
   const t2 = performance.now();
-  if (claimAt === 'leaf-f1') {
-    // A proposal for the suggester, measured: a theme that cannot reach the target precision gets
-    // the threshold with the best F1 on its cross-validated (leave-one-transcript-out) confidences
-    // instead of the target itself. The coded passages' predictions are those LOTO confidences.
-    const codedPreds = model.predict(all.filter((p) => coded.has(p.transcript)).map((p) => p.id), { reasons: 0 });
-    const labelOf = new Map(all.map((p) => [p.id, p.label]));
-    const f1Threshold = {};
-    for (const t of fallback) {
-      const pts = codedPreds.map((p) => ({ c: p.candidates.find((c) => c.themeId === t)?.confidence ?? 0, y: labelOf.get(p.passageId) === t })).sort((a, b) => b.c - a.c);
-      const P = pts.filter((x) => x.y).length;
-      let tp = 0;
-      let best = { f1: -1, t: 1 };
-      pts.forEach((x, i) => {
-        if (x.y) tp++;
-        const f1 = (2 * tp) / (i + 1 + P);
-        if ((i + 1 === pts.length || pts[i + 1].c < x.c) && f1 > best.f1) best = { f1, t: x.c };
-      });
-      f1Threshold[t] = best.t;
-    }
-    console.log(`  F1-optimal thresholds for themes below the target: ${Object.entries(f1Threshold).map(([t, v]) => `${t} ${v.toFixed(3)}`).join(', ')}`);
-    preds = preds.map((p) => ({ ...p, candidates: p.candidates.map((c) => (c.themeId in f1Threshold ? { ...c, aboveThreshold: c.confidence >= f1Threshold[c.themeId] } : c)) }));
-  }
   const thresholds = Object.fromEntries(model.themeReports().map((r) => [r.themeId, r.threshold]));
   const candidates = all.map((p) => ({ id: p.id, transcript: p.transcript, speaker: null, role: 'participant', terms: p.terms, words: p.text.split(/\s+/).length }));
-  const pr = unclaimedPool({ passages: candidates, suggestions: preds, themes: th, codings, thresholds }, { claimAt: claimAt === 'any' ? 'any' : 'leaf' });
+  const pr = unclaimedPool({ passages: candidates, suggestions: preds, themes: th, codings, thresholds });
   const t3 = performance.now();
   const inPool = new Set(pr.pool.map((p) => p.id));
   const excluded = new Map(pr.excluded.map((e) => [e.id, e.reason]));
@@ -339,7 +317,8 @@ if (process.env.MODE === 'repr-one') {
   termsOf = new Map(all.map((p) => [p.id, p.terms]));
   const train = labSplit(SEED);
   const leftOuts = (process.env.LEAVE_OUT ?? 'religion,science_fiction,humor').split(',');
-  const claims = (process.env.CLAIM ?? 'leaf').split(',');
+  // The pool's one rule (none fits, src/discover/pool.ts); the name stays in the output files.
+  const claims = ['leaf'];
   console.log(`lab:discover  seed ${SEED}: ${all.length} passages, ${train.size} coded samples before leaving a category out`);
   for (const leftOut of leftOuts) {
     for (const claimAt of claims) {

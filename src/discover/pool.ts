@@ -8,15 +8,16 @@
  * with 7 or more topic lemmas carries content; 6 is the first count with small talk ("No problem.
  * It's been a busy week, so it's nice to sit down"). See docs/discovery.md.
  *
- * Unclaimed (the default rule, 'none-fits'): the chance that no theme of the template applies,
- * from the calibrated confidences of every theme (parents and every ancestor included, so a
- * passage that a parent claims is not unclaimed), is at least `noneFitsAt`. A theme the coder
- * rejected for the passage does not count.
+ * Unclaimed: the chance that no theme of the template applies, from the calibrated confidences
+ * of every theme (parents and every ancestor included, so a passage that a parent claims is not
+ * unclaimed), is at least `noneFitsAt`: one minus the best confidence. A theme the coder rejected
+ * for the passage does not count. (The older rules, "no theme at its coded level clears its own
+ * threshold" and the noisy-OR of the confidences, were measured against this one in
+ * docs/discovery.md and removed.)
  *
- * Claimed under the older rule ('threshold'): a theme claims a passage when it is chosen (above threshold, after the hierarchy rule)
- * and coders code at its level: it is a leaf, or coders applied it directly to a passage. A parent
- * that clears its threshold only through its sub-themes' evidence ("Informative", with no leaf
- * clearing) does not claim: the passage may be a new sub-theme, which is what discovery is for.
+ * Each pooled passage keeps the nearest theme at the level coders code at (a leaf, or a theme
+ * coders applied directly), and the parents that cleared their thresholds only through their
+ * sub-themes' evidence: the passage may be a new sub-theme, which is what discovery is for.
  */
 import type { Coding, PassageSuggestions } from '../suggest/types.js';
 import type { NearestTheme, PoolCandidate, PoolEntry, PoolExclusion, PoolResult } from './types.js';
@@ -40,40 +41,20 @@ export interface PoolOptions {
   minTerms?: number;
   /** Share of content lemmas that are small talk at which a passage is small talk (default 0.5). */
   maxSmallTalkShare?: number;
-  /**
-   * 'leaf' (default): a chosen theme claims when it is a leaf or coders applied it directly.
-   * 'any': any chosen theme claims (the suggester's own `unclaimed` flag).
-   */
-  claimAt?: 'leaf' | 'any';
-  /**
-   * 'none-fits' (default): a passage is unclaimed when the chance that no theme of the template
-   * applies (noneFits) is at least `noneFitsAt`. 'threshold': the older rule, no theme claims at
-   * its level above its own threshold (kept for measurement, docs/discovery.md).
-   */
-  rule?: 'none-fits' | 'threshold';
-  /** How the themes' calibrated confidences combine into the chance that some theme applies (default 'max'). */
-  combine?: 'noisy-or' | 'max';
   /** Pool a passage when noneFits is at or above this (default NONE_FITS_AT). */
   noneFitsAt?: number;
 }
 
 /**
- * The default cut of the none-fits rule (with 'max'), measured on the survey protocol of
+ * The default cut of the none-fits rule, measured on the survey protocol of
  * bench/fewshot.py leaving out Game, seed 1: cuts 0.45 / 0.5 / 0.6 gave pool recall 0.47 / 0.44 /
  * 0.38 at a pool false share of 0.29 / 0.25 / 0.20 (docs/discovery.md, "The pool rule").
  */
 export const NONE_FITS_AT = 0.5;
 
-/**
- * The chance that no theme applies, from the themes' calibrated confidences (each the chance that
- * the coder gives that very theme, parents included): with 'noisy-or' the product of 1 - p over
- * the themes, as if the themes were independent; with 'max', 1 - the best confidence.
- */
-export function noneFits(confidences: readonly number[], combine: 'noisy-or' | 'max' = 'max'): number {
-  if (combine === 'max') return 1 - confidences.reduce((m, c) => Math.max(m, c), 0);
-  let none = 1;
-  for (const c of confidences) none *= 1 - Math.min(1, Math.max(0, c));
-  return none;
+/** The chance that no theme applies: 1 - the best of the themes' calibrated confidences. */
+export function noneFits(confidences: readonly number[]): number {
+  return 1 - confidences.reduce((m, c) => Math.max(m, c), 0);
 }
 
 export interface PoolInput {
@@ -124,7 +105,6 @@ export function claimingThemes(themes: PoolInput['themes'], codings: readonly Co
 
 /** Sorts passages into the unclaimed pool and the rest (with the rule that kept each out). */
 export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolResult {
-  const claimAt = opts.claimAt ?? 'leaf';
   const claiming = claimingThemes(input.themes, input.codings);
   const coded = new Set(input.codings.map((c) => c.passageId));
   const judged = new Set(input.nothingToCode ?? []);
@@ -157,21 +137,17 @@ export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolRes
       continue;
     }
     const live = s.candidates.filter((c) => !rejected.has(`${p.id}\u0000${c.themeId}`));
-    // Above threshold rather than chosen: a rejected sub-theme must not hide a parent that claims.
-    const none = noneFits(live.map((c) => c.confidence), opts.combine ?? 'max');
-    const claims =
-      (opts.rule ?? 'none-fits') === 'none-fits'
-        ? none < (opts.noneFitsAt ?? NONE_FITS_AT)
-        : live.some((c) => c.aboveThreshold && (claimAt === 'any' || claiming.has(c.themeId)));
-    if (claims) {
+    // Every theme counts, parents too: a rejected sub-theme must not hide a parent that fits.
+    const none = noneFits(live.map((c) => c.confidence));
+    if (none < (opts.noneFitsAt ?? NONE_FITS_AT)) {
       out(p.id, 'claimed');
       continue;
     }
-    // Candidates are ranked best first; the nearest is the best one that could have claimed.
-    const near = live.find((c) => claimAt === 'any' || claiming.has(c.themeId));
+    // Candidates are ranked best first; the nearest is the best one at a coded level.
+    const near = live.find((c) => claiming.has(c.themeId));
     const threshold = near ? input.thresholds?.[near.themeId] : undefined;
     const nearest: NearestTheme | null = near ? { themeId: near.themeId, confidence: near.confidence, ...(threshold === undefined ? {} : { threshold }) } : null;
-    const clearedParents = live.filter((c) => c.aboveThreshold && !(claimAt === 'any' || claiming.has(c.themeId))).map((c) => c.themeId);
+    const clearedParents = live.filter((c) => c.aboveThreshold && !claiming.has(c.themeId)).map((c) => c.themeId);
     // Small talk and clitics would only add noise to the clusters' vectors and terms.
     pool.push({ id: p.id, transcript: p.transcript, speaker: p.speaker, terms: topicTerms(p.terms), words: p.words ?? p.terms.length, nearest, clearedParents, noneFits: none });
     counts.unclaimed++;

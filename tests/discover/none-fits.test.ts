@@ -21,11 +21,9 @@ const THEMES = [
 ];
 
 describe('the none-fits probability', () => {
-  it('is the product of 1 - p over the themes (noisy-OR), or 1 - the best confidence', () => {
-    expect(noneFits([0.5, 0.5], 'noisy-or')).toBeCloseTo(0.25, 12);
-    expect(noneFits([0.2, 0.1, 0], 'noisy-or')).toBeCloseTo(0.8 * 0.9, 12);
-    expect(noneFits([0.2, 0.1], 'max')).toBeCloseTo(0.8, 12);
+  it('is 1 - the best confidence', () => {
     expect(noneFits([0.2, 0.1])).toBeCloseTo(0.8, 12);
+    expect(noneFits([0.5, 0.5, 0])).toBeCloseTo(0.5, 12);
     expect(noneFits([])).toBe(1);
   });
 
@@ -39,15 +37,12 @@ describe('the none-fits probability', () => {
     const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings: [] }, { noneFitsAt: 0.5 });
     expect(r.pool.map((p) => p.id)).toEqual(['a#1']);
     expect(r.pool[0]!.noneFits).toBeCloseTo(0.95, 12);
-    // With the noisy-OR, two weak themes together make a fit more likely than either alone.
-    const nor = unclaimedPool({ passages, suggestions, themes: THEMES, codings: [] }, { noneFitsAt: 0.5, combine: 'noisy-or' });
-    expect(nor.pool[0]!.noneFits).toBeCloseTo(0.95 * 0.95, 12);
     expect(r.counts.claimed).toBe(2);
     // A rejected theme no longer counts towards "some theme fits".
     const rej = unclaimedPool({ passages, suggestions, themes: THEMES, codings: [], rejected: [{ passageId: 'a#3', themeId: 'tools' }] }, { noneFitsAt: 0.5 });
     expect(rej.pool.map((p) => p.id)).toEqual(['a#1', 'a#3']);
-    // The older rule (some theme above its own threshold at its level) is kept for measurement.
-    expect(unclaimedPool({ passages, suggestions, themes: THEMES, codings: [] }, { rule: 'threshold' }).pool).toHaveLength(3);
+    // A lower cut pools only the passages where even less fits.
+    expect(unclaimedPool({ passages, suggestions, themes: THEMES, codings: [] }, { noneFitsAt: 0.96 }).pool).toHaveLength(0);
   });
 });
 
