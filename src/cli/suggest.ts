@@ -31,6 +31,14 @@ function snippetCache(db: DB): Snippets {
   };
 }
 
+/** Names cut to the first few on a large template, where the full list would fill the terminal. */
+export const WARN_NAMES = 8;
+
+export function firstFew(names: string[], jsonKey: string): string {
+  if (names.length <= WARN_NAMES) return names.join('; ');
+  return `${names.slice(0, WARN_NAMES).join('; ')}; and ${names.length - WARN_NAMES} more (all of them: "trellis profile", or "${jsonKey}" in suggest --json)`;
+}
+
 export function registerSuggest(program: Command): void {
   studyCommand(program, 'suggest', 'suggest candidate themes, with confidence and reasons, for the uncoded passages')
     .option('--transcript <name>', 'only these transcripts (repeatable)', collect)
@@ -70,9 +78,9 @@ Examples:
         const seedOnly = run.reports.filter((r) => r.seedOnly);
         const list = (rs: typeof few) => rs.map((r) => `${r.path} (${plural(r.exemplars, 'coded passage')}${r.transcripts ? ` in ${plural(r.transcripts, 'transcript')}` : ''})`);
         if (few.length) {
-          warn(`${plural(few.length, 'theme')} with too few coded examples for their confidence to be trusted: ${list(few).join('; ')}. Code more passages of them, or read their confidences as rough.`);
+          warn(`${plural(few.length, 'theme')} with too few coded examples for their confidence to be trusted: ${firstFew(list(few), 'few_examples')}. Code more passages of them, or read their confidences as rough.`);
         }
-        if (seedOnly.length) warn(`${plural(seedOnly.length, 'theme')} suggested from name, definition and seed terms only (no coded passage): ${seedOnly.map((r) => r.path).join('; ')}.`);
+        if (seedOnly.length) warn(`${plural(seedOnly.length, 'theme')} suggested from name, definition and seed terms only (no coded passage): ${firstFew(seedOnly.map((r) => r.path), 'seed_only')}.`);
         if (opts.json) {
           const head = {
             run_id: run.runId,
