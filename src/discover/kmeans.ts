@@ -118,29 +118,67 @@ function centreNorms(ct: Float64Array, k: number): Float64Array {
   return cn;
 }
 
-/** Squared distance of every point to point q (for k-means++). */
-function distancesTo(p: Points, q: number, buf: Float64Array): Float64Array {
-  const iq = p.idx[q]!;
-  const vq = p.val[q]!;
-  for (let t = 0; t < iq.length; t++) buf[iq[t]!] = vq[t]!;
-  const out = new Float64Array(p.idx.length);
+/**
+ * The points by term (an inverted index): for each column, the points with a non-zero entry
+ * there, in point order, and their values. k-means++ compares each candidate centre with every
+ * point; through the index it touches only the points that share a term with the candidate.
+ */
+interface Postings {
+  start: Int32Array; // column c's entries are start[c] .. start[c + 1] - 1
+  point: Int32Array;
+  value: Float64Array;
+}
+
+function postingsOf(p: Points): Postings {
+  const start = new Int32Array(p.dims + 1);
+  for (const ix of p.idx) for (let t = 0; t < ix.length; t++) start[ix[t]! + 1]++;
+  for (let c = 0; c < p.dims; c++) start[c + 1] += start[c]!;
+  const fill = start.slice(0, p.dims);
+  const point = new Int32Array(start[p.dims]!);
+  const value = new Float64Array(start[p.dims]!);
   for (let i = 0; i < p.idx.length; i++) {
     const ix = p.idx[i]!;
     const vx = p.val[i]!;
-    let s = 0;
-    for (let t = 0; t < ix.length; t++) s += vx[t]! * buf[ix[t]!]!;
-    out[i] = Math.max(0, p.sq[i]! + p.sq[q]! - 2 * s);
+    for (let t = 0; t < ix.length; t++) {
+      const at = fill[ix[t]!]!++;
+      point[at] = i;
+      value[at] = vx[t]!;
+    }
   }
-  for (let t = 0; t < iq.length; t++) buf[iq[t]!] = 0;
+  return { start, point, value };
+}
+
+/**
+ * Squared distance of every point to point q (for k-means++). The dot products add the shared
+ * terms' products in ascending column order, as a walk over each point's own terms would (its
+ * other terms add exact zeros), so the distances are the same to the last bit.
+ */
+function distancesTo(p: Points, post: Postings, q: number, dot: Float64Array): Float64Array {
+  const iq = p.idx[q]!;
+  const vq = p.val[q]!;
+  dot.fill(0);
+  for (let t = 0; t < iq.length; t++) {
+    const c = iq[t]!;
+    const w = vq[t]!;
+    for (let e = post.start[c]!; e < post.start[c + 1]!; e++) dot[post.point[e]!] += post.value[e]! * w;
+  }
+  const out = new Float64Array(p.idx.length);
+  for (let i = 0; i < p.idx.length; i++) out[i] = Math.max(0, p.sq[i]! + p.sq[q]! - 2 * dot[i]!);
   return out;
 }
 
+/** Squared distance of every point to point q, as k-means++ computes it (for the tests). */
+export function squaredDistancesTo(rows: KMeansInput, q: number): Float64Array {
+  const p = toPoints(rows);
+  return distancesTo(p, postingsOf(p), q, new Float64Array(p.idx.length));
+}
+
 /** scikit-learn's greedy k-means++: the indices of the k starting points. */
-function kmeansPlusPlus(p: Points, k: number, rand: () => number): number[] {
+function kmeansPlusPlus(p: Points, post: Postings, k: number, rand: () => number): number[] {
   const n = p.idx.length;
-  const buf = new Float64Array(p.dims);
+  const buf = new Float64Array(n);
   const chosen = [Math.floor(rand() * n)];
-  let closest = distancesTo(p, chosen[0]!, buf);
+  let closest = distancesTo(p, post, chosen[0]!, buf);
   const trials = 2 + Math.floor(Math.log(k));
   for (let c = 1; c < k; c++) {
     let pot = 0;
@@ -151,7 +189,7 @@ function kmeansPlusPlus(p: Points, k: number, rand: () => number): number[] {
       let q = 0;
       // The first point whose cumulative weight passes u (numpy's searchsorted on the cumsum).
       while (q < n - 1 && (u -= closest[q]!) >= 0) q++;
-      const d = distancesTo(p, q, buf);
+      const d = distancesTo(p, post, q, buf);
       let np = 0;
       for (let i = 0; i < n; i++) np += Math.min(closest[i]!, d[i]!);
       if (!best || np < best.pot) best = { q, pot: np, d };
@@ -286,8 +324,9 @@ export function kmeansRestarts(rows: KMeansInput, k: number, opts: KMeansOptions
   const seeds = Array.from({ length: restarts }, () => Math.floor(rand() * 2 ** 31));
   let best: (ReturnType<typeof lloydSteps> & { restart: number }) | null = null;
   const inertias: number[] = [];
+  const post = postingsOf(p);
   seeds.forEach((seed, restart) => {
-    const start = kmeansPlusPlus(p, k, seededRandom(seed));
+    const start = kmeansPlusPlus(p, post, k, seededRandom(seed));
     const ct = new Float64Array(p.dims * k);
     start.forEach((q, j) => {
       const iq = p.idx[q]!;

