@@ -10,7 +10,7 @@ import { readFileSync, readdirSync, existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { openStudy } from '../dist/study/db.js';
-import { modelInputs } from '../dist/study/model.js';
+import { modelInputs } from '../dist/jobs/model-inputs.js';
 import { fitFewshot } from '../dist/suggest/fewshot.js';
 import { ThemeSuggester } from '../dist/suggest/index.js';
 

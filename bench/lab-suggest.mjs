@@ -103,7 +103,7 @@ function paragraphData(all, seed) {
 async function cliStudy() {
   const { main } = await import('../dist/cli/main.js');
   const { openStudy } = await import('../dist/study/db.js');
-  const { modelInputs } = await import('../dist/study/model.js');
+  const { modelInputs } = await import('../dist/jobs/model-inputs.js');
   const dir = join(OUT, 'lab-study');
   if (!existsSync(join(dir, 'study.db'))) {
     const run = async (...args) => {

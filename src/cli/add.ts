@@ -4,7 +4,7 @@ import { DEFAULT_MAX_MB } from '../ingest/limits.js';
 import { readTranscriptFile } from '../ingest/read.js';
 import { warmUp } from '../text/pool.js';
 import { studyCoder } from '../study/db.js';
-import { importTranscripts, type ImportItem } from '../study/import.js';
+import { importTranscripts, type ImportItem } from '../jobs/import.js';
 import { coderName, collect, positiveInt, studyCommand, UNNAMED, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table, warn } from './output.js';
 import { looksLikeName } from '../report/pseudonyms.js';

@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { UserError } from '../errors.js';
-import { listAliases, namesAndAliases, removeAlias, setAlias, type AliasKind } from '../study/aliases.js';
+import { namesAndAliases } from '../jobs/aliases.js';
+import { listAliases, removeAlias, setAlias, type AliasKind } from '../study/aliases.js';
 import { studyCommand, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table } from './output.js';
 

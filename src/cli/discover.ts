@@ -1,7 +1,8 @@
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
-import { dismissCluster, promoteCluster, runDiscovery, triageStudy } from '../study/discovery.js';
+import { promoteCluster, runDiscovery, triageStudy } from '../jobs/discovery.js';
+import { dismissCluster } from '../study/clusters.js';
 import { passageCount } from '../study/passages.js';
 import { currentTemplate, themePaths } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';

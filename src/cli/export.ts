@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { UserError } from '../errors.js';
 import { DATA_CAUTION } from '../report/cautions.js';
 import { writeCsv } from '../sheet/csv.js';
-import { studyPseudonymiser } from '../study/aliases.js';
+import { studyPseudonymiser } from '../jobs/aliases.js';
 import { decisionLog, logColumns } from '../study/decisions.js';
 import { CODING_COLUMNS, codingsForExport, themeMatrix } from '../study/export.js';
 import { currentRevision } from '../study/template.js';

@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { findByPath } from '../template/paths.js';
-import { fitModel } from '../study/suggestions.js';
-import { writtenForms } from '../study/passages.js';
+import { fitModel } from '../jobs/suggest.js';
+import { writtenForms } from '../jobs/written-forms.js';
 import { currentTemplate } from '../study/template.js';
 import { probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, table } from './output.js';

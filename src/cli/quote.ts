@@ -3,7 +3,7 @@ import { UserError } from '../errors.js';
 import { QUOTE_RULES } from '../report/quotes.js';
 import { getPassage } from '../study/passages.js';
 import { chooseQuote, clearQuoteChoice, listQuoteChoices } from '../study/quotes.js';
-import { chosenQuotes } from '../study/report-data.js';
+import { chosenQuotes } from '../jobs/report-data.js';
 import { currentTemplate } from '../study/template.js';
 import { findByPath, walk } from '../template/paths.js';
 import { coderName, coderOf, studyCommand, withStudy, type StudyOpts } from './common.js';

@@ -4,7 +4,7 @@ import { UserError } from '../errors.js';
 import { reportCautions } from '../report/cautions.js';
 import { renderCodebook, renderReport, type CodebookFormat } from '../report/index.js';
 import { passageCount } from '../study/passages.js';
-import { reportData } from '../study/report-data.js';
+import { reportData } from '../jobs/report-data.js';
 import { checkOut, forceOption, studyCommand, withStudy, writeOut, type OutputOpts } from './common.js';
 import { plural, printJson, say } from './output.js';
 import { workingNote } from './progress.js';

@@ -6,7 +6,7 @@ import type { DecisionRow } from '../study/decisions.js';
 import { openStudy, type DB } from '../study/db.js';
 import { getPassage } from '../study/passages.js';
 import { ORDERS, type ReviewCandidate, type ReviewOrder } from '../review/order.js';
-import { sqliteReviewStore } from '../study/review-store.js';
+import { sqliteReviewStore } from '../jobs/review-store.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { coderName, coderOf, collect, studyCommand, type StudyOpts } from './common.js';
 import { useColour } from './marks.js';

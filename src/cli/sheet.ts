@@ -1,10 +1,11 @@
-import { studyPseudonymiser } from '../study/aliases.js';
+import { studyPseudonymiser } from '../jobs/aliases.js';
+import { importSheet } from '../jobs/sheet-import.js';
 import type { Command } from 'commander';
 import { decodeText } from '../ingest/decode.js';
 import { readInputFile } from '../ingest/limits.js';
 import { DATA_CAUTION } from '../report/cautions.js';
 import { parseSheet, writeSheet } from '../sheet/sheet.js';
-import { importSheet, sheetRows } from '../study/sheet.js';
+import { sheetRows } from '../study/sheet.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { checkOut, collect, forceOption, withStudy, writeOut, type OutputOpts, type StudyOpts, coderName } from './common.js';
 import { plural, printJson, say, warn } from './output.js';

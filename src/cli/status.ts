@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { walk } from '../template/paths.js';
-import { studyStatus, type ThemeCount } from '../study/status.js';
+import { studyStatus, type ThemeCount } from '../jobs/status.js';
 import { currentTemplate } from '../study/template.js';
 import { studyCommand, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, table } from './output.js';

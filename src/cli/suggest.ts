@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { getPassage, passageCount, passageTokens } from '../study/passages.js';
-import { suggest } from '../study/suggestions.js';
+import { suggest } from '../jobs/suggest.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import type { DB } from '../study/db.js';
 import { clock } from '../sheet/sheet.js';

@@ -9,7 +9,7 @@ import { ReviewSession, type ReviewAction, type ScreenModel } from '../review/se
 import type { ThemeRef } from '../review/port.js';
 import type { DB } from '../study/db.js';
 import { addMemo } from '../study/memos.js';
-import { sqliteReviewStore } from '../study/review-store.js';
+import { sqliteReviewStore } from '../jobs/review-store.js';
 
 export type Act = ReviewAction | { kind: 'memo'; text: string } | { kind: 'restart' };
 

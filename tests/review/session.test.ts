@@ -7,7 +7,7 @@ import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { ReviewSession, type ActResult, type CandidateModel, type ReviewAction } from '../../src/review/session.js';
 import { openStudy, type DB } from '../../src/study/db.js';
 import type { DecisionRow } from '../../src/study/decisions.js';
-import { sqliteReviewStore } from '../../src/study/review-store.js';
+import { sqliteReviewStore } from '../../src/jobs/review-store.js';
 import { CORPUS, freshStudy, trellis } from '../cli/run.js';
 
 const T05 = 't05-ward9-fy2';

@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/errors.js';
 import { readTranscriptFile } from '../../src/ingest/read.js';
 import { createStudy, openStudy } from '../../src/study/db.js';
-import { importTranscripts } from '../../src/study/import.js';
+import { importTranscripts } from '../../src/jobs/import.js';
 import { MIGRATIONS, SCHEMA_VERSION } from '../../src/study/schema.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'trellis-db-'));

@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { readTranscriptFile } from '../../src/ingest/read.js';
 import { createStudy, type DB } from '../../src/study/db.js';
 import { allDecisions, effectiveDecisions, markNothingToCode, nothingToCode, nothingToCodeBy, undo } from '../../src/study/decisions.js';
-import { importTranscripts } from '../../src/study/import.js';
+import { importTranscripts } from '../../src/jobs/import.js';
 
 async function studyWithPassages(): Promise<{ db: DB; ids: string[] }> {
   const dir = mkdtempSync(join(tmpdir(), 'trellis-decisions-'));

@@ -6,10 +6,10 @@ import { parseOutlineOrThrow } from '../template/parse.js';
 import { collectComments } from '../template/comments.js';
 import { printOutline } from '../template/print.js';
 import type { Change, Diagnostic, Revised, Template } from '../template/types.js';
+import { TEMPLATE_FILE, type DB } from '../study/db.js';
+import { writeFileAtomic } from '../study/files.js';
+import { currentRevision, fileNameOnly, recordRevision, retiredPaths, themeIdAllocator } from '../study/template.js';
 import { themeCounts } from './status.js';
-import { TEMPLATE_FILE, type DB } from './db.js';
-import { writeFileAtomic } from './files.js';
-import { currentRevision, fileNameOnly, recordRevision, retiredPaths, themeIdAllocator } from './template.js';
 
 export interface RevisionResult {
   /** The new revision, or null when nothing changed. */

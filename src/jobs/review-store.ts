@@ -2,21 +2,10 @@
 import { UserError } from '../errors.js';
 import type { ReviewStore, Written } from '../review/port.js';
 import { walk } from '../template/paths.js';
-import type { DB } from './db.js';
-import {
-  AlreadyDecided,
-  claimOn,
-  itemFromRun,
-  passageView,
-  recodeToNewTheme,
-  reviewDecide,
-  reviewNothingToCode,
-  standingAccepts,
-  standingRejects,
-  startReview,
-  undoLatest,
-} from './review.js';
-import { currentTemplate } from './template.js';
+import type { DB } from '../study/db.js';
+import { AlreadyDecided, claimOn, itemFromRun, passageView, reviewDecide, reviewNothingToCode, standingAccepts, standingRejects, undoLatest } from '../study/review.js';
+import { currentTemplate } from '../study/template.js';
+import { recodeToNewTheme, startReview } from './review.js';
 
 /** Turns "another session got there first" into a refusal the session can show; anything else goes on up. */
 function guarded<T>(work: () => T): Written<T> {

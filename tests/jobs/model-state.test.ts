@@ -4,9 +4,9 @@ import { describe, expect, it } from 'vitest';
 import { codedDemoStudy } from '../cli/run.js';
 import { openStudy, type DB } from '../../src/study/db.js';
 import { decide } from '../../src/study/decisions.js';
-import { runDiscovery, triageStudy } from '../../src/study/discovery.js';
+import { runDiscovery, triageStudy } from '../../src/jobs/discovery.js';
 import { KEPT_STATES } from '../../src/study/model-store.js';
-import { fitModel, suggest, type SuggestRun } from '../../src/study/suggestions.js';
+import { fitModel, suggest, type SuggestRun } from '../../src/jobs/suggest.js';
 
 const states = (db: DB) => db.prepare('SELECT inputs, fingerprint FROM model_states ORDER BY created_at').all() as { inputs: string; fingerprint: string }[];
 const runKey = (db: DB, id: number) => (db.prepare('SELECT model_inputs FROM suggestion_runs WHERE id = ?').get(id) as { model_inputs: string }).model_inputs;
@@ -68,7 +68,7 @@ describe('stored model state', () => {
 describe('stored model state and a replaced transcript', () => {
   it('is dropped when a transcript is replaced, and no reason or cluster quotes the old text any more', async () => {
     const { readTranscriptFile } = await import('../../src/ingest/read.js');
-    const { importTranscripts } = await import('../../src/study/import.js');
+    const { importTranscripts } = await import('../../src/jobs/import.js');
     const { writeFileSync, mkdtempSync } = await import('node:fs');
     const { join } = await import('node:path');
     const { tmpdir } = await import('node:os');
