@@ -68,7 +68,7 @@ Examples:
       readBar.stop();
       const total = items.reduce((n, it) => n + it.transcripts.length, 0);
       const bar = progressBar(total, 'importing');
-      const { report, aliased } = await withStudy(opts, async (db) => ({
+      const { report, aliased } = await withStudy(opts, async ({ db }) => ({
         report: await importTranscripts(db, items, {
           replace: opts.replace,
           interviewers: opts.interviewer,

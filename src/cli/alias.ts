@@ -41,7 +41,7 @@ Examples:
   trellis alias remove Bronwen`,
     )
     .action(async (args: string[], opts: Opts) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         if (args.length === 1 && args[0] === 'list') {
           if (opts.all) {
             const rows = namesAndAliases(db);

@@ -37,7 +37,7 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     )
     .action(async (opts: OutputOpts & { transcript?: string[]; coder?: string; pseudonymise?: boolean }) => {
       checkOut(opts);
-      const rows = await withStudy(opts, (db) => {
+      const rows = await withStudy(opts, ({ db }) => {
         requireTranscripts(db, opts.transcript);
         const rows = sheetRows(db, { transcripts: opts.transcript, coder: opts.coder });
         if (!opts.pseudonymise) return rows;
@@ -72,7 +72,7 @@ Example:
       const decoded = decodeText(bytes, file);
       for (const w of decoded.warnings) warn(w);
       const rows = parseSheet(decoded.text, file);
-      const report = await withStudy(opts, (db) => importSheet(db, rows, file, opts.coder));
+      const report = await withStudy(opts, ({ db }) => importSheet(db, rows, file, opts.coder));
       if (opts.json) printJson(report);
       else
         say(

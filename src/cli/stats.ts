@@ -47,7 +47,7 @@ Examples:
   trellis stats --json > stats.json`,
     )
     .action(async (opts: StudyOpts & { excludeBulk?: boolean }) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const s = studyStats(db, { excludeBulk: opts.excludeBulk });
         if (opts.json) return printJson(statsJson(s));
         const name = themeNames(db);
@@ -121,7 +121,7 @@ Examples:
       if (opts.coders.length < 2) throw new UserError('agreement needs two or more coders: --coders A,B');
       const twice = opts.coders.find((c, i) => opts.coders.indexOf(c) !== i);
       if (twice) throw new UserError(`coder "${twice}" is named twice in --coders`);
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         requireTranscripts(db, opts.transcript);
         const known = knownCoders(db);
         const unknown = opts.coders.filter((c) => c !== TOOL_CODER && !known.includes(c));

@@ -24,7 +24,7 @@ export function registerStatus(program: Command): void {
   studyCommand(program, 'status', 'where the study stands: transcripts, passages, coding progress, template')
     .addHelpText('after', '\nExamples:\n  trellis status\n  trellis status --study handover --json')
     .action(async (opts: StudyOpts) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const s = studyStatus(db);
         const t = currentTemplate(db);
         const names = new Map([...walk(t)].map((e) => [e.node.id, { path: e.path, number: e.number, depth: e.depth }]));

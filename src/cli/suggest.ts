@@ -55,7 +55,7 @@ Examples:
   trellis suggest --top 3 --json > suggestions.json`,
     )
     .action(async (opts: SuggestOpts) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         requireTranscripts(db, opts.transcript);
         if (!opts.json) process.stderr.write('Fitting theme profiles and scoring passages...\n');
         // One bar over fitting, scoring and storing, by their shares of a 10,000-passage run

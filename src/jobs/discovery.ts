@@ -12,6 +12,7 @@ import { dismissals, latestClusters, openCluster, passageFacts, storeDiscoveryRu
 import type { DB } from '../study/db.js';
 import { nothingToCode } from '../study/decisions.js';
 import { getPassage } from '../study/passages.js';
+import type { Study } from '../study/study.js';
 import { currentRevision, currentTemplate, themePaths } from '../study/template.js';
 import { reviseTemplate } from './revise.js';
 import { fitModel } from './suggest.js';
@@ -133,7 +134,8 @@ export type PromoteTarget = { name: string; parentPath?: string } | { into: stri
  * The suggestions' confidence is the passage's closeness to the cluster (cosine), since there is
  * no calibration for this grouping; their reasons say so.
  */
-export function promoteCluster(db: DB, studyDir: string, ref: string, target: PromoteTarget, coder: string, note?: string): Promotion {
+export function promoteCluster(study: Study, ref: string, target: PromoteTarget, coder: string, note?: string): Promotion {
+  const { db } = study;
   return db
     .transaction((): Promotion => {
       const c = openCluster(db, ref);
@@ -146,8 +148,7 @@ export function promoteCluster(db: DB, studyDir: string, ref: string, target: Pr
       } else {
         const seeds = c.detail.terms.slice(0, 8).map((t) => t.term);
         const r = reviseTemplate(
-          db,
-          studyDir,
+          study,
           `promote cluster ${c.cluster_id} (${c.label})`,
           (t, allocate) => {
             const parent = target.parentPath ? findByPath(t, target.parentPath).id : null;

@@ -8,6 +8,7 @@ import { findByPath, walk } from '../template/paths.js';
 import type { DB } from '../study/db.js';
 import { decide, type DecisionRow } from '../study/decisions.js';
 import { AlreadyDecided, claimOn, decidedPassages, passagePlaces, themeOrder } from '../study/review.js';
+import type { Study } from '../study/study.js';
 import { currentTemplate } from '../study/template.js';
 import { reviseTemplate } from './revise.js';
 import { suggest } from './suggest.js';
@@ -60,20 +61,19 @@ export function startReview(db: DB, setup: ReviewSetup = {}, fitting: () => void
  * the theme and its first coding land together or not at all.
  */
 export function recodeToNewTheme(
-  db: DB,
-  studyDir: string,
+  study: Study,
   passageId: string,
   d: { suggestionId: number; parentId: string | null; name: string; note?: string; coder: string },
   mine: ReadonlySet<number>,
 ): { decision: DecisionRow; rev: number | null; path: string } {
+  const { db } = study;
   return db
     .transaction(() => {
       const claim = claimOn(db, passageId, mine);
       if (claim) throw new AlreadyDecided(passageId, claim);
       let id = '';
       const r = reviseTemplate(
-        db,
-        studyDir,
+        study,
         'add',
         (t, newId) => {
           const out = addTheme(t, d.parentId, d.name, newId);
