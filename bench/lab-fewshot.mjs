@@ -9,8 +9,8 @@
 import { readFileSync, readdirSync, existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse } from 'csv-parse/sync';
-import { openStudy } from '../dist/study/db.js';
-import { modelInputs } from '../dist/study/model.js';
+import { openStudy } from '../dist/study/study.js';
+import { modelInputs } from '../dist/jobs/model-inputs.js';
 import { fitFewshot } from '../dist/suggest/fewshot.js';
 import { ThemeSuggester } from '../dist/suggest/index.js';
 
@@ -79,7 +79,7 @@ function load(run) {
   }
   const coded = new Map();
   for (const p of passages.values()) if (p.split === 'train') for (const th of p.themes) coded.set(th, (coded.get(th) ?? 0) + 1);
-  const db = openStudy(join(work, 'study'), { readonly: true });
+  const { db } = openStudy(join(work, 'study'), { readonly: true });
   const inputs = modelInputs(db);
   db.close();
   return { kind, seed, passages, coded, inputs };

@@ -102,8 +102,8 @@ function paragraphData(all, seed) {
 /** The study bench:quality builds, made once by the CLI in bench/out/lab-study. */
 async function cliStudy() {
   const { main } = await import('../dist/cli/main.js');
-  const { openStudy } = await import('../dist/study/db.js');
-  const { modelInputs } = await import('../dist/study/model.js');
+  const { openStudy } = await import('../dist/study/study.js');
+  const { modelInputs } = await import('../dist/jobs/model-inputs.js');
   const dir = join(OUT, 'lab-study');
   if (!existsSync(join(dir, 'study.db'))) {
     const run = async (...args) => {
@@ -121,7 +121,7 @@ async function cliStudy() {
     await run('template', 'set', '--study', dir, join(OUT, 'lab-template.txt'));
     await run('add', '--study', dir, ...files);
   }
-  const db = openStudy(dir);
+  const { db } = openStudy(dir);
   const inputs = modelInputs(db);
   const words = new Map(db.prepare('SELECT id, text FROM passages').all().map((r) => [r.id, r.text]));
   db.close();

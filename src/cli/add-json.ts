@@ -1,5 +1,5 @@
 /** The JSON of `trellis add` (docs/schema/add.schema.json): the import report, keys in snake_case. */
-import type { ImportReport } from '../study/import.js';
+import type { ImportReport } from '../jobs/import.js';
 
 export function addJson(report: ImportReport, speakersLikeNames: string[]) {
   return {

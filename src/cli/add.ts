@@ -4,7 +4,7 @@ import { DEFAULT_MAX_MB } from '../ingest/limits.js';
 import { readTranscriptFile } from '../ingest/read.js';
 import { warmUp } from '../text/pool.js';
 import { studyCoder } from '../study/db.js';
-import { importTranscripts, type ImportItem } from '../study/import.js';
+import { importTranscripts, type ImportItem } from '../jobs/import.js';
 import { coderName, collect, positiveInt, studyCommand, UNNAMED, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table, warn } from './output.js';
 import { looksLikeName } from '../report/pseudonyms.js';
@@ -68,7 +68,7 @@ Examples:
       readBar.stop();
       const total = items.reduce((n, it) => n + it.transcripts.length, 0);
       const bar = progressBar(total, 'importing');
-      const { report, aliased } = await withStudy(opts, async (db) => ({
+      const { report, aliased } = await withStudy(opts, async ({ db }) => ({
         report: await importTranscripts(db, items, {
           replace: opts.replace,
           interviewers: opts.interviewer,

@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { UserError } from '../errors.js';
-import { listAliases, namesAndAliases, removeAlias, setAlias, type AliasKind } from '../study/aliases.js';
+import { namesAndAliases } from '../jobs/aliases.js';
+import { listAliases, removeAlias, setAlias, type AliasKind } from '../study/aliases.js';
 import { studyCommand, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table } from './output.js';
 
@@ -40,7 +41,7 @@ Examples:
   trellis alias remove Bronwen`,
     )
     .action(async (args: string[], opts: Opts) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         if (args.length === 1 && args[0] === 'list') {
           if (opts.all) {
             const rows = namesAndAliases(db);

@@ -1,5 +1,6 @@
 import { Command, InvalidArgumentError } from 'commander';
-import { openStudy, rememberCoder, studyCoder, type DB } from '../study/db.js';
+import { rememberCoder, studyCoder, type DB } from '../study/db.js';
+import { openStudy, type Study } from '../study/study.js';
 import { UserError } from '../errors.js';
 import { checkOutputPath, writeOutputFile } from '../study/files.js';
 
@@ -37,16 +38,16 @@ export function writeOut(opts: OutputOpts, data: string): void {
   writeOutputFile(opts.out, data, opts.study, opts.force);
 }
 
-/** Opens the study, runs `work`, and always closes the database. */
-export async function withStudy<T>(opts: StudyOpts, work: (db: DB) => T | Promise<T>): Promise<T> {
-  const db = openStudy(opts.study);
+/** Opens the study, runs `work` on it, and always closes it. */
+export async function withStudy<T>(opts: StudyOpts, work: (study: Study) => T | Promise<T>): Promise<T> {
+  const study = openStudy(opts.study);
   try {
-    const out = await work(db);
-    if (named) rememberCoder(db, named); // a failed command leaves the study exactly as it was
+    const out = await work(study);
+    if (named) rememberCoder(study.db, named); // a failed command leaves the study exactly as it was
     return out;
   } finally {
     named = null; // one command's name, never the next one's (tests run many commands in one process)
-    db.close();
+    study.close();
   }
 }
 

@@ -41,7 +41,7 @@ Examples:
   trellis undo --coder alex`,
     )
     .action(async (id: string | undefined, action: string | undefined, opts: DecideOpts) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const coder = coderOf(opts, db);
         if (opts.allAbove !== undefined) {
           if (id || action) throw new UserError('--all-above decides many suggestions: give no suggestion id');
@@ -75,7 +75,7 @@ Examples:
   trellis nocode t05-ward9-fy2-p014 t05-ward9-fy2-p015 --note "arranging the next interview" --coder alex`,
     )
     .action(async (ids: string[], opts: StudyOpts & { coder?: string; note?: string }) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const coder = coderOf(opts, db);
         const done = markNothingToCode(db, ids, coder, opts.note);
         if (opts.json) return printJson({ decisions: done });
@@ -90,7 +90,7 @@ Examples:
     .option('--note <text>', 'why')
     .addHelpText('after', '\nExamples:\n  trellis undo --coder alex\n  trellis undo 57 --coder alex --note "wrong passage"')
     .action(async (id: string | undefined, opts: StudyOpts & { coder?: string; note?: string }) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const coder = coderOf(opts, db);
         const n = id === undefined ? undefined : Number(id);
         if (n !== undefined && (!Number.isInteger(n) || n < 1)) throw new UserError(`"${id}" is not a decision id`);

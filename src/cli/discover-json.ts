@@ -4,7 +4,8 @@
  * passage_ids; unclaimed) come first and keep their meaning.
  */
 import type { TranscriptTriage } from '../discover/triage.js';
-import type { DiscoveryRun, Promotion, StoredCluster } from '../study/discovery.js';
+import type { DiscoveryRun, Promotion } from '../jobs/discovery.js';
+import type { StoredCluster } from '../study/clusters.js';
 
 export function discoverJson(run: DiscoveryRun) {
   const pool = run.pool.pool;

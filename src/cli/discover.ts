@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
-import { dismissCluster, promoteCluster, runDiscovery, triageStudy } from '../study/discovery.js';
+import { promoteCluster, runDiscovery, triageStudy } from '../jobs/discovery.js';
+import { dismissCluster } from '../study/clusters.js';
 import { passageCount } from '../study/passages.js';
 import { currentTemplate, themePaths } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
@@ -38,7 +38,7 @@ Examples:
   trellis discover --k 4 --json`,
     )
     .action(async (opts: StudyOpts & { k?: number }) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         // Shares of a 4,000-answer survey's discover with a stored model: scoring 0.45, clustering 0.5.
         const run = withStepBar('discovering', { fit: [0, 0.45], score: [0.45, 0.5], cluster: [0.5, 1] }, !opts.json && passageCount(db) >= 2000, (step) => runDiscovery(db, { k: opts.k }, step));
         const pool = run.pool.pool;
@@ -91,9 +91,9 @@ Examples:
       if (opts.into !== undefined && (opts.name !== undefined || opts.parent !== undefined)) throw new UserError('give either --name (a new theme) or --into (an existing theme), not both');
       if (opts.into === undefined && opts.name === undefined) throw new UserError('say where the cluster goes: --name NAME for a new theme, or --into PATH for an existing one');
       const target = opts.into !== undefined ? { into: opts.into } : { name: opts.name!, parentPath: opts.parent };
-      await withStudy(opts, (db) => {
-        const coder = coderOf(opts, db);
-        const p = promoteCluster(db, resolve(opts.study), cluster, target, coder, opts.note);
+      await withStudy(opts, (study) => {
+        const coder = coderOf(opts, study.db);
+        const p = promoteCluster(study, cluster, target, coder, opts.note);
         if (opts.json) return printJson(promoteJson(p));
         say(
           p.into_existing
@@ -109,7 +109,7 @@ Examples:
     .option('--coder <name>', 'who decides (default: $TRELLIS_CODER)', coderName)
     .addHelpText('after', '\nExample:\n  trellis dismiss c5d0e4 --note "car park and canteen small talk" --coder priya')
     .action(async (cluster: string, opts: StudyOpts & { note: string; coder?: string }) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const coder = coderOf(opts, db);
         const d = dismissCluster(db, cluster, coder, opts.note);
         if (opts.json) return printJson(d);
@@ -132,7 +132,7 @@ Examples:
   trellis triage --json`,
     )
     .action(async (opts: StudyOpts & { transcript?: string[] }) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         requireTranscripts(db, opts.transcript);
         const { rows, clusters } = withStepBar('scoring', { fit: [0, 0.85], score: [0.85, 1], cluster: [1, 1] }, !opts.json && passageCount(db) >= 2000, (step) => triageStudy(db, opts.transcript, step));
         if (opts.json) return printJson(triageJson(rows, clusters));

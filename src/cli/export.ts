@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { UserError } from '../errors.js';
 import { DATA_CAUTION } from '../report/cautions.js';
 import { writeCsv } from '../sheet/csv.js';
-import { studyPseudonymiser } from '../study/aliases.js';
+import { studyPseudonymiser } from '../jobs/aliases.js';
 import { decisionLog, logColumns } from '../study/decisions.js';
 import { CODING_COLUMNS, codingsForExport, themeMatrix } from '../study/export.js';
 import { currentRevision } from '../study/template.js';
@@ -42,7 +42,7 @@ Examples:
       if (!WHAT.includes(what)) throw new UserError(`export what? one of ${WHAT.join(', ')} (got "${what}")`);
       if (!['csv', 'json'].includes(opts.format)) throw new UserError(`--format is csv or json (got "${opts.format}")`);
       checkOut(opts);
-      const text = await withStudy(opts, (db) => {
+      const text = await withStudy(opts, ({ db }) => {
         const p = opts.pseudonymise ? studyPseudonymiser(db) : null;
         const caution = p ? `${DATA_CAUTION} ${p.note}` : DATA_CAUTION;
         const head = (rows: object) => ({ caution, ...(p ? { pseudonymised: true } : {}), ...rows });

@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { resolve } from 'node:path';
-import { createStudy, DEFAULT_SETTINGS } from '../study/db.js';
+import { DEFAULT_SETTINGS } from '../study/db.js';
+import { createStudy } from '../study/study.js';
 import { coderName, positiveInt } from './common.js';
 import { printJson, say } from './output.js';
 

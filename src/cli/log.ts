@@ -17,7 +17,7 @@ export function registerLog(program: Command): void {
       if (!['text', 'csv', 'json'].includes(opts.format)) throw new UserError(`--format is text, csv or json (got "${opts.format}")`);
       const out = opts.out ? { ...opts, out: opts.out } : null;
       if (out) checkOut(out);
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const t = currentTemplate(db);
         const rows = decisionLog(db);
         const format = opts.json ? 'json' : opts.format;

@@ -60,7 +60,7 @@ Examples:
     .option('--author <name>', "who writes it (default: $TRELLIS_CODER, else the study's coder)")
     .action(async (text: string, opts: StudyOpts & TargetOpts & { author?: string }) => {
       const target = targetOf(opts) ?? { kind: 'study' };
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const m = addMemo(db, target, text, coderOf({ coder: opts.author }, db));
         if (opts.json) return printJson(m);
         say(`Added ${line(m)}.`);
@@ -69,7 +69,7 @@ Examples:
 
   withTargets(studyCommand(memo, 'list', 'list memos, oldest first (all, or those on one target)')).action(async (opts: StudyOpts & TargetOpts) => {
     const target = targetOf(opts);
-    await withStudy(opts, (db) => {
+    await withStudy(opts, ({ db }) => {
       const memos = listMemos(db, target);
       if (opts.json) return printJson({ memos });
       if (!memos.length) return say(target ? 'No memos on that yet.' : 'No memos yet: trellis memo add "TEXT" [--theme PATH | --transcript NAME | --passage ID].');
@@ -86,7 +86,7 @@ Examples:
     .action(async (id: string, opts: StudyOpts) => {
       const n = Number(id);
       if (!Number.isInteger(n) || n < 1) throw new UserError(`"${id}" is not a memo number (see "trellis memo list")`);
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const m = getMemo(db, n);
         if (opts.json) return printJson(m);
         say(line(m));

@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { findByPath } from '../template/paths.js';
-import { fitModel } from '../study/suggestions.js';
-import { writtenForms } from '../study/passages.js';
+import { fitModel } from '../jobs/suggest.js';
+import { writtenForms } from '../jobs/written-forms.js';
 import { currentTemplate } from '../study/template.js';
 import { probability, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, table } from './output.js';
@@ -16,7 +16,7 @@ export function registerProfile(program: Command): void {
     .option('--terms <n>', 'how many top terms to show', (v) => Number(v), 10)
     .addHelpText('after', '\nExamples:\n  trellis profile\n  trellis profile "Workload > Staffing levels" --terms 20')
     .action(async (theme: string | undefined, opts: StudyOpts & { targetPrecision: number; terms: number }) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const only = theme ? findByPath(currentTemplate(db), theme).id : null;
         const { model, keep } = fitModel(db, { targetPrecision: opts.targetPrecision });
         const reports = model.themeReports().filter((r) => !only || r.themeId === only).map((r) => ({ ...r, topTerms: r.topTerms.slice(0, opts.terms) }));

@@ -3,7 +3,7 @@ import { UserError } from '../errors.js';
 import { QUOTE_RULES } from '../report/quotes.js';
 import { getPassage } from '../study/passages.js';
 import { chooseQuote, clearQuoteChoice, listQuoteChoices } from '../study/quotes.js';
-import { chosenQuotes } from '../study/report-data.js';
+import { chosenQuotes } from '../jobs/report-data.js';
 import { currentTemplate } from '../study/template.js';
 import { findByPath, walk } from '../template/paths.js';
 import { coderName, coderOf, studyCommand, withStudy, type StudyOpts } from './common.js';
@@ -51,7 +51,7 @@ Examples:
       .option('--theme <path>', 'the theme (path or unique name)')
       .option('--coder <name>', "who chooses (default: $TRELLIS_CODER, else the study's coder)", coderName)
       .action(async (passage: string, opts: ThemeOpts) => {
-        await withStudy(opts, (db) => {
+        await withStudy(opts, ({ db }) => {
           const theme = themeOf(db, opts.theme);
           const c = chooseQuote(db, theme.id, passage, choice, coderOf(opts, db));
           if (opts.json) return printJson({ theme: theme.path, theme_id: c.themeId, passage_id: c.passageId, choice: c.choice, at: c.at, coder: c.coder });
@@ -64,7 +64,7 @@ Examples:
     .argument('<passage>', 'the passage id')
     .option('--theme <path>', 'the theme (path or unique name)')
     .action(async (passage: string, opts: ThemeOpts) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const theme = themeOf(db, opts.theme);
         clearQuoteChoice(db, theme.id, passage, theme.path);
         if (opts.json) return printJson({ theme: theme.path, passage_id: passage, cleared: true });
@@ -80,7 +80,7 @@ Examples:
       return n;
     }, 3)
     .action(async (opts: ThemeOpts & { perTheme: number }) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const list = quoteList(db, opts.theme === undefined ? null : themeOf(db, opts.theme).id, opts.perTheme);
         if (opts.json) printJson(quoteListJson(list));
         else printQuoteList(list);

@@ -4,7 +4,7 @@ import { UserError } from '../errors.js';
 import { reportCautions } from '../report/cautions.js';
 import { renderCodebook, renderReport, type CodebookFormat } from '../report/index.js';
 import { passageCount } from '../study/passages.js';
-import { reportData } from '../study/report-data.js';
+import { reportData } from '../jobs/report-data.js';
 import { checkOut, forceOption, studyCommand, withStudy, writeOut, type OutputOpts } from './common.js';
 import { plural, printJson, say } from './output.js';
 import { workingNote } from './progress.js';
@@ -31,9 +31,10 @@ Examples:
     )
     .action(async (opts: OutputOpts & { title?: string; pseudonymise?: boolean }) => {
       checkOut(opts);
-      const html = await withStudy(opts, (db) => {
-        workingNote(`Gathering the report's figures over ${plural(passageCount(db), 'passage')}...`, { json: opts.json, passages: passageCount(db) });
-        return renderReport(reportData(db, { studyDir: opts.study, title: opts.title, quotes: 3, cautions: reportCautions, pseudonymise: opts.pseudonymise === true }));
+      const html = await withStudy(opts, (study) => {
+        const passages = passageCount(study.db);
+        workingNote(`Gathering the report's figures over ${plural(passages, 'passage')}...`, { json: opts.json, passages });
+        return renderReport(reportData(study, { title: opts.title, quotes: 3, cautions: reportCautions, pseudonymise: opts.pseudonymise === true }));
       });
       writeOut(opts, html);
       if (opts.json) printJson({ out: resolve(opts.out), bytes: Buffer.byteLength(html), pseudonymised: opts.pseudonymise === true });
@@ -60,7 +61,7 @@ Examples:
     .action(async (opts: OutputOpts & { format: string; pseudonymise?: boolean }) => {
       if (!['md', 'html', 'csv'].includes(opts.format)) throw new UserError(`--format is md, html or csv (got "${opts.format}")`);
       checkOut(opts);
-      const text = await withStudy(opts, (db) => renderCodebook(reportData(db, { studyDir: opts.study, quotes: 2, cautions: reportCautions, pseudonymise: opts.pseudonymise !== false }), opts.format as CodebookFormat));
+      const text = await withStudy(opts, (study) => renderCodebook(reportData(study, { quotes: 2, cautions: reportCautions, pseudonymise: opts.pseudonymise !== false }), opts.format as CodebookFormat));
       writeOut(opts, text);
       if (opts.json) printJson({ out: resolve(opts.out), format: opts.format, pseudonymised: opts.pseudonymise !== false });
       else say(`Wrote the codebook to ${resolve(opts.out)}.`);

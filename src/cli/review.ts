@@ -1,12 +1,11 @@
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { ReviewSession, type Outcome, type ReviewAction } from '../review/session.js';
 import type { DecisionRow } from '../study/decisions.js';
-import { openStudy, type DB } from '../study/db.js';
+import { openStudy, type Study } from '../study/study.js';
 import { getPassage } from '../study/passages.js';
 import { ORDERS, type ReviewCandidate, type ReviewOrder } from '../review/order.js';
-import { sqliteReviewStore } from '../study/review-store.js';
+import { sqliteReviewStore } from '../jobs/review-store.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { coderName, coderOf, collect, studyCommand, type StudyOpts } from './common.js';
 import { useColour } from './marks.js';
@@ -82,22 +81,21 @@ In scripts (no terminal), decide one suggestion at a time instead:
       if (!process.stdin.isTTY || !process.stdout.isTTY) throw new UserError(NEEDS_TERMINAL);
       if (opts.json) throw new UserError('review is interactive and has no --json output; for scripts use "trellis suggest --json" and "trellis decide"');
       if (!(ORDERS as readonly string[]).includes(opts.order)) throw new UserError(`--order is one of ${ORDERS.join(', ')} (got "${opts.order}")`);
-      const db = openStudy(opts.study);
+      const study = openStudy(opts.study);
       try {
-        const coder = coderOf(opts, db);
-        requireTranscripts(db, opts.transcript);
-        const studyDir = resolve(opts.study);
-        const review = ReviewSession.start(sqliteReviewStore(db, studyDir), coder, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder }, () =>
+        const coder = coderOf(opts, study.db);
+        requireTranscripts(study.db, opts.transcript);
+        const review = ReviewSession.start(sqliteReviewStore(study), coder, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder }, () =>
           process.stdout.write('Fitting theme profiles and scoring passages...\n'),
         );
-        const session = new Session(db, studyDir, review, {
+        const session = new Session(study, review, {
           colour: opts.colour && useColour(),
           dumb: process.env.TERM === 'dumb',
         });
         const summary = await session.run();
         process.stdout.write(summary + '\n');
       } finally {
-        db.close();
+        study.close();
       }
     });
 }
@@ -115,8 +113,7 @@ class Session {
   private readonly snippets: Snippets;
 
   constructor(
-    db: DB,
-    private readonly studyDir: string,
+    private readonly study: Study,
     private readonly review: ReviewSession,
     private readonly look: { colour: boolean; dumb: boolean },
   ) {
@@ -124,7 +121,7 @@ class Session {
     this.snippets = {
       get: (id) => {
         if (!cache.has(id)) {
-          const p = getPassage(db, id);
+          const p = getPassage(study.db, id);
           cache.set(id, p ? { transcript: plain(p.transcript), text: plain(p.text) } : undefined);
         }
         return cache.get(id);
@@ -230,7 +227,7 @@ class Session {
     const pct = t.decided ? ` (${Math.round((100 * t.accepted) / t.decided)}%)` : '';
     return (
       `Review ended. This session: ${parts.join(', ')}.\n` +
-      `Suggestions accepted: ${t.accepted} of ${t.decided} decided${pct} (a re-code is decided, not accepted). Every decision is in the log: trellis log --study ${this.studyDir}`
+      `Suggestions accepted: ${t.accepted} of ${t.decided} decided${pct} (a re-code is decided, not accepted). Every decision is in the log: trellis log --study ${this.study.dir}`
     );
   }
 

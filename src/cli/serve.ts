@@ -1,6 +1,5 @@
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
-import { openStudy } from '../study/db.js';
+import { openStudy } from '../study/study.js';
 import { startServer } from '../web/server.js';
 import { coderName, coderOf, studyCommand } from './common.js';
 import { say } from './output.js';
@@ -38,10 +37,10 @@ Examples:
     )
     .action(async (opts: { study: string; port: number; coder?: string; json?: boolean }) => {
       if (opts.json) throw new UserError('serve runs a page until Ctrl-C and has no --json output; for scripts use "trellis suggest --json" and "trellis decide"');
-      const db = openStudy(opts.study);
+      const study = openStudy(opts.study);
       try {
-        const coder = coderOf(opts, db);
-        const s = await startServer({ db, studyDir: resolve(opts.study), coder, port: opts.port });
+        const coder = coderOf(opts, study.db);
+        const s = await startServer({ study, coder, port: opts.port });
         say(`Open this address in your browser (it holds this session's key; do not share it):\n  ${s.url}\nServing on 127.0.0.1 only, as ${coder}. Stop with Ctrl-C.`);
         await new Promise<void>((done) => {
           const stop = () => {
@@ -54,7 +53,7 @@ Examples:
         });
         say('Stopped. Every decision is in the log: trellis log');
       } finally {
-        db.close();
+        study.close();
       }
     });
 }

@@ -1,10 +1,11 @@
-import { studyPseudonymiser } from '../study/aliases.js';
+import { studyPseudonymiser } from '../jobs/aliases.js';
+import { importSheet } from '../jobs/sheet-import.js';
 import type { Command } from 'commander';
 import { decodeText } from '../ingest/decode.js';
 import { readInputFile } from '../ingest/limits.js';
 import { DATA_CAUTION } from '../report/cautions.js';
 import { parseSheet, writeSheet } from '../sheet/sheet.js';
-import { importSheet, sheetRows } from '../study/sheet.js';
+import { sheetRows } from '../study/sheet.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { checkOut, collect, forceOption, withStudy, writeOut, type OutputOpts, type StudyOpts, coderName } from './common.js';
 import { plural, printJson, say, warn } from './output.js';
@@ -36,7 +37,7 @@ is unique in the template. Import is all or nothing: any unknown theme or passag
     )
     .action(async (opts: OutputOpts & { transcript?: string[]; coder?: string; pseudonymise?: boolean }) => {
       checkOut(opts);
-      const rows = await withStudy(opts, (db) => {
+      const rows = await withStudy(opts, ({ db }) => {
         requireTranscripts(db, opts.transcript);
         const rows = sheetRows(db, { transcripts: opts.transcript, coder: opts.coder });
         if (!opts.pseudonymise) return rows;
@@ -71,7 +72,7 @@ Example:
       const decoded = decodeText(bytes, file);
       for (const w of decoded.warnings) warn(w);
       const rows = parseSheet(decoded.text, file);
-      const report = await withStudy(opts, (db) => importSheet(db, rows, file, opts.coder));
+      const report = await withStudy(opts, ({ db }) => importSheet(db, rows, file, opts.coder));
       if (opts.json) printJson(report);
       else
         say(

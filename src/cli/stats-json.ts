@@ -4,7 +4,7 @@
  */
 import type { AcceptanceCounts, AcceptanceReport, GroupAcceptance } from '../measure/acceptance.js';
 import type { AgreementFigures } from '../measure/agreement.js';
-import type { StudyAgreement, StudyStats } from '../study/measures.js';
+import type { StudyAgreement, StudyStats } from '../jobs/measures.js';
 
 const counts = (c: AcceptanceCounts) => ({ decided: c.decided, accepted: c.accepted, rejected: c.rejected, recoded: c.recoded, deferred: c.deferred, rate: c.rate });
 const group = (g: GroupAcceptance) => ({ key: g.key, ...counts(g) });

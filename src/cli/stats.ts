@@ -1,12 +1,13 @@
 import type { Command } from 'commander';
 import { UserError } from '../errors.js';
 import type { GroupAcceptance } from '../measure/acceptance.js';
-import { agreement, studyStats, TOOL_CODER } from '../study/measures.js';
+import { agreement, studyStats, TOOL_CODER } from '../jobs/measures.js';
 import { currentTemplate, themePaths } from '../study/template.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import { collect, studyCommand, withStudy, type StudyOpts } from './common.js';
 import { plural, printJson, say, table } from './output.js';
 import { getPassage } from '../study/passages.js';
+import { knownCoders } from '../study/codings.js';
 import { agreementJson, statsJson } from './stats-json.js';
 
 const pct = (x: number | null) => (x === null ? '-' : `${(100 * x).toFixed(0)}%`);
@@ -46,7 +47,7 @@ Examples:
   trellis stats --json > stats.json`,
     )
     .action(async (opts: StudyOpts & { excludeBulk?: boolean }) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const s = studyStats(db, { excludeBulk: opts.excludeBulk });
         if (opts.json) return printJson(statsJson(s));
         const name = themeNames(db);
@@ -120,7 +121,7 @@ Examples:
       if (opts.coders.length < 2) throw new UserError('agreement needs two or more coders: --coders A,B');
       const twice = opts.coders.find((c, i) => opts.coders.indexOf(c) !== i);
       if (twice) throw new UserError(`coder "${twice}" is named twice in --coders`);
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         requireTranscripts(db, opts.transcript);
         const known = knownCoders(db);
         const unknown = opts.coders.filter((c) => c !== TOOL_CODER && !known.includes(c));
@@ -190,11 +191,6 @@ Examples:
         }
       });
     });
-}
-
-/** Everyone who made a coding or a decision in the study. */
-function knownCoders(db: Parameters<typeof currentTemplate>[0]): string[] {
-  return (db.prepare('SELECT coder FROM codings UNION SELECT coder FROM decisions ORDER BY 1').all() as { coder: string }[]).map((r) => r.coder);
 }
 
 function clipText(text: string, n: number): string {

@@ -1,5 +1,5 @@
 /** The JSON of `trellis status` (docs/schema/status.schema.json), keys in snake_case. */
-import type { StudyStatus } from '../study/status.js';
+import type { StudyStatus } from '../jobs/status.js';
 
 type ThemeName = { path: string; number: string };
 

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { walk } from '../template/paths.js';
-import { studyStatus, type ThemeCount } from '../study/status.js';
+import { studyStatus, type ThemeCount } from '../jobs/status.js';
 import { currentTemplate } from '../study/template.js';
 import { studyCommand, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, table } from './output.js';
@@ -24,7 +24,7 @@ export function registerStatus(program: Command): void {
   studyCommand(program, 'status', 'where the study stands: transcripts, passages, coding progress, template')
     .addHelpText('after', '\nExamples:\n  trellis status\n  trellis status --study handover --json')
     .action(async (opts: StudyOpts) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         const s = studyStatus(db);
         const t = currentTemplate(db);
         const names = new Map([...walk(t)].map((e) => [e.node.id, { path: e.path, number: e.number, depth: e.depth }]));

@@ -1,5 +1,5 @@
 /** The JSON of one passage's suggestions (the scripting contract of `trellis suggest --json`). */
-import type { SuggestRun } from '../study/suggestions.js';
+import type { SuggestRun } from '../jobs/suggest.js';
 import { exemplarCited, exemplarTail, reasonJson, type Reason, type Snippets } from './reasons.js';
 
 type Passage = SuggestRun['passages'][number];

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { getPassage, passageCount, passageTokens } from '../study/passages.js';
-import { suggest } from '../study/suggestions.js';
+import { suggest } from '../jobs/suggest.js';
 import { requireTranscripts } from '../study/transcripts.js';
 import type { DB } from '../study/db.js';
 import { clock } from '../sheet/sheet.js';
@@ -63,7 +63,7 @@ Examples:
   trellis suggest --top 3 --json > suggestions.json`,
     )
     .action(async (opts: SuggestOpts) => {
-      await withStudy(opts, (db) => {
+      await withStudy(opts, ({ db }) => {
         requireTranscripts(db, opts.transcript);
         if (!opts.json) process.stderr.write('Fitting theme profiles and scoring passages...\n');
         // One bar over fitting, scoring and storing, by their shares of a 10,000-passage run

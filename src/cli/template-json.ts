@@ -1,6 +1,6 @@
 /** The JSON of `trellis template show` (docs/schema/template-show.schema.json). */
 import type { IntegrativeCoverage } from '../measure/integrative.js';
-import type { ThemeCount } from '../study/status.js';
+import type { ThemeCount } from '../jobs/status.js';
 import { walk } from '../template/paths.js';
 import type { Template, ThemeNode } from '../template/types.js';
 

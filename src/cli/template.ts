@@ -1,5 +1,4 @@
 import type { Command } from 'commander';
-import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
 import { decodeText } from '../ingest/decode.js';
 import { readInputFile } from '../ingest/limits.js';
@@ -9,8 +8,8 @@ import { describeChange } from '../template/describe.js';
 import type { Revised, Template } from '../template/types.js';
 import { currentCodings } from '../study/codings.js';
 import { integrativeCoverage } from '../measure/integrative.js';
-import { themeCounts } from '../study/status.js';
-import { reviseTemplate, setTemplate, type RevisionResult } from '../study/revise.js';
+import { themeCounts } from '../jobs/status.js';
+import { reviseTemplate, setTemplate, type RevisionResult } from '../jobs/revise.js';
 import { currentRevision, revisionHistory } from '../study/template.js';
 import { coderName, coderOf, withStudy, type StudyOpts } from './common.js';
 import { printJson, say, warn } from './output.js';
@@ -90,7 +89,7 @@ Examples:
       const decoded = decodeText(bytes, file);
       for (const w of decoded.warnings) warn(w); // as add does: a misread encoding must not pass unseen
       const text = decoded.text;
-      const r = await withStudy(opts, (db) => setTemplate(db, resolve(opts.study), text, file, coderOf(opts, db, false), opts.reason, {
+      const r = await withStudy(opts, (study) => setTemplate(study, text, file, coderOf(opts, study.db, false), opts.reason, {
           retire: opts.retire,
           renamed: (opts.renamed ?? []).map((pair) => {
             const parts = splitPathList(pair);
@@ -102,7 +101,7 @@ Examples:
     });
 
   withCommon(tpl.command('show').description('the numbered template (1, 1.1, 1.1.1) with passage counts')).action(async (opts: Opts) => {
-    await withStudy(opts, (db) => {
+    await withStudy(opts, ({ db }) => {
       const rev = currentRevision(db);
       if (!rev) {
         if (opts.json) return printJson(templateShowJson(null, null, new Map(), []));
@@ -131,7 +130,7 @@ Examples:
   });
 
   withCommon(tpl.command('history').description('every template revision: when, who, what changed and why')).action(async (opts: Opts) => {
-    await withStudy(opts, (db) => {
+    await withStudy(opts, ({ db }) => {
       const revs = revisionHistory(db);
       if (opts.json) return printJson({ revisions: revs.map(({ template: _t, outline: _o, ...r }) => r) });
       if (!revs.length) return say('No template revisions yet.');
@@ -147,7 +146,7 @@ Examples:
     if (['move', 'merge', 'split', 'retire'].includes(name) && !opts.reason?.trim()) {
       throw new UserError(`template ${name} needs --reason "why": it is kept in the revision history (the audit trail)`);
     }
-    return withStudy(opts, (db) => report(reviseTemplate(db, resolve(opts.study), name, run, coderOf(opts, db, false), opts.reason), opts.json));
+    return withStudy(opts, (study) => report(reviseTemplate(study, name, run, coderOf(opts, study.db, false), opts.reason), opts.json));
   };
 
   revising(tpl.command('rename <path> <new-name>').description('rename a theme (its id, codings and history stay)')).action(

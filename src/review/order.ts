@@ -1,5 +1,5 @@
 /**
- * The review queue's items and their order: pure, above storage. src/study/review.ts reads the
+ * The review queue's items and their order: pure, above storage. src/jobs/review.ts gathers the
  * items from the study; src/review/session.ts and the front ends show them in this order.
  */
 import type { Reason } from '../suggest/types.js';

@@ -1,6 +1,6 @@
 /**
- * What a review session needs from the study, as an interface: src/study/review-store.ts
- * implements it over SQLite, so src/review itself never touches the database.
+ * What a review session needs from the study, as an interface: src/jobs/review-store.ts
+ * implements it over the study's rows (src/study/review.ts), so src/review itself never touches the database.
  * Every write method runs in its own write transaction and re-checks there that the passage is
  * still open to this session; none keeps a transaction open after it returns.
  */

@@ -1,7 +1,7 @@
 /** The alias table (schema 9): a pseudonym for a speaker label or a transcript name. */
 
 import { UserError } from '../errors.js';
-import { looksLikeName as looksLike, pseudonymiser, type Alias, type Pseudonymiser } from '../report/pseudonyms.js';
+import type { Alias } from '../report/pseudonyms.js';
 import type { DB } from './db.js';
 
 export interface StoredAlias extends Alias {
@@ -14,7 +14,8 @@ export function listAliases(db: DB): StoredAlias[] {
   return db.prepare('SELECT kind, name, alias, at FROM aliases ORDER BY kind, name').all() as StoredAlias[];
 }
 
-function speakers(db: DB): string[] {
+/** Every speaker label of the study. */
+export function speakers(db: DB): string[] {
   // In order of first appearance: generated codes follow the study's order.
   return (
     db
@@ -26,7 +27,8 @@ function speakers(db: DB): string[] {
   ).map((r) => r.s);
 }
 
-function transcripts(db: DB): string[] {
+/** Every transcript name, in study order. */
+export function transcripts(db: DB): string[] {
   return (db.prepare('SELECT name FROM transcripts ORDER BY id').all() as { name: string }[]).map((r) => r.name);
 }
 
@@ -72,19 +74,4 @@ export function removeAlias(db: DB, name: string, kind?: AliasKind): Alias {
     db.prepare('DELETE FROM aliases WHERE kind = ? AND name = ?').run(rows[0]!.kind, name);
     return rows[0]!;
   })();
-}
-
-/** Every speaker label and transcript name, with its alias if it has one (alias list --all). */
-export function namesAndAliases(db: DB): { kind: AliasKind; name: string; alias: string | null; shown_as: string | null; looks_like_name: boolean }[] {
-  const al = new Map(listAliases(db).map((a) => [`${a.kind}\u0000${a.name}`, a.alias]));
-  const p = studyPseudonymiser(db);
-  return [
-    ...speakers(db).map((s) => ({ kind: 'speaker' as const, name: s, alias: al.get(`speaker\u0000${s}`) ?? null, shown: p.speaker(s) })),
-    ...transcripts(db).map((t) => ({ kind: 'transcript' as const, name: t, alias: al.get(`transcript\u0000${t}`) ?? null, shown: p.transcript(t) })),
-  ].map(({ shown, ...r }) => ({ ...r, shown_as: shown, looks_like_name: r.kind === 'speaker' && looksLike(r.name) }));
-}
-
-/** The study's pseudonymiser: its aliases, and codes for the names without one. */
-export function studyPseudonymiser(db: DB): Pseudonymiser {
-  return pseudonymiser(listAliases(db), transcripts(db), speakers(db));
 }

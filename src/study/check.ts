@@ -1,7 +1,8 @@
 import { existsSync, readFileSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { resolve } from 'node:path';
 import { UserError } from '../errors.js';
-import { DB_FILE, openStudy, TEMPLATE_FILE } from './db.js';
+import { DB_FILE, TEMPLATE_FILE } from './db.js';
+import { openStudy, type Study } from './study.js';
 import { currentRevision } from './template.js';
 
 export interface CheckReport {
@@ -21,13 +22,14 @@ export interface CheckReport {
 export function checkStudy(dir: string): CheckReport {
   const study = resolve(dir);
   const report: CheckReport = { study, ok: true, problems: [], notes: [] };
-  let db;
+  let opened: Study;
   try {
-    db = openStudy(dir, { readonly: true });
+    opened = openStudy(dir, { readonly: true });
   } catch (e) {
     if (!(e instanceof UserError)) throw e;
     return { ...report, ok: false, problems: [e.message] };
   }
+  const { db } = opened;
   try {
     const integrity = (db.pragma('integrity_check') as { integrity_check: string }[]).map((r) => r.integrity_check);
     if (!(integrity.length === 1 && integrity[0] === 'ok')) report.problems.push(...integrity.map((m) => `integrity: ${m}`));
@@ -35,7 +37,7 @@ export function checkStudy(dir: string): CheckReport {
     for (const o of orphans.slice(0, 20)) report.problems.push(`a row of ${o.table} (rowid ${o.rowid}) points to a missing row of ${o.parent}`);
     if (orphans.length > 20) report.problems.push(`... and ${orphans.length - 20} more rows pointing to missing rows`);
     const rev = report.problems.length ? null : currentRevision(db);
-    const file = join(study, TEMPLATE_FILE);
+    const file = opened.templateFile;
     if (rev && !existsSync(file)) report.notes.push(`${TEMPLATE_FILE} is missing: "trellis export template --out ${TEMPLATE_FILE}" writes revision ${rev.rev} again`);
     else if (rev && readFileSync(file, 'utf8') !== rev.outline) {
       report.notes.push(`${TEMPLATE_FILE} differs from the recorded revision ${rev.rev}: record it with "trellis template set ${TEMPLATE_FILE}", or leave it`);
@@ -45,7 +47,7 @@ export function checkStudy(dir: string): CheckReport {
     if (!code.startsWith('SQLITE_')) throw e;
     report.problems.push(`${DB_FILE} could not be read through (${(e as Error).message})`);
   } finally {
-    db.close();
+    opened.close();
   }
   report.ok = report.problems.length === 0;
   return report;

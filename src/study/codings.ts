@@ -61,3 +61,14 @@ export function codingAdder(db: DB) {
   return (passageId: string, themeId: string, coder: string, origin: CodingOrigin, rev: number): boolean =>
     ins.run(passageId, themeId, coder, origin, now, rev, passageId, themeId, coder).changes > 0;
 }
+
+/** Records that a coder has seen passages (they read them while coding, even if they coded nothing). */
+export function seenMarker(db: DB) {
+  const ins = db.prepare('INSERT OR IGNORE INTO seen (coder, passage_id) VALUES (?, ?)');
+  return (coder: string, passageId: string): void => void ins.run(coder, passageId);
+}
+
+/** Everyone who made a coding or a decision in the study. */
+export function knownCoders(db: DB): string[] {
+  return (db.prepare('SELECT coder FROM codings UNION SELECT coder FROM decisions ORDER BY 1').all() as { coder: string }[]).map((r) => r.coder);
+}

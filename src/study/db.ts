@@ -158,8 +158,8 @@ function openChecked(file: string): DB {
   }
 }
 
-/** Creates a study in DIR: study.db and a starter template.txt. Refuses to overwrite one. */
-export function createStudy(dir: string, settings: StudySettings = DEFAULT_SETTINGS, coder?: string): DB {
+/** Creates study.db and a starter template.txt in DIR (createStudy in study.ts). Refuses to overwrite one. */
+export function createDatabase(dir: string, settings: StudySettings = DEFAULT_SETTINGS, coder?: string): DB {
   const root = resolve(dir);
   const file = join(root, DB_FILE);
   if (existsSync(file)) throw new UserError(`a study already exists here (${file})`, file);
@@ -180,8 +180,8 @@ export function createStudy(dir: string, settings: StudySettings = DEFAULT_SETTI
   return db;
 }
 
-/** Opens the study in DIR, migrating an older schema forward. */
-export function openStudy(dir: string, opts: { readonly?: boolean } = {}): DB {
+/** Opens study.db in DIR (openStudy in study.ts), migrating an older schema forward. */
+export function openDatabase(dir: string, opts: { readonly?: boolean } = {}): DB {
   const root = resolve(dir);
   const file = join(root, DB_FILE);
   if (!existsSync(file)) {

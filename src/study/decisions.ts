@@ -1,7 +1,7 @@
 import { UserError } from '../errors.js';
 import { findByPath, pathOf } from '../template/paths.js';
 import type { DB } from './db.js';
-import { getSuggestion } from './suggestions.js';
+import { getSuggestion } from './suggestion-rows.js';
 import { currentRevision, currentTemplate, themePaths } from './template.js';
 
 export type Action = 'accept' | 'reject' | 'recode' | 'defer';

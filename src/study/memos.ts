@@ -115,3 +115,9 @@ export function latestPassageNotes(db: DB, author: string): Map<string, string> 
     .all(author) as { target: string; text: string }[];
   return new Map(rows.map((r) => [r.target, r.text]));
 }
+
+/** Adds many passage memos in the caller's transaction (a coding sheet's note column). */
+export function passageMemoWriter(db: DB) {
+  const ins = db.prepare("INSERT INTO memos (at, author, target_kind, target, text, rev) VALUES (?, ?, 'passage', ?, ?, ?)");
+  return (at: string, author: string, passageId: string, text: string, rev: number | null): void => void ins.run(at, author, passageId, text, rev);
+}

@@ -1,4 +1,3 @@
-import { commonForm } from '../text/fragment.js';
 import type { Role } from '../ingest/segment.js';
 import type { DB } from './db.js';
 
@@ -72,10 +71,24 @@ export function passageCount(db: DB): number {
 }
 
 /**
- * How the study writes each of these lemmas (src/text/fragment.ts commonForm), read from the
- * stored tokens of every passage: the analysis may spell a lemma otherwise ("colour" -> "color").
+ * Every passage's stored analysis as raw rows (id, transcript, ordinal, role, lemma string, stop
+ * flags), in study order: what the suggestion model reads, in one statement.
  */
-export function writtenForms(db: DB, lemmas: Iterable<string>): Map<string, string> {
+export function analysedPassages(db: DB): [string, string, number, Role, string, Buffer][] {
+  return db
+    .prepare(
+      `SELECT p.id, t.name AS transcript, p.ordinal, p.role, p.lemmas, p.stops
+       FROM passages p JOIN transcripts t ON t.id = p.transcript_id ORDER BY t.id, p.ordinal`,
+    )
+    .raw()
+    .all() as [string, string, number, Role, string, Buffer][];
+}
+
+/**
+ * How often each written form of these lemmas occurs, read from the stored tokens of every
+ * passage: the analysis may spell a lemma otherwise ("colour" -> "color").
+ */
+export function writtenFormCounts(db: DB, lemmas: Iterable<string>): Map<string, Map<string, number>> {
   const want = new Set(lemmas);
   const counts = new Map<string, Map<string, number>>();
   if (want.size) {
@@ -92,5 +105,5 @@ export function writtenForms(db: DB, lemmas: Iterable<string>): Map<string, stri
       }
     }
   }
-  return new Map([...want].map((l) => [l, commonForm(l, counts.get(l))]));
+  return counts;
 }

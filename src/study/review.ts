@@ -1,21 +1,18 @@
 /**
- * The review queue: which passages an interactive review session shows, in what order, and the
- * guarded writes it makes. The session rules are in src/review/session.ts; the screens only draw and read keys.
+ * The rows of a review session: which passages are still open to it, the guarded writes it
+ * makes, and what it reads of a passage. The session rules are in src/review/session.ts; the screens only draw and read keys.
  */
 import { UserError } from '../errors.js';
 import type { Reason } from '../suggest/types.js';
-import { FALLBACK_THRESHOLD, orderQueue, type ReviewItem, type ReviewSetup, type ReviewStart } from '../review/order.js';
-import { addTheme } from '../template/ops.js';
-import { findByPath, walk } from '../template/paths.js';
+import { FALLBACK_THRESHOLD, type ReviewItem } from '../review/order.js';
+import { walk } from '../template/paths.js';
 import type { DB } from './db.js';
 import { decide, markNothingToCode, undo, type Action, type DecisionRow } from './decisions.js';
 import { getPassage, passageTokens, type StoredPassage } from './passages.js';
-import { reviseTemplate } from './revise.js';
-import { suggest } from './suggestions.js';
 import { currentTemplate, themePaths } from './template.js';
 
 /** Passages with a decision that still stands (not undone; a defer does not count). */
-function decidedPassages(db: DB): Set<string> {
+export function decidedPassages(db: DB): Set<string> {
   const rows = db
     .prepare(
       `SELECT DISTINCT d.passage_id AS id FROM standing_decisions d WHERE d.action != 'defer' AND d.passage_id IS NOT NULL`,
@@ -29,49 +26,11 @@ export function themeOrder(db: DB): Map<string, number> {
   return new Map([...walk(currentTemplate(db))].map((e, i) => [e.node.id, i]));
 }
 
-/**
- * Starts a session: a fresh suggestion run (so the queue reflects the latest codings and
- * decisions), then the queue: passages of the run that are not coded and have no standing
- * decision, filtered and ordered.
- */
-export function startReview(db: DB, setup: ReviewSetup = {}, fitting: () => void = () => undefined): ReviewStart {
-  let within: Set<string> | null = null;
-  if (setup.theme) {
-    const node = findByPath(currentTemplate(db), setup.theme);
-    within = new Set([...walk({ roots: [node] })].map((e) => e.node.id));
-  }
-  fitting(); // the arguments are checked: the slow part starts
-  const run = suggest(db, { top: setup.top ?? 5, transcripts: setup.transcripts });
-  const thresholds = new Map(run.reports.map((r) => [r.themeId, r.threshold]));
-  const place = new Map(
+/** Each passage's place in the study: its ordinal and its transcript's row id. */
+export function passagePlaces(db: DB): Map<string, { id: string; ordinal: number; t: number }> {
+  return new Map(
     (db.prepare('SELECT p.id, p.ordinal, p.transcript_id AS t FROM passages p').all() as { id: string; ordinal: number; t: number }[]).map((r) => [r.id, r]),
   );
-  const decided = decidedPassages(db);
-  const items: ReviewItem[] = [];
-  for (const p of run.passages) {
-    if (decided.has(p.passageId) || p.candidates.length === 0) continue;
-    if (within && !p.candidates.some((c) => within.has(c.themeId))) continue;
-    const at = place.get(p.passageId);
-    items.push({
-      passageId: p.passageId,
-      transcript: p.transcript,
-      transcriptIndex: at?.t ?? 0,
-      ordinal: at?.ordinal ?? 0,
-      candidates: p.candidates.map((c) => {
-        const t = thresholds.get(c.themeId);
-        return {
-          suggestionId: c.suggestionId,
-          themeId: c.themeId,
-          path: run.paths.get(c.themeId) ?? c.themeId,
-          confidence: c.confidence,
-          above: c.aboveThreshold,
-          threshold: t !== undefined && Number.isFinite(t) ? t : FALLBACK_THRESHOLD,
-          reasons: c.reasons,
-        };
-      }),
-    });
-  }
-  return { runId: run.runId, items: orderQueue(items, setup.order ?? 'transcript', themeOrder(db)), left: run.passages.length - items.length };
 }
 
 /** Another coder's (or another session's) claim on a passage, which closes it for this session. */
@@ -148,41 +107,6 @@ export function reviewNothingToCode(db: DB, passageId: string, coder: string, no
       const claim = claimOn(db, passageId, mine);
       if (claim) throw new AlreadyDecided(passageId, claim);
       return markNothingToCode(db, [passageId], coder, note)[0]!;
-    })
-    .immediate();
-}
-
-/**
- * Adds a theme (a new template revision) and re-codes the passage to it, in one transaction:
- * the theme and its first coding land together or not at all.
- */
-export function recodeToNewTheme(
-  db: DB,
-  studyDir: string,
-  passageId: string,
-  d: { suggestionId: number; parentId: string | null; name: string; note?: string; coder: string },
-  mine: ReadonlySet<number>,
-): { decision: DecisionRow; rev: number | null; path: string } {
-  return db
-    .transaction(() => {
-      const claim = claimOn(db, passageId, mine);
-      if (claim) throw new AlreadyDecided(passageId, claim);
-      let id = '';
-      const r = reviseTemplate(
-        db,
-        studyDir,
-        'add',
-        (t, newId) => {
-          const out = addTheme(t, d.parentId, d.name, newId);
-          id = out.id;
-          return out;
-        },
-        d.coder,
-        `added while reviewing ${passageId}`,
-      );
-      const path = [...walk(r.template)].find((e) => e.node.id === id)!.path;
-      const decision = decide(db, { suggestionId: d.suggestionId, action: 'accept', themePath: path, note: d.note, coder: d.coder });
-      return { decision, rev: r.rev, path };
     })
     .immediate();
 }
@@ -283,4 +207,3 @@ export function passageView(db: DB, passageId: string): PassageView | undefined 
   return { passage, tokens, before: turn(passage.turn - 1), after: turn(passage.turn + 1), passages: count.n };
 }
 
-// The session's pure bookkeeping lives with the session; re-exported for existing callers.

@@ -7,13 +7,14 @@ import { createServer, type IncomingMessage, type Server, type ServerResponse } 
 import { UserError } from '../errors.js';
 import { reportCautions } from '../report/cautions.js';
 import { renderReport } from '../report/index.js';
-import type { DB } from '../study/db.js';
-import { dismissCluster, latestClusters, promoteCluster, runDiscovery, triageStudy } from '../study/discovery.js';
+import type { Study } from '../study/study.js';
+import { promoteCluster, runDiscovery, triageStudy } from '../jobs/discovery.js';
+import { dismissCluster, latestClusters } from '../study/clusters.js';
 import { getPassage } from '../study/passages.js';
 import { currentCodings } from '../study/codings.js';
-import { reportData } from '../study/report-data.js';
-import { studyStatus } from '../study/status.js';
-import { fitModel } from '../study/suggestions.js';
+import { reportData } from '../jobs/report-data.js';
+import { studyStatus } from '../jobs/status.js';
+import { fitModel } from '../jobs/suggest.js';
 import { currentTemplate } from '../study/template.js';
 import { walk } from '../template/paths.js';
 import { CSS, JS } from './assets.js';
@@ -24,8 +25,7 @@ import { WebReview, type Act } from './session.js';
 import { clustersPage, templatePage, themePage, triagePage } from './study-pages.js';
 
 export interface ServeOptions {
-  db: DB;
-  studyDir: string;
+  study: Study;
   coder: string;
   /** 0: any free port. */
   port: number;
@@ -97,7 +97,9 @@ function parseAct(f: URLSearchParams): Act {
 
 export function startServer(o: ServeOptions): Promise<Serving> {
   const token = newToken();
-  const review = new WebReview(o.db, o.studyDir, o.coder);
+  const { study } = o;
+  const { db } = study;
+  const review = new WebReview(study, o.coder);
   let clusterMessage = '';
   let port = o.port;
   const html = (res: ServerResponse, title: string, here: string, body: string) => send(res, 200, 'text/html; charset=utf-8', page(title, here, body, o.coder));
@@ -122,51 +124,51 @@ export function startServer(o: ServeOptions): Promise<Serving> {
       return back(res, '/review');
     }
     if (get && path === '/template') {
-      const t = currentTemplate(o.db);
-      const s = studyStatus(o.db);
+      const t = currentTemplate(db);
+      const s = studyStatus(db);
       return html(res, 'Template', '/template', templatePage([...walk(t)], new Map(s.perTheme.map((c) => [c.id, c])), s.coded, s.passages.participant));
     }
     if (get && path === '/theme') {
       const id = url.searchParams.get('id') ?? '';
-      const entry = [...walk(currentTemplate(o.db))].find((e) => e.node.id === id);
+      const entry = [...walk(currentTemplate(db))].find((e) => e.node.id === id);
       if (!entry) return send(res, 404, 'text/html; charset=utf-8', page('No such theme', '/template', '<p>That theme is not in the current template. <a href="/template">Back to the template</a></p>', o.coder));
-      const fitted = fitModel(o.db);
+      const fitted = fitModel(db);
       fitted.keep();
       const report = fitted.model.themeReports().find((r) => r.themeId === id);
       const byPassage = new Map<string, string[]>();
-      for (const c of currentCodings(o.db)) if (c.theme_id === id) byPassage.set(c.passage_id, [...(byPassage.get(c.passage_id) ?? []), c.coder]);
+      for (const c of currentCodings(db)) if (c.theme_id === id) byPassage.set(c.passage_id, [...(byPassage.get(c.passage_id) ?? []), c.coder]);
       const passages = [...byPassage].flatMap(([pid, coders]) => {
-        const p = getPassage(o.db, pid);
+        const p = getPassage(db, pid);
         return p ? [{ passage: p, coders }] : [];
       });
       return html(res, entry.node.name, '/template', themePage(entry, report, passages));
     }
     if (path === '/clusters') {
       if (get) {
-        const themes = [...walk(currentTemplate(o.db))].map((e) => e.path);
-        return html(res, 'Unclaimed clusters', '/clusters', clustersPage(latestClusters(o.db), themes, clusterMessage));
+        const themes = [...walk(currentTemplate(db))].map((e) => e.path);
+        return html(res, 'Unclaimed clusters', '/clusters', clustersPage(latestClusters(db), themes, clusterMessage));
       }
       const f = await readForm(req);
       const id = f.get('cluster') ?? '';
       try {
         switch (f.get('act')) {
           case 'run':
-            clusterMessage = `Found ${runDiscovery(o.db).clusters.length} clusters.`;
+            clusterMessage = `Found ${runDiscovery(db).clusters.length} clusters.`;
             break;
           case 'promote-new': {
-            const p = promoteCluster(o.db, o.studyDir, id, { name: (f.get('name') ?? '').trim(), parentPath: (f.get('parent') ?? '').trim() || undefined }, o.coder);
+            const p = promoteCluster(study, id, { name: (f.get('name') ?? '').trim(), parentPath: (f.get('parent') ?? '').trim() || undefined }, o.coder);
             clusterMessage = `Cluster ${p.cluster_id} is now the theme "${p.path}"; its ${p.suggestions} passages are suggestions of it, for review.`;
             review.restart();
             break;
           }
           case 'promote-into': {
-            const p = promoteCluster(o.db, o.studyDir, id, { into: (f.get('into') ?? '').trim() }, o.coder);
+            const p = promoteCluster(study, id, { into: (f.get('into') ?? '').trim() }, o.coder);
             clusterMessage = `Cluster ${p.cluster_id}: its ${p.suggestions} passages are now suggestions of "${p.path}", for review.`;
             review.restart();
             break;
           }
           case 'dismiss': {
-            const d = dismissCluster(o.db, id, o.coder, (f.get('note') ?? '').trim());
+            const d = dismissCluster(db, id, o.coder, (f.get('note') ?? '').trim());
             clusterMessage = `Cluster ${d.cluster_id} dismissed (decision #${d.decision_id}).`;
             break;
           }
@@ -179,9 +181,9 @@ export function startServer(o: ServeOptions): Promise<Serving> {
       }
       return back(res, '/clusters');
     }
-    if (get && path === '/triage') return html(res, 'Triage', '/triage', triagePage(triageStudy(o.db).rows));
+    if (get && path === '/triage') return html(res, 'Triage', '/triage', triagePage(triageStudy(db).rows));
     if (get && path === '/report') {
-      const body = renderReport(reportData(o.db, { studyDir: o.studyDir, quotes: 3, cautions: reportCautions }));
+      const body = renderReport(reportData(study, { quotes: 3, cautions: reportCautions }));
       return send(res, 200, 'text/html; charset=utf-8', body, REPORT_CSP);
     }
     send(res, 404, 'text/html; charset=utf-8', page('Not found', '', `<p>Nothing at ${esc(path)}.</p>`, o.coder));

@@ -7,9 +7,9 @@
 import { UserError } from '../errors.js';
 import { ReviewSession, type ReviewAction, type ScreenModel } from '../review/session.js';
 import type { ThemeRef } from '../review/port.js';
-import type { DB } from '../study/db.js';
+import type { Study } from '../study/study.js';
 import { addMemo } from '../study/memos.js';
-import { sqliteReviewStore } from '../study/review-store.js';
+import { sqliteReviewStore } from '../jobs/review-store.js';
 
 export type Act = ReviewAction | { kind: 'memo'; text: string } | { kind: 'restart' };
 
@@ -25,8 +25,7 @@ export class WebReview {
   private message = '';
 
   constructor(
-    private readonly db: DB,
-    private readonly studyDir: string,
+    private readonly study: Study,
     readonly coder: string,
   ) {
     this.restart();
@@ -34,7 +33,7 @@ export class WebReview {
 
   /** A fresh queue (a new suggestion run), as when a terminal review starts. */
   restart(): void {
-    this.session = ReviewSession.start(sqliteReviewStore(this.db, this.studyDir), this.coder);
+    this.session = ReviewSession.start(sqliteReviewStore(this.study), this.coder);
   }
 
   /** Read afresh on every page: another session may have decided the passage meanwhile. */
@@ -56,7 +55,7 @@ export class WebReview {
       try {
         if (!p) throw new UserError('the queue is done: no passage to write a memo on');
         if (!a.text.trim()) throw new UserError('the memo is empty');
-        const m = addMemo(this.db, { kind: 'passage', value: p.id }, a.text.trim(), this.coder);
+        const m = addMemo(this.study.db, { kind: 'passage', value: p.id }, a.text.trim(), this.coder);
         this.message = `Memo #${m.memo_id} saved on ${p.id}.`;
       } catch (e) {
         if (!(e instanceof UserError)) throw e;

@@ -1,7 +1,7 @@
 /** The pages around the review: the template with counts, one theme, the unclaimed clusters, triage. */
-import type { StoredCluster } from '../study/discovery.js';
+import type { StoredCluster } from '../study/clusters.js';
 import type { StoredPassage } from '../study/passages.js';
-import type { ThemeCount } from '../study/status.js';
+import type { ThemeCount } from '../jobs/status.js';
 import type { TranscriptTriage } from '../discover/triage.js';
 import type { ThemeReport } from '../suggest/types.js';
 import type { WalkEntry } from '../template/paths.js';

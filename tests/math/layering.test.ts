@@ -1,22 +1,11 @@
-import { readdirSync, readFileSync } from 'node:fs';
-import { join, relative, resolve, dirname } from 'node:path';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { sourceFiles, src } from '../helpers/imports.js';
 
 // The maths layer sits at the bottom: src/math imports nothing from src/, and discovery does
 // not reach into the suggestion model for maths that now lives in src/math.
-const src = resolve(import.meta.dirname, '../../src');
-
-function files(dir: string): string[] {
-  return readdirSync(dir, { withFileTypes: true }).flatMap((e) => (e.isDirectory() ? files(join(dir, e.name)) : e.name.endsWith('.ts') ? [join(dir, e.name)] : []));
-}
-
-/** Each relative import of a source file, as a path under src/ without extension (e.g. "math/sparse"). */
-function importsOf(file: string): string[] {
-  const text = readFileSync(file, 'utf8');
-  return [...text.matchAll(/(?:from|import)\s*\(?\s*'(\.{1,2}\/[^']+)'/g)].map((m) => relative(src, resolve(dirname(file), m[1]!)).replace(/\.js$/, ''));
-}
-
-const all = files(src).map((f) => ({ file: relative(src, f), imports: importsOf(f) }));
+const all = sourceFiles().map((f) => ({ file: f.file, imports: f.imports.map((i) => i.path) }));
 const mathFiles = new Set(all.filter((f) => f.file.startsWith('math/')).map((f) => f.file.replace(/\.ts$/, '')));
 
 describe('the maths layer', () => {

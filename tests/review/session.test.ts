@@ -5,9 +5,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { ReviewSession, type ActResult, type CandidateModel, type ReviewAction } from '../../src/review/session.js';
-import { openStudy, type DB } from '../../src/study/db.js';
+import type { DB } from '../../src/study/db.js';
+import { openStudy, type Study } from '../../src/study/study.js';
 import type { DecisionRow } from '../../src/study/decisions.js';
-import { sqliteReviewStore } from '../../src/study/review-store.js';
+import { sqliteReviewStore } from '../../src/jobs/review-store.js';
 import { CORPUS, freshStudy, trellis } from '../cli/run.js';
 
 const T05 = 't05-ward9-fy2';
@@ -37,10 +38,10 @@ function copyStudy(): string {
 }
 
 /** A session on its own connection, as a separate process would have. */
-function session(dir: string, coder = 'alex'): { s: ReviewSession; db: DB } {
-  const db = openStudy(dir);
-  open.push(db);
-  return { s: ReviewSession.start(sqliteReviewStore(db, dir), coder, { transcripts: [T05] }), db };
+function session(dir: string, coder = 'alex'): { s: ReviewSession; db: DB; study: Study } {
+  const study = openStudy(dir);
+  open.push(study.db);
+  return { s: ReviewSession.start(sqliteReviewStore(study), coder, { transcripts: [T05] }), db: study.db, study };
 }
 
 function decisions(db: DB): DecisionRow[] {
@@ -165,9 +166,9 @@ describe('review session', () => {
   });
 
   it('re-codes to a theme that is not a candidate, and accepts when the theme is one', () => {
-    const { s, db } = session(copyStudy());
+    const { s, db, study } = session(copyStudy());
     const p = passageWith(s, 3);
-    const store = sqliteReviewStore(db, '');
+    const store = sqliteReviewStore(study);
     const other = store.themes().find((t) => !p.candidates.some((c) => c.themeId === t.id))!;
     const r = act(s, { kind: 'recode', theme: other.path });
     expect(r.outcome).toMatchObject({ kind: 'saved', then: 'stay' });
@@ -183,15 +184,15 @@ describe('review session', () => {
 
   it('adds a new sub-theme on the spot: a template revision, and the passage coded to it', () => {
     const dir = copyStudy();
-    const { s, db } = session(dir);
+    const { s, db, study } = session(dir);
     const p = passageWith(s, 2);
-    const parent = sqliteReviewStore(db, dir).themes()[0]!;
+    const parent = sqliteReviewStore(study).themes()[0]!;
     const revBefore = (db.prepare('SELECT MAX(rev) AS r FROM revisions').get() as { r: number }).r;
     const r = act(s, { kind: 'add', parent: parent.path, name: 'Handover by phone' });
     expect(r.outcome.kind).toBe('saved');
     if (r.outcome.kind !== 'saved') return;
     expect(r.outcome.added).toEqual({ rev: revBefore + 1, path: `${parent.path} > Handover by phone` });
-    const added = sqliteReviewStore(db, dir).themes().find((t) => t.path === `${parent.path} > Handover by phone`)!;
+    const added = sqliteReviewStore(study).themes().find((t) => t.path === `${parent.path} > Handover by phone`)!;
     expect(added).toBeDefined();
     expect(decisions(db).at(-1)).toMatchObject({ passage_id: p.id, chosen_theme: added.id, coder: 'alex' });
     // The same name again under the same parent is refused and nothing is written.

@@ -1,20 +1,39 @@
 import Database from 'better-sqlite3';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/errors.js';
 import { readTranscriptFile } from '../../src/ingest/read.js';
-import { createStudy, openStudy } from '../../src/study/db.js';
-import { importTranscripts } from '../../src/study/import.js';
+import { createStudy, openStudy } from '../../src/study/study.js';
+import { importTranscripts } from '../../src/jobs/import.js';
+import { setTemplate } from '../../src/jobs/revise.js';
 import { MIGRATIONS, SCHEMA_VERSION } from '../../src/study/schema.js';
 
 const tmp = () => mkdtempSync(join(tmpdir(), 'trellis-db-'));
 
+describe('the Study handle', () => {
+  it('carries the folder with the database: the resolved folder, study.db and template.txt in it', () => {
+    const dir = tmp();
+    const made = createStudy(join(dir, 'a', '..', 'study'));
+    expect(made.dir).toBe(join(dir, 'study'));
+    expect(made.file).toBe(join(dir, 'study', 'study.db'));
+    expect(readFileSync(made.templateFile, 'utf8')).toMatch(/^# The study's template/);
+    made.close();
+    const study = openStudy(join(dir, 'study'));
+    expect(study.db.open).toBe(true);
+    // A use case that writes the study's files finds them through the handle alone.
+    setTemplate(study, 'Workload\n  Staffing levels\n', 'outline.txt', 'priya');
+    expect(readFileSync(study.templateFile, 'utf8')).toBe('Workload\n  Staffing levels\n');
+    study.close();
+    expect(study.db.open).toBe(false);
+  });
+});
+
 describe('study.db', () => {
   it('is created in WAL mode with foreign keys on and the current schema version', () => {
     const dir = tmp();
-    const db = createStudy(dir);
+    const db = createStudy(dir).db;
     expect(db.pragma('journal_mode', { simple: true })).toBe('wal');
     expect(db.pragma('foreign_keys', { simple: true })).toBe(1);
     expect(db.pragma('user_version', { simple: true })).toBe(SCHEMA_VERSION);
@@ -37,7 +56,7 @@ describe('study.db', () => {
     const raw = new Database(join(dir, 'study.db'));
     raw.pragma('journal_mode = WAL'); // writes the file's header: an SQLite file with no tables
     raw.close();
-    const db = openStudy(dir);
+    const db = openStudy(dir).db;
     expect(db.pragma('user_version', { simple: true })).toBe(SCHEMA_VERSION);
     const tables = (db.prepare("SELECT name FROM sqlite_master WHERE type='table'").all() as { name: string }[]).map((t) => t.name);
     expect(tables).toEqual(expect.arrayContaining(['transcripts', 'passages', 'revisions', 'themes', 'codings']));
@@ -51,7 +70,7 @@ describe('study.db', () => {
     raw.pragma('user_version = 7');
     raw.exec("INSERT INTO transcripts VALUES (1, 't1', 't1.txt', 'text', 'h', 's', 0, '2026-01-01');");
     raw.close();
-    const db = openStudy(dir);
+    const db = openStudy(dir).db;
     expect(db.pragma('user_version', { simple: true })).toBeGreaterThanOrEqual(9);
     expect(db.prepare('SELECT name FROM transcripts').all()).toEqual([{ name: 't1' }]);
     db.prepare("INSERT INTO aliases VALUES ('transcript', 't1', 'T01', '2026-01-02')").run();
@@ -76,7 +95,7 @@ describe('study.db', () => {
       INSERT INTO codings (passage_id, theme_id, coder, origin, created_at, rev, decision_id) VALUES ('t1#1', 'T1', 'ana', 'accepted', '2026-01-02', 1, 7);
     `);
     raw.close();
-    const db = openStudy(dir);
+    const db = openStudy(dir).db;
     expect(db.pragma('user_version', { simple: true })).toBe(SCHEMA_VERSION);
     expect(db.pragma('foreign_keys', { simple: true })).toBe(1);
     expect(db.prepare('SELECT id, action, coder FROM decisions').all()).toEqual([{ id: 7, action: 'accept', coder: 'ana' }]);
@@ -90,7 +109,7 @@ describe('study.db', () => {
   });
 
   it('rolls back everything a transaction wrote when it throws', () => {
-    const db = createStudy(tmp());
+    const db = createStudy(tmp()).db;
     expect(() =>
       db.transaction(() => {
         db.prepare("INSERT INTO meta (key, value) VALUES ('x', '1')").run();
@@ -104,9 +123,9 @@ describe('study.db', () => {
   it('a writer that meets another write waits, says so, and gives a clear error when it cannot get in', () => {
     const dir = tmp();
     createStudy(dir).close();
-    const holder = openStudy(dir);
+    const holder = openStudy(dir).db;
     holder.exec('BEGIN IMMEDIATE');
-    const waiting = openStudy(dir);
+    const waiting = openStudy(dir).db;
     const said: string[] = [];
     const write = process.stderr.write;
     process.env.TRELLIS_LOCK_WAIT = '0.2';
@@ -133,8 +152,8 @@ describe('study.db', () => {
   it('an import leaves the study unlocked while it analyses the text', async () => {
     const dir = tmp();
     createStudy(dir).close();
-    const db = openStudy(dir);
-    const other = openStudy(dir);
+    const db = openStudy(dir).db;
+    const other = openStudy(dir).db;
     other.pragma('busy_timeout = 0'); // any lock held by the import fails this at once
     const text = Array.from({ length: 40 }, (_, i) => `Nadia: Turn ${i} about the tablets and the handover sheet.\n\nInterviewer: And then?\n`).join('\n');
     const items = [];

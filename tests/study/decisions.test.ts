@@ -5,13 +5,14 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { readTranscriptFile } from '../../src/ingest/read.js';
-import { createStudy, type DB } from '../../src/study/db.js';
+import type { DB } from '../../src/study/db.js';
+import { createStudy } from '../../src/study/study.js';
 import { allDecisions, effectiveDecisions, markNothingToCode, nothingToCode, nothingToCodeBy, undo } from '../../src/study/decisions.js';
-import { importTranscripts } from '../../src/study/import.js';
+import { importTranscripts } from '../../src/jobs/import.js';
 
 async function studyWithPassages(): Promise<{ db: DB; ids: string[] }> {
   const dir = mkdtempSync(join(tmpdir(), 'trellis-decisions-'));
-  const db = createStudy(dir);
+  const db = createStudy(dir).db;
   const file = join(dir, 'ward.txt');
   writeFileSync(
     file,

@@ -1,10 +1,13 @@
+import { createHash } from 'node:crypto';
+import type { ResolvedOptions } from '../suggest/suggester.js';
 import type { Coding, ModelPassage, ThemeInfo } from '../suggest/types.js';
 import { walk } from '../template/paths.js';
 import { analyse } from '../text/nlp.js';
 import { contentLemmas, isTermLemma } from '../text/terms.js';
-import { currentCodings } from './codings.js';
-import type { DB } from './db.js';
-import { currentTemplate } from './template.js';
+import { currentCodings } from '../study/codings.js';
+import type { DB } from '../study/db.js';
+import { analysedPassages } from '../study/passages.js';
+import { currentTemplate } from '../study/template.js';
 
 export interface ModelInputs {
   passages: ModelPassage[];
@@ -19,13 +22,7 @@ export function modelInputs(db: DB): ModelInputs {
   // One pass over the stored analysis: the lemma string is split once, and whether a lemma has a
   // letter is decided once per distinct lemma (contentLemmas' test), not per token.
   // Every occurrence of a lemma becomes one shared string, whose hash the model's maps reuse.
-  const rows = db
-    .prepare(
-      `SELECT p.id, t.name AS transcript, p.ordinal, p.role, p.lemmas, p.stops
-       FROM passages p JOIN transcripts t ON t.id = p.transcript_id ORDER BY t.id, p.ordinal`,
-    )
-    .raw()
-    .all() as [string, string, number, ModelPassage['role'], string, Buffer][];
+  const rows = analysedPassages(db);
   const canonical = new Map<string, string | null>();
   const passages: ModelPassage[] = rows.map(([id, transcript, ordinal, role, lemmaText, stops]) => {
     const lemmas = lemmaText ? lemmaText.split(' ') : [];
@@ -65,4 +62,20 @@ export function modelInputs(db: DB): ModelInputs {
     definitionTerms: `${e.node.definition} ${e.node.include}`.trim() ? contentLemmas(analyse(`${e.node.definition} ${e.node.include}`)) : [],
   }));
   return { passages, codings, themes, uncoded };
+}
+
+/**
+ * A hash of everything a fit learns from. Two fits on the same inputs give the same state (every
+ * random choice is seeded), so a state stored under this key can stand in for a new fit.
+ */
+export function inputsKey(inputs: ModelInputs, negatives: readonly Coding[], options: ResolvedOptions, version: number): string {
+  const h = createHash('sha256');
+  const put = (s: string) => h.update(s).update('\u0000');
+  put(`state ${version}`);
+  put(JSON.stringify(options));
+  for (const p of inputs.passages) put(`${p.id}\u0001${p.transcript}\u0001${p.ordinal}\u0001${p.role}\u0001${p.words ?? ''}\u0001${p.terms.join(' ')}`);
+  for (const c of inputs.codings) put(`c ${c.passageId}\u0001${c.themeId}`);
+  for (const n of negatives) put(`n ${n.passageId}\u0001${n.themeId}`);
+  put(JSON.stringify(inputs.themes));
+  return h.digest('hex').slice(0, 32);
 }

@@ -2,21 +2,10 @@
 import { UserError } from '../errors.js';
 import type { ReviewStore, Written } from '../review/port.js';
 import { walk } from '../template/paths.js';
-import type { DB } from './db.js';
-import {
-  AlreadyDecided,
-  claimOn,
-  itemFromRun,
-  passageView,
-  recodeToNewTheme,
-  reviewDecide,
-  reviewNothingToCode,
-  standingAccepts,
-  standingRejects,
-  startReview,
-  undoLatest,
-} from './review.js';
-import { currentTemplate } from './template.js';
+import type { Study } from '../study/study.js';
+import { AlreadyDecided, claimOn, itemFromRun, passageView, reviewDecide, reviewNothingToCode, standingAccepts, standingRejects, undoLatest } from '../study/review.js';
+import { currentTemplate } from '../study/template.js';
+import { recodeToNewTheme, startReview } from './review.js';
 
 /** Turns "another session got there first" into a refusal the session can show; anything else goes on up. */
 function guarded<T>(work: () => T): Written<T> {
@@ -30,7 +19,8 @@ function guarded<T>(work: () => T): Written<T> {
   }
 }
 
-export function sqliteReviewStore(db: DB, studyDir: string): ReviewStore {
+export function sqliteReviewStore(study: Study): ReviewStore {
+  const { db } = study;
   return {
     start: (setup, fitting) => startReview(db, setup, fitting),
     claim: (passageId, mine) => claimOn(db, passageId, mine),
@@ -38,7 +28,7 @@ export function sqliteReviewStore(db: DB, studyDir: string): ReviewStore {
     standing: (ids) => ({ rejected: standingRejects(db, ids), accepted: standingAccepts(db, ids) }),
     decide: (passageId, d, mine) => guarded(() => reviewDecide(db, passageId, d, mine)),
     nothingToCode: (passageId, coder, note, mine) => guarded(() => reviewNothingToCode(db, passageId, coder, note, mine)),
-    addTheme: (passageId, d, mine) => guarded(() => recodeToNewTheme(db, studyDir, passageId, d, mine)),
+    addTheme: (passageId, d, mine) => guarded(() => recodeToNewTheme(study, passageId, d, mine)),
     undoLatest: (coder, note) => undoLatest(db, coder, note),
     itemFromRun: (suggestionId) => itemFromRun(db, suggestionId),
     template: () => currentTemplate(db),

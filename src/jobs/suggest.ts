@@ -1,18 +1,16 @@
 import { UserError } from '../errors.js';
 import { resolveOptions, STATE_VERSION, ThemeSuggester } from '../suggest/suggester.js';
-import type { Candidate, PassageSuggestions, Reason, SuggesterOptions, ThemeReport } from '../suggest/types.js';
-import type { DB } from './db.js';
-import { modelInputs } from './model.js';
-import { passageTokens } from './passages.js';
+import type { PassageSuggestions, SuggesterOptions, ThemeReport } from '../suggest/types.js';
+import type { DB } from '../study/db.js';
+import { passageTokens } from '../study/passages.js';
 import { matchedFragment } from '../text/fragment.js';
-import { nothingToCode, rejections } from './decisions.js';
-import { currentRevision } from './template.js';
-import { inputsKey, loadState, saveState, touchState } from './model-store.js';
+import { nothingToCode, rejections } from '../study/decisions.js';
+import { currentRevision } from '../study/template.js';
+import { loadState, saveState, touchState } from '../study/model-store.js';
+import { storeSuggestionRun, type StoredCandidate } from '../study/suggestion-rows.js';
+import { inputsKey, modelInputs } from './model-inputs.js';
 
-export interface StoredCandidate extends Candidate {
-  suggestionId: number;
-  rank: number;
-}
+export type { StoredCandidate } from '../study/suggestion-rows.js';
 
 export interface SuggestRun {
   runId: number;
@@ -115,65 +113,10 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
   }
 
   return db.transaction(() => {
-    const runId = Number(
-      db
-        .prepare('INSERT INTO suggestion_runs (created_at, rev, fingerprint, options, passages, unclaimed, model_inputs) VALUES (?, ?, ?, ?, ?, ?, ?)')
-        .run(new Date().toISOString(), rev.rev, model.fingerprint, JSON.stringify(model.options), kept.length, kept.filter((p) => p.unclaimed).length, key)
-        .lastInsertRowid,
-    );
-    // Ids are given explicitly (the next free ones, inside this transaction), so that many rows
-    // can go in one statement: a run writes hundreds of thousands of rows, and one statement
-    // execution per row was most of the cost of storing them.
-    let next = (db.prepare('SELECT COALESCE(MAX(id), 0) AS id FROM suggestions').get() as { id: number }).id + 1;
-    const COLS = 9;
-    const BATCH = 200;
-    const statement = (n: number) =>
-      db.prepare(`INSERT INTO suggestions (id, run_id, passage_id, theme_id, rank, confidence, above, chosen, reasons) VALUES ${Array(n).fill('(?, ?, ?, ?, ?, ?, ?, ?, ?)').join(', ')}`);
-    const full = statement(BATCH);
-    const args: unknown[] = [];
-    const flush = () => {
-      if (!args.length) return;
-      (args.length === BATCH * COLS ? full : statement(args.length / COLS)).run(args);
-      args.length = 0;
-    };
-    // Each candidate gets its id and rank in place: the run returns the same objects.
-    kept.forEach((p, n) => {
-      if (progress && n % 500 === 0) progress('store', n / kept.length);
-      p.candidates.forEach((c, i) => {
-        const stored = c as StoredCandidate;
-        stored.suggestionId = next++;
-        stored.rank = i + 1;
-        args.push(stored.suggestionId, runId, p.passageId, c.themeId, i + 1, c.confidence, c.aboveThreshold ? 1 : 0, c.chosen ? 1 : 0, c.reasons.length ? JSON.stringify(c.reasons) : '[]');
-        if (args.length === BATCH * COLS) flush();
-      });
-    });
-    flush();
+    const runId = storeSuggestionRun(db, { rev: rev.rev, fingerprint: model.fingerprint, options: model.options, key }, kept, progress && ((d) => progress('store', d)));
     keep();
     const passages = kept as SuggestRun['passages'];
     const paths = new Map(inputs.themes.map((t) => [t.id, t.path]));
     return { runId, rev: rev.rev, fingerprint: model.fingerprint, passages, reports: model.themeReports(), paths };
   })();
-}
-
-export interface SuggestionRow {
-  id: number;
-  run_id: number;
-  passage_id: string;
-  theme_id: string;
-  rank: number;
-  confidence: number;
-  above: number;
-  chosen: number;
-  reasons: Reason[];
-  fingerprint: string;
-  rev: number;
-}
-
-export function getSuggestion(db: DB, id: number): SuggestionRow | undefined {
-  const row = db
-    .prepare(
-      `SELECT s.*, r.fingerprint, r.rev FROM suggestions s JOIN suggestion_runs r ON r.id = s.run_id WHERE s.id = ?`,
-    )
-    .get(id) as (Omit<SuggestionRow, 'reasons'> & { reasons: string }) | undefined;
-  return row ? { ...row, reasons: JSON.parse(row.reasons) as Reason[] } : undefined;
 }

@@ -6,10 +6,11 @@ import type { Transcript } from '../ingest/types.js';
 import { findByPath, walk } from '../template/paths.js';
 import type { TextAnalysis } from '../text/analysis.js';
 import { analyseMany } from '../text/pool.js';
-import { codingAdder } from './codings.js';
-import { settingsOf, type DB } from './db.js';
-import { currentRevision } from './template.js';
-import { deleteTranscript, findTranscript, transcriptWriter } from './transcripts.js';
+import { codingAdder, seenMarker } from '../study/codings.js';
+import { settingsOf, type DB } from '../study/db.js';
+import { replacementWriter, type KeptCoding } from '../study/import-rows.js';
+import { currentRevision } from '../study/template.js';
+import { deleteTranscript, findTranscript, transcriptWriter } from '../study/transcripts.js';
 
 export interface ImportItem {
   file: string;
@@ -131,17 +132,8 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
     const interviewers = opts.interviewers ?? [];
     const write = transcriptWriter(db);
     const addCoding = codingAdder(db);
-    const keep = db.prepare(
-      'SELECT c.passage_id, p.text, p.ordinal, c.theme_id, c.coder, c.origin, c.created_at, c.rev FROM codings c JOIN passages p ON p.id = c.passage_id WHERE p.transcript_id = ? AND c.removed_at IS NULL',
-    );
-    const restore = db.prepare(
-      'INSERT OR IGNORE INTO codings (passage_id, theme_id, coder, origin, created_at, rev) VALUES (?, ?, ?, ?, ?, ?)',
-    );
-    const setApart = db.prepare(
-      'INSERT INTO unplaced_codings (transcript, passage_id, text, theme_id, coder, origin, coded_at, unplaced_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)',
-    );
-    // Suggestions made for the old text no longer apply.
-    const dropSuggestions = db.prepare('DELETE FROM suggestions WHERE passage_id IN (SELECT id FROM passages WHERE transcript_id = ?)');
+    const replacing = replacementWriter(db);
+    const markSeen = seenMarker(db);
     for (const { t, file, hash, replaces } of todo) {
       const from = firstTurn.get(t);
       if (from === undefined) {
@@ -151,8 +143,8 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
       const passages = segment(t, analyses.slice(from, from + t.turns.length), { window, roleOf: (s) => roleOf(s, interviewers) });
       let kept: KeptCoding[] = [];
       if (replaces !== null) {
-        kept = keep.all(replaces) as KeptCoding[];
-        dropSuggestions.run(replaces);
+        kept = replacing.codings(replaces);
+        replacing.dropSuggestions(replaces);
         deleteTranscript(db, replaces);
       }
       write(t, file, hash, passages);
@@ -164,17 +156,17 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
         for (const k of kept) {
           const to = placed.get(k.passage_id);
           if (to) {
-            restore.run(to.to, k.theme_id, k.coder, k.origin, k.created_at, k.rev);
+            replacing.restore(k, to.to);
             if (to.how === 'same text') report.keptCodings++;
             else report.movedCodings++;
           } else {
-            setApart.run(t.name, k.passage_id, k.text, k.theme_id, k.coder, k.origin, k.created_at, now);
+            replacing.setApart(t.name, k, now);
             const theme = rev ? [...walk(rev.template)].find((e) => e.node.id === k.theme_id)?.path : undefined;
             report.unplaced.push({ transcript: t.name, passage_id: k.passage_id, theme_id: k.theme_id, theme: theme ?? k.theme_id, coder: k.coder });
           }
         }
       }
-      report.inlineCodings += writeInlineCodes(db, t, file, passages, rev, opts.coder, addCoding);
+      report.inlineCodings += writeInlineCodes(t, file, passages, rev, opts.coder, addCoding, markSeen);
       const participant = passages.filter((p) => p.role === 'participant').length;
       const words = passages.reduce((n, p) => n + p.words, 0);
       report.words += words;
@@ -182,17 +174,6 @@ export async function importTranscripts(db: DB, items: ImportItem[], opts: Impor
     }
     return withWarnings(report, items);
   })();
-}
-
-interface KeptCoding {
-  passage_id: string;
-  text: string;
-  ordinal: number;
-  theme_id: string;
-  coder: string;
-  origin: string;
-  created_at: string;
-  rev: number;
 }
 
 function emptyReport(): ImportReport {
@@ -205,19 +186,18 @@ function withWarnings(report: ImportReport, items: ImportItem[]): ImportReport {
 }
 
 function writeInlineCodes(
-  db: DB,
   t: Transcript,
   file: string,
   passages: Passage[],
   rev: ReturnType<typeof currentRevision>,
   coder: string,
   add: ReturnType<typeof codingAdder>,
+  markSeen: ReturnType<typeof seenMarker>,
 ): number {
   let n = 0;
   // A coder who coded inline read the whole transcript: every passage counts as seen by them.
   if (passages.some((p) => p.codes.length)) {
-    const seen = db.prepare('INSERT OR IGNORE INTO seen (coder, passage_id) VALUES (?, ?)');
-    for (const p of passages) seen.run(coder, p.id);
+    for (const p of passages) markSeen(coder, p.id);
   }
   for (const p of passages) {
     if (!p.codes.length) continue;

@@ -1,4 +1,3 @@
-import { join } from 'node:path';
 import { UserError } from '../errors.js';
 import { assignIds, reviveRetired } from '../template/diff.js';
 import { findByPath, pathKey, pathOf, walk } from '../template/paths.js';
@@ -6,10 +5,11 @@ import { parseOutlineOrThrow } from '../template/parse.js';
 import { collectComments } from '../template/comments.js';
 import { printOutline } from '../template/print.js';
 import type { Change, Diagnostic, Revised, Template } from '../template/types.js';
+import type { DB } from '../study/db.js';
+import { writeFileAtomic } from '../study/files.js';
+import type { Study } from '../study/study.js';
+import { currentRevision, fileNameOnly, recordRevision, retiredPaths, themeIdAllocator } from '../study/template.js';
 import { themeCounts } from './status.js';
-import { TEMPLATE_FILE, type DB } from './db.js';
-import { writeFileAtomic } from './files.js';
-import { currentRevision, fileNameOnly, recordRevision, retiredPaths, themeIdAllocator } from './template.js';
 
 export interface RevisionResult {
   /** The new revision, or null when nothing changed. */
@@ -33,12 +33,13 @@ export interface VanishedThemes {
  * A coded theme that disappears is never retired silently: the researcher says whether it was
  * renamed or moved (its codings follow) or is to be retired.
  */
-export function setTemplate(db: DB, studyDir: string, text: string, file: string, author: string, reason?: string, said: VanishedThemes = {}): RevisionResult {
+export function setTemplate(study: Study, text: string, file: string, author: string, reason?: string, said: VanishedThemes = {}): RevisionResult {
   const { template: parsed, warnings } = parseOutlineOrThrow(text, file);
   if (!parsed.roots.length) {
     // Recording it would retire every theme and cut every coding off its theme.
     throw new UserError('the outline has no themes (only comments or blank lines): nothing recorded; write at least one theme, one a line', file);
   }
+  const { db } = study;
   const result = db.transaction(() => {
     const prev = currentRevision(db);
     const same = new Map<string, string>();
@@ -51,13 +52,13 @@ export function setTemplate(db: DB, studyDir: string, text: string, file: string
     const { template, changes } = reviveRetired(assignIds(parsed, prev?.template ?? null, themeIdAllocator(db), same), retiredPaths(db));
     if (prev) checkVanished(db, prev.template, changes, said.retire ?? [], file);
     if (prev && changes.length === 0) {
-      writeFileAtomic(join(studyDir, TEMPLATE_FILE), text);
+      writeFileAtomic(study.templateFile, text);
       return { rev: null, changes, warnings, template };
     }
     const rev = recordRevision(db, { template, changes, outline: text, action: `set ${fileNameOnly(file)}`, author, reason });
     // Written last inside the transaction: if the file cannot be written, the revision rolls back,
     // and the atomic write leaves the old template.txt whole.
-    writeFileAtomic(join(studyDir, TEMPLATE_FILE), text);
+    writeFileAtomic(study.templateFile, text);
     return { rev, changes, warnings, template };
   })();
   return result;
@@ -85,20 +86,20 @@ function checkVanished(db: DB, prev: Template, changes: Change[], retire: string
 
 /** A revision operation (rename, move, merge, split, retire, add) on the current template. */
 export function reviseTemplate(
-  db: DB,
-  studyDir: string,
+  study: Study,
   action: string,
   op: (t: Template, newId: () => string) => Revised,
   author: string,
   reason?: string,
 ): RevisionResult {
+  const { db } = study;
   const result = db.transaction(() => {
     const prev = currentRevision(db);
     const { template, changes } = op(prev?.template ?? { roots: [] }, themeIdAllocator(db));
     // The researcher's comments in the current outline survive the rewrite.
     const outline = printOutline(template, prev ? collectComments(prev.outline, prev.template) : undefined);
     const rev = recordRevision(db, { template, changes, outline, action, author, reason });
-    writeFileAtomic(join(studyDir, TEMPLATE_FILE), outline);
+    writeFileAtomic(study.templateFile, outline);
     return { rev, changes, warnings: [], template };
   })();
   return result;

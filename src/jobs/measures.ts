@@ -2,9 +2,22 @@ import { acceptanceReport, type AcceptanceReport, type DecisionRecord } from '..
 import { CIRCULARITY_NOTE, agreementReport, type AgreementReport, type CodingRecord, type CodedRecord } from '../measure/agreement.js';
 import { templateGrowth, type GrowthReport } from '../measure/growth.js';
 import { entriesById, walk } from '../template/paths.js';
-import type { DB } from './db.js';
-import { effectiveDecisions, nothingToCode } from './decisions.js';
-import { currentTemplate } from './template.js';
+import type { DB } from '../study/db.js';
+import { effectiveDecisions, nothingToCode } from '../study/decisions.js';
+import {
+  codedParticipants,
+  codedPassageIds,
+  codedThemeTranscripts,
+  codingsBy,
+  decidedBy,
+  firstCodings,
+  latestClaims,
+  latestScorings,
+  latestScoringRun,
+  participantIds as participantPassages,
+  themesAddedAt,
+} from '../study/measure-rows.js';
+import { currentTemplate } from '../study/template.js';
 
 /** The pseudo-coder standing for trellis's above-threshold suggestions in agreement figures. */
 export const TOOL_CODER = 'trellis';
@@ -63,22 +76,12 @@ export function decisionRecords(db: DB): DecisionRecord[] {
 }
 
 export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyStats {
-  const cov = db
-    .prepare(
-      `SELECT (SELECT COUNT(*) FROM passages WHERE role = 'participant') AS participant,
-              (SELECT COUNT(DISTINCT c.passage_id) FROM codings c JOIN passages p ON p.id = c.passage_id
-                WHERE c.removed_at IS NULL AND p.role = 'participant') AS coded`,
-    )
-    .get() as { participant: number; coded: number };
-  const run = db.prepare(`SELECT id FROM suggestion_runs WHERE options NOT LIKE '%"source":"promote"%' ORDER BY id DESC LIMIT 1`).get() as
-    | { id: number }
-    | undefined;
+  const cov = codedParticipants(db);
+  const run = latestScoringRun(db);
   const judged = nothingToCode(db);
   const nocodeDecisions = effectiveDecisions(db).filter((d) => d.action === 'nocode').length;
-  const codedIds = new Set(
-    (db.prepare(`SELECT DISTINCT c.passage_id AS id FROM codings c WHERE c.removed_at IS NULL`).all() as { id: string }[]).map((r) => r.id),
-  );
-  const participantIds = (db.prepare("SELECT id FROM passages WHERE role = 'participant'").all() as { id: string }[]).map((r) => r.id);
+  const codedIds = codedPassageIds(db);
+  const participantIds = participantPassages(db);
   const open = participantIds.filter((id) => !codedIds.has(id) && !judged.has(id));
   const judgedOnly = participantIds.filter((id) => !codedIds.has(id) && judged.has(id)).length;
   const claimedNow = latestClaims(db);
@@ -89,13 +92,7 @@ export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyS
     if (c === undefined) notScored++;
     else if (!c) unclaimedN++;
   }
-  const firsts = db
-    .prepare(
-      `SELECT t.name AS transcript, MIN(c.created_at) AS firstCodedAt FROM codings c
-       JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id
-       GROUP BY t.id ORDER BY firstCodedAt, t.id`,
-    )
-    .all() as { transcript: string; firstCodedAt: string }[];
+  const firsts = firstCodings(db);
   const records = decisionRecords(db).filter((d) => !(opts.excludeBulk && d.bulk));
   const themes = entriesById(currentTemplate(db));
   const under = (id: string | null | undefined, ancestor: string) => {
@@ -135,35 +132,13 @@ export function studyStats(db: DB, opts: { excludeBulk?: boolean } = {}): StudyS
 }
 
 /**
- * For every passage any suggestion run scored: whether the latest run that scored it found a
- * theme to claim it (a chosen candidate). Runs made by promoting a cluster are not scorings.
- */
-export function latestClaims(db: DB): Map<string, boolean> {
-  const rows = db
-    .prepare(
-      `WITH latest AS (
-         SELECT s.passage_id, MAX(s.run_id) AS run_id FROM suggestions s
-         WHERE s.run_id IN (SELECT id FROM suggestion_runs WHERE options NOT LIKE '%"source":"promote"%')
-         GROUP BY s.passage_id)
-       SELECT l.passage_id AS id, EXISTS (SELECT 1 FROM suggestions x WHERE x.run_id = l.run_id AND x.passage_id = l.passage_id AND x.chosen = 1) AS claimed
-       FROM latest l`,
-    )
-    .all() as { id: string; claimed: number }[];
-  return new Map(rows.map((r) => [r.id, r.claimed === 1]));
-}
-
-/**
  * The current template's themes with the time each was added (its creating revision), and the
  * transcripts each theme has been coded in (codings later withdrawn included: it was coded there).
  */
 function growth(db: DB, firsts: { transcript: string; firstCodedAt: string }[]): GrowthReport {
-  const added = new Map(
-    (db.prepare('SELECT t.id, r.created_at FROM themes t JOIN revisions r ON r.rev = t.created_rev').all() as { id: string; created_at: string }[]).map((r) => [r.id, r.created_at]),
-  );
+  const added = themesAddedAt(db);
   const themes = [...walk(currentTemplate(db))].map((e) => ({ id: e.node.id, path: e.path, topLevel: e.depth === 0, addedAt: added.get(e.node.id) ?? new Date(0).toISOString() }));
-  const coded = db
-    .prepare('SELECT DISTINCT c.theme_id AS themeId, t.name AS transcript FROM codings c JOIN passages p ON p.id = c.passage_id JOIN transcripts t ON t.id = p.transcript_id')
-    .all() as { themeId: string; transcript: string }[];
+  const coded = codedThemeTranscripts(db);
   return templateGrowth({ themes, transcripts: firsts, coded });
 }
 
@@ -193,47 +168,17 @@ export function agreement(db: DB, opts: AgreementOptions): StudyAgreement {
   const inTranscripts = <R extends { transcript: string }>(rows: R[]): R[] =>
     opts.transcripts?.length ? rows.filter((r) => opts.transcripts!.includes(r.transcript)) : rows;
   const humans = opts.coders.filter((c) => c !== TOOL_CODER);
-  const q = (sql: string, ...args: unknown[]) =>
-    db.prepare(sql).all(...args) as { coder: string; passage_id: string; transcript: string; theme_id?: string; origin?: string }[];
-  const marks = humans.map(() => '?').join(',');
-  const JOIN = `JOIN passages p ON p.id = x.passage_id JOIN transcripts t ON t.id = p.transcript_id`;
-  const decided = humans.length
-    ? inTranscripts(
-        q(
-          `SELECT DISTINCT x.coder, x.passage_id, t.name AS transcript FROM standing_decisions x ${JOIN}
-           WHERE x.coder IN (${marks}) AND p.role = 'participant' AND x.action IN ('accept', 'reject', 'recode', 'nocode')`,
-          ...humans,
-        ),
-      )
-    : [];
-  const codings = humans.length
-    ? inTranscripts(
-        q(
-          `SELECT x.coder, x.passage_id, x.theme_id, x.origin, t.name AS transcript FROM codings x ${JOIN}
-           WHERE x.removed_at IS NULL AND p.role = 'participant' AND x.coder IN (${marks})`,
-          ...humans,
-        ),
-      )
-    : [];
+  const decided = inTranscripts(decidedBy(db, humans));
+  const codings = inTranscripts(codingsBy(db, humans));
   const coded: CodedRecord[] = decided.map((s) => ({ coder: s.coder, passageId: s.passage_id }));
   const records: CodingRecord[] = codings.map((c) => ({ coder: c.coder, passageId: c.passage_id, themeId: c.theme_id! }));
   for (const c of codings) coded.push({ coder: c.coder, passageId: c.passage_id });
   if (opts.coders.includes(TOOL_CODER)) {
     // The latest scoring run of each passage, and its chosen (above-threshold) themes.
-    const latest = inTranscripts(
-      db
-        .prepare(
-          `SELECT s.passage_id, t.name AS transcript, MAX(s.run_id) AS run_id FROM suggestions s
-           JOIN passages p ON p.id = s.passage_id JOIN transcripts t ON t.id = p.transcript_id
-           WHERE p.role = 'participant' AND s.run_id IN (SELECT id FROM suggestion_runs WHERE options NOT LIKE '%"source":"promote"%')
-           GROUP BY s.passage_id`,
-        )
-        .all() as { passage_id: string; transcript: string; run_id: number }[],
-    );
-    const chosen = db.prepare('SELECT theme_id FROM suggestions WHERE run_id = ? AND passage_id = ? AND chosen = 1');
+    const latest = inTranscripts(latestScorings(db));
     for (const l of latest) {
       coded.push({ coder: TOOL_CODER, passageId: l.passage_id });
-      for (const r of chosen.all(l.run_id, l.passage_id) as { theme_id: string }[]) records.push({ coder: TOOL_CODER, passageId: l.passage_id, themeId: r.theme_id });
+      for (const themeId of l.chosen()) records.push({ coder: TOOL_CODER, passageId: l.passage_id, themeId });
     }
   }
   const passages = [...new Set(coded.map((c) => c.passageId))].sort();

@@ -1,29 +1,29 @@
 import { groupByTheme, rollUp } from '../template/rollup.js';
-import { basename, resolve } from 'node:path';
+import { basename } from 'node:path';
 import { integrativeCoverage } from '../measure/integrative.js';
 import type { ReportCluster, ReportData, ReportMemo, ReportTheme } from '../report/types.js';
-import { listMemos } from './memos.js';
-import { latestClusters } from './discovery.js';
+import { listMemos } from '../study/memos.js';
+import { latestClusters } from '../study/clusters.js';
 import { clock } from '../sheet/sheet.js';
 import { describeChange } from '../template/describe.js';
 import { walk } from '../template/paths.js';
 import { cosine, sum, normalised } from '../math/sparse.js';
 import { TfidfVectorizer } from '../text/tfidf.js';
-import { currentCodings } from './codings.js';
-import type { DB } from './db.js';
+import { currentCodings } from '../study/codings.js';
+import type { DB } from '../study/db.js';
+import type { Study } from '../study/study.js';
 import { agreement, studyStats } from './measures.js';
-import { modelInputs } from './model.js';
-import { listPassages, type StoredPassage } from './passages.js';
-import { listQuoteChoices } from './quotes.js';
-import { themeMatrix } from './export.js';
+import { modelInputs } from './model-inputs.js';
+import { listPassages, type StoredPassage } from '../study/passages.js';
+import { listQuoteChoices } from '../study/quotes.js';
+import { themeMatrix } from '../study/export.js';
 import { studyPseudonymiser } from './aliases.js';
 import { pseudonymiseReport } from '../report/pseudonyms.js';
 import { chooseQuotes, type ChosenQuote, type QuoteTheme } from '../report/quotes.js';
 import { studyStatus, themeCounts } from './status.js';
-import { currentTemplate, revisionHistory } from './template.js';
+import { currentTemplate, revisionHistory } from '../study/template.js';
 
 export interface ReportOptions {
-  studyDir: string;
   title?: string;
   /** Quotes per theme (the report takes 3, the codebook 2). */
   quotes?: number;
@@ -34,12 +34,13 @@ export interface ReportOptions {
 }
 
 /** Gathers everything the report and the codebook show, from the study, in one pass. */
-export function reportData(db: DB, opts: ReportOptions): ReportData {
-  const data = gather(db, opts);
-  return opts.pseudonymise ? pseudonymiseReport(data, studyPseudonymiser(db)) : data;
+export function reportData(study: Study, opts: ReportOptions): ReportData {
+  const data = gather(study, opts);
+  return opts.pseudonymise ? pseudonymiseReport(data, studyPseudonymiser(study.db)) : data;
 }
 
-function gather(db: DB, opts: ReportOptions): ReportData {
+function gather(study: Study, opts: ReportOptions): ReportData {
+  const { db } = study;
   const template = currentTemplate(db);
   const entries = [...walk(template)];
   const status = studyStatus(db);
@@ -79,7 +80,7 @@ function gather(db: DB, opts: ReportOptions): ReportData {
   const agree = humanCoders.length >= 2 ? agreement(db, { coders: humanCoders }) : null;
 
   return {
-    title: opts.title ?? basename(resolve(opts.studyDir)),
+    title: opts.title ?? basename(study.dir),
     generatedAt: new Date().toISOString(),
     counts: {
       transcripts: status.transcripts,

@@ -2,11 +2,12 @@
 // score from it instead of fitting again, with the same results as a new fit.
 import { describe, expect, it } from 'vitest';
 import { codedDemoStudy } from '../cli/run.js';
-import { openStudy, type DB } from '../../src/study/db.js';
+import type { DB } from '../../src/study/db.js';
+import { openStudy } from '../../src/study/study.js';
 import { decide } from '../../src/study/decisions.js';
-import { runDiscovery, triageStudy } from '../../src/study/discovery.js';
+import { runDiscovery, triageStudy } from '../../src/jobs/discovery.js';
 import { KEPT_STATES } from '../../src/study/model-store.js';
-import { fitModel, suggest, type SuggestRun } from '../../src/study/suggestions.js';
+import { fitModel, suggest, type SuggestRun } from '../../src/jobs/suggest.js';
 
 const states = (db: DB) => db.prepare('SELECT inputs, fingerprint FROM model_states ORDER BY created_at').all() as { inputs: string; fingerprint: string }[];
 const runKey = (db: DB, id: number) => (db.prepare('SELECT model_inputs FROM suggestion_runs WHERE id = ?').get(id) as { model_inputs: string }).model_inputs;
@@ -15,7 +16,7 @@ const content = (r: SuggestRun) => r.passages.map((p) => ({ ...p, candidates: p.
 
 describe('stored model state', () => {
   it('is written by suggest and reused by the next suggest on the same inputs, which suggests the same', () => {
-    const db = openStudy(codedDemoStudy());
+    const db = openStudy(codedDemoStudy()).db;
     expect(states(db)).toHaveLength(0);
     const first = suggest(db, { top: 5 });
     expect(states(db)).toEqual([{ inputs: runKey(db, first.runId), fingerprint: first.fingerprint }]);
@@ -38,8 +39,8 @@ describe('stored model state', () => {
 
   it('gives discover and triage the results of a new fit', () => {
     const dir = codedDemoStudy();
-    const fresh = openStudy(codedDemoStudy());
-    const db = openStudy(dir);
+    const fresh = openStudy(codedDemoStudy()).db;
+    const db = openStudy(dir).db;
     suggest(db, { top: 3 });
     expect(fitModel(db).reused).toBe(true);
     const reused = runDiscovery(db);
@@ -52,7 +53,7 @@ describe('stored model state', () => {
   });
 
   it('is not written by a command that fails, and only the latest few are kept', () => {
-    const db = openStudy(codedDemoStudy());
+    const db = openStudy(codedDemoStudy()).db;
     expect(() => runDiscovery(db, { k: 100000 })).toThrow(/out of range/);
     expect(states(db)).toHaveLength(0);
     for (let i = 0; i < KEPT_STATES + 1; i++) suggest(db, { targetPrecision: 0.5 + i / 20 });
@@ -68,11 +69,11 @@ describe('stored model state', () => {
 describe('stored model state and a replaced transcript', () => {
   it('is dropped when a transcript is replaced, and no reason or cluster quotes the old text any more', async () => {
     const { readTranscriptFile } = await import('../../src/ingest/read.js');
-    const { importTranscripts } = await import('../../src/study/import.js');
+    const { importTranscripts } = await import('../../src/jobs/import.js');
     const { writeFileSync, mkdtempSync } = await import('node:fs');
     const { join } = await import('node:path');
     const { tmpdir } = await import('node:os');
-    const db = openStudy(codedDemoStudy());
+    const db = openStudy(codedDemoStudy()).db;
     suggest(db, { top: 1 });
     const stored = () => (db.prepare('SELECT state FROM model_states').all() as { state: Buffer }[]).length;
     expect(stored()).toBe(1);
