@@ -28,7 +28,11 @@ Ethics approval, consent, de-identification and data-protection duties remain wi
 research team, under their institution's rules.`;
 
 export function buildProgram(): Command {
+  // Set before the commands are added: a command inherits it when it is made, so a mistake in a
+  // command's own options returns exit status 1 through main() instead of ending the process
+  // from inside commander (which a warm test process, or any caller of main(), cannot survive).
   const program = new Command('trellis')
+    .exitOverride()
     .description('Apply a template of themes to new interview transcripts: import, code, and keep an audit trail.')
     .version('0.1.0')
     .showHelpAfterError('(run with --help for usage)')
@@ -84,7 +88,6 @@ export async function main(argv: string[]): Promise<number> {
     });
   }
   const program = buildProgram();
-  program.exitOverride();
   try {
     await program.parseAsync(argv);
     return 0;
