@@ -227,10 +227,13 @@ function lloydSteps(p: Points, start: Float64Array, k: number, maxIterations: nu
   let next: Float64Array = new Float64Array(ct.length);
   let iterations = 0;
   let converged = false;
+  // The E-step that found no label changing ran on the final centres: its inertia is the answer.
+  let fixedPoint: number | null = null;
   while (iterations < maxIterations) {
-    const { changed } = eStep(p, ct, centreNorms(ct, k), k, labels, dist);
+    const { changed, inertia } = eStep(p, ct, centreNorms(ct, k), k, labels, dist);
     if (changed === 0) {
       converged = true;
+      fixedPoint = inertia;
       break;
     }
     iterations++;
@@ -257,7 +260,7 @@ function lloydSteps(p: Points, start: Float64Array, k: number, maxIterations: nu
       break;
     }
   }
-  const { inertia } = eStep(p, ct, centreNorms(ct, k), k, labels, dist);
+  const inertia = fixedPoint ?? eStep(p, ct, centreNorms(ct, k), k, labels, dist).inertia;
   return { labels, inertia, ct, iterations, converged };
 }
 
