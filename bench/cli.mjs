@@ -5,7 +5,7 @@ import { join } from 'node:path';
 
 const RUN = join(import.meta.dirname, 'run-cli.mjs');
 // The launcher's own node flags (its #! line), so a benchmark runs the command as bin/trellis does.
-const FLAGS = readFileSync(join(import.meta.dirname, '../bin/trellis'), 'utf8').split('\n')[0].split(/\s+/).filter((f) => f.startsWith('--'));
+export const FLAGS = readFileSync(join(import.meta.dirname, '../bin/trellis'), 'utf8').split('\n')[0].split(/\s+/).filter((f) => f.startsWith('--'));
 
 /**
  * Runs `trellis ARGS` in a child process. With `out`, stdout goes to that file. Returns the

@@ -7,6 +7,8 @@
 // triage --json, stats --json, report --out and the first screen of review (in a pseudo-terminal
 // made by `script`, timed until the first passage and its key line are drawn), beside the
 // scikit-learn peer's vectorise + fit + predict and KMeans on the same passages, in the same run.
+// After the steps, bench/steps.mjs splits suggest (fit / score / store) and discover (model / pool /
+// clustering) in-process on a copy of the study, so the table shows which part misses its target.
 //
 //   node bench/scale.mjs [--max N] [--transcripts N] [--studies survey,interviews] [--table]
 //   env SCALE=0.25 (shrink both full sizes), SIZES=0.125,0.25,0.5,1 (fractions of the full size)
@@ -18,7 +20,7 @@ import { copyFileSync, existsSync, mkdirSync, readFileSync, readdirSync, rmSync,
 import { basename, extname, join, resolve } from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
-import { PEER_SCRIPT, trellis } from './cli.mjs';
+import { FLAGS, PEER_SCRIPT, trellis } from './cli.mjs';
 
 const root = resolve(import.meta.dirname, '..');
 const args = process.argv.slice(2);
@@ -216,7 +218,12 @@ async function runStudy(kind, n) {
     const c = peerRun('cluster', pj, String(k));
     kmeans = { seconds: c.seconds, k, pool: pool.size, maxRssMiB: c.maxRssMiB };
   }
-  return { kind, size: n, passages: passages.length, coded: coded.length, words: src.words, repeats: src.repeats, steps, peer, kmeans };
+  // Where suggest's and discover's time goes (bench/steps.mjs, on a copy of the study).
+  let split = null;
+  const sp = spawnSync(process.execPath, [...FLAGS, join(root, 'bench', 'steps.mjs'), study], { encoding: 'utf8', maxBuffer: 1 << 24 });
+  if (sp.status === 0) split = JSON.parse(sp.stdout.trim().split('\n').pop());
+  else process.stderr.write(`  ${kind} ${n}: steps split failed: ${sp.stderr.split('\n').slice(0, 2).join(' ')}\n`);
+  return { kind, size: n, passages: passages.length, coded: coded.length, words: src.words, repeats: src.repeats, steps, peer, kmeans, split };
 }
 
 // ---------------------------------------------------------------- the run and the tables
@@ -263,8 +270,13 @@ for (const kind of studies) {
   row(['peer: vectorise + ComplementNB', ...rs.map((r) => `${r.peer.complement_nb.toFixed(2)} / ${((r.peer.complement_nb / r.passages) * 1000).toFixed(3)} / ${r.peer.maxRssMiB.toFixed(0)}`), '']);
   row(['peer: vectorise + best model', ...rs.map((r) => `${r.peer.best.toFixed(2)} (${r.peer.best_model}) / ${((r.peer.best / r.passages) * 1000).toFixed(3)}`), '']);
   row(['KMeans on the pool (vectorise + fit)', ...rs.map((r) => (r.kmeans ? `${r.kmeans.seconds.toFixed(2)} (${r.kmeans.pool} passages, k ${r.kmeans.k}) / ${r.kmeans.maxRssMiB.toFixed(0)} MiB` : '-')), '']);
+  const sec = (v) => (v === undefined ? '-' : v.toFixed(2));
+  row(['suggest, in-process: fit / score / store', ...rs.map((r) => (r.split ? `${sec(r.split.suggest.fit)} / ${sec(r.split.suggest.score)} / ${sec(r.split.suggest.store)}` : '-')), '']);
+  row(['discover, in-process: model (stored state) / pool / clustering', ...rs.map((r) => (r.split ? `${sec(r.split.discover.model)} / ${sec(r.split.discover.pool)} / ${sec(r.split.discover.cluster)}` : '-')), '']);
   row(['suggest / best peer', ...rs.map((r) => ratio(r.steps.suggest.wall, r.peer.best)), '<= 2']);
+  row(['suggest\'s fit alone / best peer', ...rs.map((r) => ratio(r.split?.suggest.fit, r.peer.best)), '']);
   row(['discover / KMeans', ...rs.map((r) => ratio(r.steps.discover.wall, r.kmeans?.seconds)), '<= 2']);
+  row(['discover\'s clustering alone / KMeans', ...rs.map((r) => ratio(r.split?.discover.cluster, r.kmeans?.seconds)), '']);
   row(['add words/s (cold)', ...rs.map((r) => (ok(r.steps.add) ? `${(r.words / r.steps.add.wall / 1000).toFixed(0)}k` : '-')), '>= 500k']);
   const peakOf = (r) => Math.max(...Object.values(r.steps).filter(ok).map((s) => s.maxRssMiB));
   const peak = Math.max(...rs.map(peakOf));
