@@ -91,9 +91,9 @@ export class ThemeSuggester {
   private exemplarIds: string[] = [];
   /** [passage][theme] combined score and confidence. */
   private score = new Float64Array(0);
-  private conf = new Float64Array(0);
-  private ctxPart = new Float64Array(0);
-  private nearest = new Int32Array(0);
+  private conf: Float64Array = new Float64Array(0);
+  private ctxPart: Float64Array = new Float64Array(0);
+  private nearest: Int32Array = new Int32Array(0);
   private nearestSim = new Float64Array(0);
   /**
    * Per vocabulary term: whether a reason may cite it. Function words, pronouns, titles, numbers
@@ -171,10 +171,6 @@ export class ThemeSuggester {
     this.evidence = this.evidenceOf(prof, nT);
 
     const profiled = themes.map((_, t) => prof.positives[t]! > 0);
-    const nP = passages.length;
-    this.nearest = new Int32Array(nP * nT).fill(-1);
-    this.nearestSim = new Float64Array(nP * nT);
-    this.score = new Float64Array(nP * nT);
     progress(0);
     // The few-example scorer gives the confidences; the profiles above give reasons and reports.
     const few = fitFewshot(passages, codings, themes, { targetPrecision: o.targetPrecision, ...o.fewshot }, extra.negatives ?? [], (d) => progress(0.95 * d));
@@ -282,24 +278,25 @@ export class ThemeSuggester {
     m.termLists = state.options.bigrams ? passages.map((p) => withBigrams(p.terms, true)) : passages.map((p) => p.terms);
     m.counts = m.termLists.map((l) => m.vec.vectorAndCounts(l).counts);
     m.evidence = state.evidence.map((e) => new Map(e.indices.map((i, k) => [i, e.weights[k]!])));
-    const n = passages.length * themes.length;
-    m.score = new Float64Array(n);
-    m.nearest = new Int32Array(n);
-    m.nearestSim = new Float64Array(n);
     m.useCells(scoreFewshot(state.fewshot, themes, passages), state.fewshot);
     return m;
   }
 
-  /** Takes the few-example scorer's confidences, context parts and nearest coded passages. */
+  /**
+   * Takes the few-example scorer's confidences, context parts and nearest coded passages (its own
+   * arrays, not copies: nothing else keeps them), once the scoring's own arrays are freed.
+   */
   private useCells(cells: ScoredCells, few: FewshotState): void {
-    this.conf = new Float64Array(cells.conf);
-    this.ctxPart = new Float64Array(cells.context);
+    this.conf = cells.conf;
+    this.ctxPart = cells.context;
+    this.nearest = cells.nearest;
+    this.score = new Float64Array(cells.conf.length);
+    this.nearestSim = new Float64Array(cells.conf.length);
     this.exemplarIds = few.coded.map((c) => c.id);
     for (let cell = 0; cell < this.conf.length; cell++) {
       const c = Math.min(Math.max(this.conf[cell]!, 1e-12), 1 - 1e-12);
       this.score[cell] = Math.log(c / (1 - c));
       const ci = cells.nearest[cell]!;
-      this.nearest[cell] = ci;
       this.nearestSim[cell] = ci >= 0 ? cells.raw[cell * 4 + 2]! : 0;
     }
   }
@@ -367,7 +364,7 @@ export class ThemeSuggester {
         confidence: conf[o + t]!,
         aboveThreshold: conf[o + t]! >= st.thresholds[t]!,
         chosen: chosen.has(t),
-        reasons: r < withReasons || chosen.has(t) ? this.reasons(p, t, seeds[t]!, have, chosen.has(t)) : [],
+        reasons: r < withReasons || chosen.has(t) ? this.reasons(p, t, seeds[t]!, have, chosen.has(t)) : NO_REASONS,
       }));
       return { passageId: id, transcript: this.passages[p]!.transcript, candidates, unclaimed: chosen.size === 0 };
     });
@@ -454,6 +451,12 @@ export class ThemeSuggester {
   }
 
 }
+
+/**
+ * The reasons of a candidate given none: one frozen list shared by all of them (a bulk run
+ * returns a candidate for every theme of every passage, most of them without reasons).
+ */
+const NO_REASONS = Object.freeze([]) as unknown as Reason[];
 
 /** Whether a term can be cited as evidence: a word of two letters or more, not a function word. */
 export function citable(term: string): boolean {
