@@ -326,11 +326,13 @@ export function fitFewshot(
       // themes in proportion to their confidences, weighted by em, and the model is refitted.
       shares = softShares(conf, x, ids, codedT, transcriptOf, tree, o.em, negOf, like);
       shareAt = new Map(shares.map((sp) => [pIndex.get(sp.id)!, sp]));
-      st.R.set(base.R);
       st.tot.set(base.tot);
       st.G.set(base.G);
       st.gtot = base.gtot;
-      addSoft(st, softTotals(shares, nT, V));
+      // The soft counts are summed in st.R itself, then the base counts added (a third V x nT
+      // array per round otherwise).
+      st.R.fill(0);
+      addSoft(st, softTotals(shares, nT, V, st.R), base.R);
     }
     // After the first round only the Naive Bayes signals change: the others are kept.
     if (round === 0) {
@@ -559,9 +561,11 @@ function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT
   return out;
 }
 
-/** The soft counts the shares add up to (the fit and the scoring of a stored state sum them alike). */
-function softTotals(shares: readonly SoftPassage[], nT: number, V: number): Soft {
-  const R = new Float64Array(nT * V);
+/**
+ * The soft counts the shares add up to (the fit and the scoring of a stored state sum them
+ * alike), in R when given (all zeros).
+ */
+function softTotals(shares: readonly SoftPassage[], nT: number, V: number, R: Float64Array = new Float64Array(nT * V)): Soft {
   const G = new Float64Array(V);
   let mass = 0;
   for (const sp of shares) {
@@ -585,16 +589,23 @@ function shareOf(sp: SoftPassage, nT: number): { theme: Float64Array; all: numbe
   return { theme, all: sp.all };
 }
 
-/** Adds the soft counts to the stats: each theme's total sums them in term order. */
-function addSoft(st: Stats, soft: Soft): void {
+/**
+ * Adds the soft counts to the stats: each theme's total sums them in term order. With `base`,
+ * the soft counts are st.R's own (softTotals summed them there) and base holds the counts they
+ * are added to.
+ */
+function addSoft(st: Stats, soft: Soft, base?: Float64Array): void {
   const { nT } = st;
   const V = soft.G.length;
   for (let j = 0; j < V; j++) {
     const off = j * nT;
     for (let t = 0; t < nT; t++) {
       const v = soft.R[off + t]!;
-      if (!v) continue;
-      st.R[off + t] = st.R[off + t]! + v;
+      if (!v) {
+        if (base) st.R[off + t] = base[off + t]!;
+        continue;
+      }
+      st.R[off + t] = (base ? base[off + t]! : st.R[off + t]!) + v;
       st.tot[t] = st.tot[t]! + v;
     }
     if (soft.G[j]) st.G[j] = st.G[j]! + soft.G[j]!;
