@@ -24,6 +24,7 @@
  * The outcome is the theme itself (not a sub-theme of it): a parent is likely only when coders
  * gave the parent itself.
  */
+import { Buffer } from 'node:buffer';
 import { TfidfVectorizer, type TfidfState } from '../text/tfidf.js';
 import type { SparseVector } from '../math/sparse.js';
 import { buildTree, type Tree } from './hierarchy.js';
@@ -124,7 +125,7 @@ export interface Calibration {
 
 /** The learned state: enough to score any passage, including one added after the fit. */
 export interface FewshotState {
-  version: 2;
+  version: 3;
   options: FewshotResolved;
   tfidf: TfidfState;
   themes: { id: string; path: string; parent: number; depth: number; children: number; direct: number; rolled: number; transcripts: number }[];
@@ -306,8 +307,8 @@ export function fitFewshot(
   const nP = passages.length;
   // Base counts, kept so that each round of the uncoded passages' soft counts starts from them.
   const base = { R: st.R.slice(), tot: st.tot.slice(), G: st.G.slice(), gtot: st.gtot };
-  let shares: SoftPassage[] = [];
-  let shareAt = new Map<number, SoftPassage>();
+  let shares: Share[] = [];
+  let shareAt = new Map<number, Share>();
   let raw!: Float64Array;
   let nearest!: Int32Array;
   let rows!: number[];
@@ -421,7 +422,7 @@ export function fitFewshot(
     transcripts: new Set(state0.coded.filter((c) => c.themes.includes(t)).map((c) => c.transcript)).size,
   }));
   const state: FewshotState = {
-    version: 2,
+    version: 3,
     options: o,
     tfidf: vec.state,
     themes: themesOut,
@@ -429,7 +430,7 @@ export function fitFewshot(
     all: denseToSparse(base.G),
     coded: codedIdx.map((p, ci) => ({ id: passages[p]!.id, transcript: passages[p]!.transcript, ...sp(x[p]!), themes: state0.coded[ci]!.themes })),
     rejected: rejected.map((r) => ({ ...sp(r.vector), themes: r.themes })),
-    soft: shares,
+    soft: shares.map((sh) => storedShare(sh, nT)),
     seeds: seedVecs.map(sp),
     unitMass: st.unit,
     seedScale,
@@ -453,7 +454,7 @@ export function fitFewshot(
  * look at their neighbours.
  */
 export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages: ModelPassage[]): ScoredCells {
-  if (state.version !== 2) throw new Error(`fewshot state version ${String(state.version)} is not this version's (2): fit again`);
+  if (state.version !== 3) throw new Error(`fewshot state version ${String(state.version)} is not this version's (3): fit again`);
   const o = state.options;
   const tree = buildTree(themes);
   const vec = TfidfVectorizer.fromState(state.tfidf);
@@ -471,8 +472,9 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   const codedId = new Map(state.coded.map((c, ci) => [c.id, ci]));
   const rejected = state.rejected.map((r) => ({ vector: dense(r), themes: r.themes }));
   const st = buildStats(coded, tree, V, state.seeds.map(dense), o, rejected);
-  addSoft(st, softTotals(state.soft, nT, V));
-  const ownShare = new Map(o.emLeaveOut ? state.soft.map((sp) => [sp.id, sp]) : []);
+  const soft = state.soft.map(shareOfStored);
+  addSoft(st, softTotals(soft, nT, V));
+  const ownShare = new Map(o.emLeaveOut ? soft.map((sh) => [sh.id, sh]) : []);
   st.words = passages.map((p) => p.words ?? p.terms.length);
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
   const members: number[][] = [];
@@ -513,13 +515,56 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
 }
 
 /** An uncoded passage's part of the soft counts: its vector, its weight per theme (sparse), and over all themes. */
+interface Share {
+  id: string;
+  indices: ArrayLike<number>;
+  values: ArrayLike<number>;
+  themes: ArrayLike<number>;
+  weights: ArrayLike<number>;
+  all: number;
+}
+
+/**
+ * A Share as the state stores it. Its doubles are little-endian bytes in base64: exact, and
+ * about half the text of their decimals (nearly every uncoded passage has a weight for nearly
+ * every theme: the shares were 97% of a stored state, 93 MB of JSON at 10,000 answers).
+ */
 export interface SoftPassage {
   id: string;
+  /** The passage's vector: its term indices, and their weights (base64 doubles). */
   indices: number[];
-  values: number[];
-  themes: number[];
-  weights: number[];
+  values: string;
+  /** The themes with a weight, one bit each (theme t: byte t >> 3, bit t & 7), in base64. */
+  themes: string;
+  /** Their weights in theme order (base64 doubles). */
+  weights: string;
   all: number;
+}
+
+function storedShare(sh: Share, nT: number): SoftPassage {
+  const bits = Buffer.alloc((nT + 7) >> 3);
+  for (let q = 0; q < sh.themes.length; q++) bits[sh.themes[q]! >> 3] |= 1 << (sh.themes[q]! & 7);
+  return { id: sh.id, indices: Array.from(sh.indices), values: packDoubles(sh.values), themes: bits.toString('base64'), weights: packDoubles(sh.weights), all: sh.all };
+}
+
+function shareOfStored(sp: SoftPassage): Share {
+  const bits = Buffer.from(sp.themes, 'base64');
+  const themes: number[] = [];
+  for (let t = 0; t < bits.length * 8; t++) if (bits[t >> 3]! & (1 << (t & 7))) themes.push(t);
+  return { id: sp.id, indices: sp.indices, values: unpackDoubles(sp.values), themes, weights: unpackDoubles(sp.weights), all: sp.all };
+}
+
+function packDoubles(a: ArrayLike<number>): string {
+  const b = Buffer.allocUnsafe(a.length * 8);
+  for (let i = 0; i < a.length; i++) b.writeDoubleLE(a[i]!, i * 8);
+  return b.toString('base64');
+}
+
+function unpackDoubles(s: string): Float64Array {
+  const b = Buffer.from(s, 'base64');
+  const out = new Float64Array(b.length >> 3);
+  for (let i = 0; i < out.length; i++) out[i] = b.readDoubleLE(i * 8);
+  return out;
 }
 
 /** Soft counts per (term, theme) and per term over all themes, dense, with their total mass. */
@@ -547,16 +592,16 @@ function softShare(conf: Float64Array, p: number, nT: number, tree: Tree, weight
 }
 
 /** Each uncoded passage's soft weights (theme indices and values, and over all themes), in passage order. */
-function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, weight: number, negOf: Map<number, number[]>, like: Float64Array): SoftPassage[] {
+function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, weight: number, negOf: Map<number, number[]>, like: Float64Array): Share[] {
   const nT = tree.themes.length;
-  const out: SoftPassage[] = [];
+  const out: Share[] = [];
   for (let p = 0; p < x.length; p++) {
     if (codedT[transcriptOf[p]!]) continue;
     const w = softShare(conf, p, nT, tree, weight, negOf.get(p), like);
     const themes: number[] = [];
     const weights: number[] = [];
     for (let t = 0; t < nT; t++) if (w.theme[t]) themes.push(t), weights.push(w.theme[t]!);
-    out.push({ id: ids[p]!, indices: [...x[p]!.indices], values: [...x[p]!.values], themes, weights, all: w.all });
+    out.push({ id: ids[p]!, indices: x[p]!.indices, values: x[p]!.values, themes, weights, all: w.all });
   }
   return out;
 }
@@ -565,7 +610,7 @@ function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT
  * The soft counts the shares add up to (the fit and the scoring of a stored state sum them
  * alike), in R when given (all zeros).
  */
-function softTotals(shares: readonly SoftPassage[], nT: number, V: number, R: Float64Array = new Float64Array(nT * V)): Soft {
+function softTotals(shares: readonly Share[], nT: number, V: number, R: Float64Array = new Float64Array(nT * V)): Soft {
   const G = new Float64Array(V);
   let mass = 0;
   for (const sp of shares) {
@@ -583,10 +628,10 @@ function softTotals(shares: readonly SoftPassage[], nT: number, V: number, R: Fl
 }
 
 /** A stored share as the dense weights rawSignals takes out. */
-function shareOf(sp: SoftPassage, nT: number): { theme: Float64Array; all: number } {
+function shareOf(sh: Share, nT: number): { theme: Float64Array; all: number } {
   const theme = new Float64Array(nT);
-  sp.themes.forEach((t, q) => (theme[t] = sp.weights[q]!));
-  return { theme, all: sp.all };
+  for (let q = 0; q < sh.themes.length; q++) theme[sh.themes[q]!] = sh.weights[q]!;
+  return { theme, all: sh.all };
 }
 
 /**

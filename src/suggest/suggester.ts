@@ -49,7 +49,7 @@ export function resolveOptions(o: SuggesterOptions = {}): ResolvedOptions {
 }
 
 /** The version of SuggesterState this build writes and reads (a stored state of another is fitted again). */
-export const STATE_VERSION = 4;
+export const STATE_VERSION = 5;
 
 export interface SuggesterState {
   version: typeof STATE_VERSION;
