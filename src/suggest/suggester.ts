@@ -81,7 +81,6 @@ export class ThemeSuggester {
   private pIndex = new Map<string, number>();
   private tree!: Tree;
   private vec!: TfidfVectorizer;
-  private profiles!: Profiles;
   private termLists: string[][] = [];
   /** Raw term counts of each passage (same vocabulary as `vec`). */
   private counts: SparseVector[] = [];
@@ -165,7 +164,8 @@ export class ThemeSuggester {
     this.checkable = Uint8Array.from({ length: this.vec.size }, (_, i) => (citable(this.vec.term(i)) ? 1 : 0));
     const nT = themes.length;
     const corpus: Corpus = { x, c, vocabulary: this.vec.size, transcriptOf, members, codedTranscript, labels: labelsInBatch, negatives: negs, themes: nT };
-    const prof = (this.profiles = new Profiles(corpus, o.priorStrength, o.rocchio));
+    // The profiles serve the fit only (reports, evidence, the fingerprint): not kept after it.
+    const prof = new Profiles(corpus, o.priorStrength, o.rocchio);
     this.counts = c;
     this.exemplarIds = passages.map((p) => p.id);
     this.evidence = this.evidenceOf(prof, nT);
@@ -207,7 +207,7 @@ export class ThemeSuggester {
         path: th.path,
         exemplars: prof.positives[t]!,
         transcripts: prof.positiveTranscripts[t]!,
-        topTerms: profiled[t] ? this.topTerms(t, 10) : [],
+        topTerms: profiled[t] ? this.topTerms(prof, t, 10) : [],
         threshold: thresholds[t]!,
         expectedPrecision,
         expectedRecall,
@@ -420,10 +420,10 @@ export class ThemeSuggester {
   }
 
   /** The theme's most distinctive terms by z (rounded, as reported), ties by term. */
-  private topTerms(t: number, n: number): TermWeight[] {
-    const { nT, vc, termOf } = this.profiles;
-    const delta = this.profiles.fullDelta();
-    const z = this.profiles.fullZ();
+  private topTerms(prof: Profiles, t: number, n: number): TermWeight[] {
+    const { nT, vc, termOf } = prof;
+    const delta = prof.fullDelta();
+    const z = prof.fullZ();
     // Only the terms whose rounded z reaches the n-th largest need an object.
     const rz: number[] = [];
     for (let l = 0; l < vc; l++) if (delta[l * nT + t]! > 0 && this.checkable[termOf[l]!]) rz.push(round(z[l * nT + t]!));
