@@ -88,8 +88,7 @@ export class ThemeSuggester {
   private evidence: Map<number, number>[] = [];
   /** What `nearest` indexes: the coded passages' ids (few-example scorer) or every passage's. */
   private exemplarIds: string[] = [];
-  /** [passage][theme] combined score and confidence. */
-  private score = new Float64Array(0);
+  /** [passage][theme] confidence (a candidate's score is its log-odds, worked out when asked for). */
   private conf: Float64Array = new Float64Array(0);
   private ctxPart: Float64Array = new Float64Array(0);
   private nearest: Int32Array = new Int32Array(0);
@@ -254,7 +253,7 @@ export class ThemeSuggester {
     // would be millions of numbers): its calibration, threshold and options are hashed as text.
     const f = this.st.fewshot;
     const light = { ...this.st, fewshot: { options: f.options, calibration: f.calibration, seedCalibration: f.seedCalibration, threshold: f.threshold, seedScale: f.seedScale } };
-    this.fp = fingerprint([JSON.stringify(light), prof.s, prof.y, this.score, this.conf]);
+    this.fp = fingerprint([JSON.stringify(light), prof.s, prof.y, Float64Array.from(this.conf, logOdds), this.conf]);
     return this;
   }
 
@@ -290,12 +289,9 @@ export class ThemeSuggester {
     this.conf = cells.conf;
     this.ctxPart = cells.context;
     this.nearest = cells.nearest;
-    this.score = new Float64Array(cells.conf.length);
     this.nearestSim = new Float64Array(cells.conf.length);
     this.exemplarIds = few.coded.map((c) => c.id);
     for (let cell = 0; cell < this.conf.length; cell++) {
-      const c = Math.min(Math.max(this.conf[cell]!, 1e-12), 1 - 1e-12);
-      this.score[cell] = Math.log(c / (1 - c));
       const ci = cells.nearest[cell]!;
       this.nearestSim[cell] = ci >= 0 ? cells.raw[cell * 4 + 2]! : 0;
     }
@@ -347,20 +343,20 @@ export class ThemeSuggester {
     for (let t = 0; t < nT; t++) if (st.themes[t]!.scored) scoredThemes.push(t);
     const seeds = this.tree.themes.map((th) => this.seedList(th));
     const conf = this.conf;
-    const score = this.score;
     return ids.map((id, i) => {
       if (i % 500 === 0) progress(i / ids.length);
       const p = this.pIndex.get(id);
       if (p === undefined) throw new UserError(`passage ${id} is not in the study the model was fitted on`);
       const o = p * nT;
-      const scored = scoredThemes.slice().sort((a, b) => conf[o + b]! - conf[o + a]! || score[o + b]! - score[o + a]! || a - b);
+      // (Equal confidences have equal scores: ties go by theme.)
+      const scored = scoredThemes.slice().sort((a, b) => conf[o + b]! - conf[o + a]! || a - b);
       const above = scored.filter((t) => conf[o + t]! >= st.thresholds[t]!);
       const chosen = chooseThemes(this.tree, above);
       const explain = scored.filter((t, r) => r < withReasons || chosen.has(t));
       const have = explain.some((t) => seeds[t]!.length) ? new Set(this.termLists[p]) : null;
       const candidates: Candidate[] = scored.map((t, r) => ({
         themeId: st.themes[t]!.id,
-        score: score[o + t]!,
+        score: logOdds(conf[o + t]!),
         confidence: conf[o + t]!,
         aboveThreshold: conf[o + t]! >= st.thresholds[t]!,
         chosen: chosen.has(t),
@@ -461,6 +457,12 @@ const NO_REASONS = Object.freeze([]) as unknown as Reason[];
 /** Whether a term can be cited as evidence: a word of two letters or more, not a function word. */
 export function citable(term: string): boolean {
   return !isFunctionWord(term) && /^\p{L}[\p{L}'’-]*\p{L}$/u.test(term);
+}
+
+/** A candidate's score: the log-odds of its confidence, kept off 0 and 1. */
+function logOdds(conf: number): number {
+  const c = Math.min(Math.max(conf, 1e-12), 1 - 1e-12);
+  return Math.log(c / (1 - c));
 }
 
 function round(v: number): number {
