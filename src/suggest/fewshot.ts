@@ -305,8 +305,9 @@ export function fitFewshot(
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
 
   const nP = passages.length;
-  // Base counts, kept so that each round of the uncoded passages' soft counts starts from them.
-  const base = { R: st.R.slice(), tot: st.tot.slice(), G: st.G.slice(), gtot: st.gtot };
+  // Base counts, kept so that each round of the uncoded passages' soft counts starts from them
+  // (the term x theme counts as their non-zero cells: the coded passages' terms only).
+  const base = { R: nonZeros(st.R), tot: st.tot.slice(), G: st.G.slice(), gtot: st.gtot };
   let shares: Share[] = [];
   let shareAt = new Map<number, Share>();
   let raw!: Float64Array;
@@ -327,13 +328,12 @@ export function fitFewshot(
       // themes in proportion to their confidences, weighted by em, and the model is refitted.
       shares = softShares(conf, x, ids, codedT, transcriptOf, tree, o.em, negOf, like);
       shareAt = new Map(shares.map((sp) => [pIndex.get(sp.id)!, sp]));
+      st.R.fill(0);
+      for (let k = 0; k < base.R.at.length; k++) st.R[base.R.at[k]!] = base.R.v[k]!;
       st.tot.set(base.tot);
       st.G.set(base.G);
       st.gtot = base.gtot;
-      // The soft counts are summed in st.R itself, then the base counts added (a third V x nT
-      // array per round otherwise).
-      st.R.fill(0);
-      addSoft(st, softTotals(shares, nT, V, st.R), base.R);
+      addShares(st, shares);
     }
     // After the first round only the Naive Bayes signals change: the others are kept.
     if (round === 0) {
@@ -426,7 +426,7 @@ export function fitFewshot(
     options: o,
     tfidf: vec.state,
     themes: themesOut,
-    counts: Array.from({ length: nT }, (_, t) => themeColumn(base.R, t, nT, V)),
+    counts: themeColumns(base.R, nT),
     all: denseToSparse(base.G),
     coded: codedIdx.map((p, ci) => ({ id: passages[p]!.id, transcript: passages[p]!.transcript, ...sp(x[p]!), themes: state0.coded[ci]!.themes })),
     rejected: rejected.map((r) => ({ ...sp(r.vector), themes: r.themes })),
@@ -473,7 +473,7 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   const rejected = state.rejected.map((r) => ({ vector: dense(r), themes: r.themes }));
   const st = buildStats(coded, tree, V, state.seeds.map(dense), o, rejected);
   const soft = state.soft.map(shareOfStored);
-  addSoft(st, softTotals(soft, nT, V));
+  addShares(st, soft);
   const ownShare = new Map(o.emLeaveOut ? soft.map((sh) => [sh.id, sh]) : []);
   st.words = passages.map((p) => p.words ?? p.terms.length);
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
@@ -608,9 +608,9 @@ function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT
 
 /**
  * The soft counts the shares add up to (the fit and the scoring of a stored state sum them
- * alike), in R when given (all zeros).
+ * alike), summed in R (all zeros).
  */
-function softTotals(shares: readonly Share[], nT: number, V: number, R: Float64Array = new Float64Array(nT * V)): Soft {
+function softTotals(shares: readonly Share[], nT: number, V: number, R: Float64Array): Soft {
   const G = new Float64Array(V);
   let mass = 0;
   for (const sp of shares) {
@@ -635,27 +635,36 @@ function shareOf(sh: Share, nT: number): { theme: Float64Array; all: number } {
 }
 
 /**
- * Adds the soft counts to the stats: each theme's total sums them in term order. With `base`,
- * the soft counts are st.R's own (softTotals summed them there) and base holds the counts they
- * are added to.
+ * Adds the shares' soft counts to the stats: each theme's total sums them in term order, and
+ * each count is its own plus the soft one. The soft counts are summed in st.R itself, its own
+ * counts put aside as their non-zero cells (few: the coded passages' terms) and added back, so
+ * that no second term x theme array is needed.
  */
-function addSoft(st: Stats, soft: Soft, base?: Float64Array): void {
-  const { nT } = st;
-  const V = soft.G.length;
+function addShares(st: Stats, shares: readonly Share[]): void {
+  const { nT, V, R } = st;
+  const own = nonZeros(R);
+  R.fill(0);
+  const soft = softTotals(shares, nT, V, R);
   for (let j = 0; j < V; j++) {
     const off = j * nT;
     for (let t = 0; t < nT; t++) {
-      const v = soft.R[off + t]!;
-      if (!v) {
-        if (base) st.R[off + t] = base[off + t]!;
-        continue;
-      }
-      st.R[off + t] = (base ? base[off + t]! : st.R[off + t]!) + v;
-      st.tot[t] = st.tot[t]! + v;
+      const v = R[off + t]!;
+      if (v) st.tot[t] = st.tot[t]! + v;
     }
     if (soft.G[j]) st.G[j] = st.G[j]! + soft.G[j]!;
   }
+  for (let k = 0; k < own.at.length; k++) R[own.at[k]!] = own.v[k]! + R[own.at[k]!]!;
   st.gtot += soft.mass;
+}
+
+/** The non-zero cells of a dense array: their places, in order, and values. */
+function nonZeros(d: Float64Array): { at: Int32Array; v: Float64Array } {
+  let n = 0;
+  for (let i = 0; i < d.length; i++) if (d[i]) n++;
+  const at = new Int32Array(n);
+  const v = new Float64Array(n);
+  for (let i = 0, k = 0; i < d.length; i++) if (d[i]) (at[k] = i), (v[k++] = d[i]!);
+  return { at, v };
 }
 
 /**
@@ -728,15 +737,15 @@ function sparseDot(a: SparseVector, b: SparseVector): number {
   return dot;
 }
 
-/** One theme's column of a term-major count matrix, as a sparse vector. */
-function themeColumn(R: Float64Array, t: number, nT: number, V: number): { indices: number[]; values: number[] } {
-  const indices: number[] = [];
-  const values: number[] = [];
-  for (let j = 0; j < V; j++) {
-    const v = R[j * nT + t]!;
-    if (v) indices.push(j), values.push(v);
+/** Each theme's column of a term-major count matrix (given as its non-zero cells), as a sparse vector. */
+function themeColumns(R: { at: Int32Array; v: Float64Array }, nT: number): { indices: number[]; values: number[] }[] {
+  const out = Array.from({ length: nT }, () => ({ indices: [] as number[], values: [] as number[] }));
+  for (let k = 0; k < R.at.length; k++) {
+    const c = out[R.at[k]! % nT]!;
+    c.indices.push((R.at[k]! / nT) | 0);
+    c.values.push(R.v[k]!);
   }
-  return { indices, values };
+  return out;
 }
 
 function denseToSparse(d: ArrayLike<number>): { indices: number[]; values: number[] } {
