@@ -531,8 +531,9 @@ interface Share {
  */
 export interface SoftPassage {
   id: string;
-  /** The passage's vector: its term indices, and their weights (base64 doubles). */
+  /** The passage's vector: its term indices... */
   indices: number[];
+  /** ...and their weights (base64 doubles). */
   values: string;
   /** The themes with a weight, one bit each (theme t: byte t >> 3, bit t & 7), in base64. */
   themes: string;

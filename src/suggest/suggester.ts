@@ -283,7 +283,8 @@ export class ThemeSuggester {
 
   /**
    * Takes the few-example scorer's confidences, context parts and nearest coded passages (its own
-   * arrays, not copies: nothing else keeps them), once the scoring's own arrays are freed.
+   * arrays, not copies: nothing else keeps them); the model's one array of its own is made only
+   * now, after the scoring.
    */
   private useCells(cells: ScoredCells, few: FewshotState): void {
     this.conf = cells.conf;
