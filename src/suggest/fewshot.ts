@@ -24,6 +24,7 @@
  * The outcome is the theme itself (not a sub-theme of it): a parent is likely only when coders
  * gave the parent itself.
  */
+import { Buffer } from 'node:buffer';
 import { TfidfVectorizer, type TfidfState } from '../text/tfidf.js';
 import type { SparseVector } from '../math/sparse.js';
 import { buildTree, type Tree } from './hierarchy.js';
@@ -124,7 +125,7 @@ export interface Calibration {
 
 /** The learned state: enough to score any passage, including one added after the fit. */
 export interface FewshotState {
-  version: 2;
+  version: 3;
   options: FewshotResolved;
   tfidf: TfidfState;
   themes: { id: string; path: string; parent: number; depth: number; children: number; direct: number; rolled: number; transcripts: number }[];
@@ -260,6 +261,9 @@ export function fitFewshot(
     members[ti]!.push(i);
     transcriptOf[i] = ti;
   });
+  // Each passage's place in its transcript (features are built a transcript at a time).
+  const placeOf = new Int32Array(passages.length);
+  for (const m of members) m.forEach((p, i) => (placeOf[p] = i));
   const codedT = new Uint8Array(members.length);
   direct.forEach((d, p) => d.length && (codedT[transcriptOf[p]!] = 1));
 
@@ -301,10 +305,11 @@ export function fitFewshot(
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
 
   const nP = passages.length;
-  // Base counts, kept so that each round of the uncoded passages' soft counts starts from them.
-  const base = { R: st.R.slice(), tot: st.tot.slice(), G: st.G.slice(), gtot: st.gtot };
-  let shares: SoftPassage[] = [];
-  let shareAt = new Map<number, SoftPassage>();
+  // Base counts, kept so that each round of the uncoded passages' soft counts starts from them
+  // (the term x theme counts as their non-zero cells: the coded passages' terms only).
+  const base = { R: nonZeros(st.R), tot: st.tot.slice(), G: st.G.slice(), gtot: st.gtot };
+  let shares: Share[] = [];
+  let shareAt = new Map<number, Share>();
   let raw!: Float64Array;
   let nearest!: Int32Array;
   let rows!: number[];
@@ -323,11 +328,12 @@ export function fitFewshot(
       // themes in proportion to their confidences, weighted by em, and the model is refitted.
       shares = softShares(conf, x, ids, codedT, transcriptOf, tree, o.em, negOf, like);
       shareAt = new Map(shares.map((sp) => [pIndex.get(sp.id)!, sp]));
-      st.R.set(base.R);
+      st.R.fill(0);
+      for (let k = 0; k < base.R.at.length; k++) st.R[base.R.at[k]!] = base.R.v[k]!;
       st.tot.set(base.tot);
       st.G.set(base.G);
       st.gtot = base.gtot;
-      addSoft(st, softTotals(shares, nT, V));
+      addShares(st, shares);
     }
     // After the first round only the Naive Bayes signals change: the others are kept.
     if (round === 0) {
@@ -358,7 +364,6 @@ export function fitFewshot(
       if (restore) restore();
     }
     seedScale = seedScaleOf(raw, nP, nT);
-    const feats = cellFeatures(st, raw, members, nP, seedScale, like);
 
     // Calibration rows: every cell of the coded transcripts, and each rejection elsewhere (an
     // observation "not this theme").
@@ -366,14 +371,35 @@ export function fitFewshot(
     for (let ti = 0; ti < members.length; ti++) if (codedT[ti]) for (const p of members[ti]!) for (let t = 0; t < nT; t++) rows.push(p * nT + t);
     for (const [p, ts] of [...negOf].sort((a, b) => a[0] - b[0])) if (!codedT[transcriptOf[p]!]) for (const t of ts) rows.push(p * nT + t);
     y = Uint8Array.from(rows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0));
-    calibration = fitCalibration(FEATURES.filter((f) => !o.drop.includes(f)), rows, y, feats, o.ridge, round > 0 ? calibration : null);
+    // First pass: the features of the rows only (the fit learns on them), each transcript with a
+    // row built once and its rows copied out, in row order.
+    const rowFeats = new Float32Array(rows.length * NF);
+    const rowsOfT = new Map<number, number[]>();
+    rows.forEach((cell, i) => {
+      const ti = transcriptOf[(cell / nT) | 0]!;
+      (rowsOfT.get(ti) ?? rowsOfT.set(ti, []).get(ti)!).push(i);
+    });
+    const rowFeatures = new CellFeatures(st, raw, seedScale);
+    for (const [ti, rs] of rowsOfT) {
+      const f = rowFeatures.build(members[ti]!);
+      for (const i of rs) {
+        const cell = rows[i]!;
+        const at = (placeOf[(cell / nT) | 0]! * nT + (cell % nT)) * NF;
+        rowFeats.set(f.subarray(at, at + NF), i * NF);
+      }
+    }
+    const all = rows.map((_, i) => i);
+    calibration = fitCalibration(FEATURES.filter((f) => !o.drop.includes(f)), rowFeats, all, y, o.ridge, round > 0 ? calibration : null);
     // Themes with no coded passage: how a name-and-seeds match alone predicts a coding, learned on
     // the themes that have coded passages (as if they had none).
     const HAS = FEATURES.indexOf('has');
-    const seedRows = rows.filter((cell) => feats[cell * NF + HAS] === 1);
-    seedCalibration = o.drop.includes('seed_only_model') ? null : fitCalibration([...SEED_FEATURES], seedRows, Uint8Array.from(seedRows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0)), feats, o.ridge, round > 0 ? seedCalibration : null);
-    context = new Float64Array(nP * nT);
-    conf = applyCalibration(calibration, seedCalibration, feats, nP * nT, like, context);
+    const seedRows = all.filter((i) => rowFeats[i * NF + HAS] === 1);
+    seedCalibration = o.drop.includes('seed_only_model') ? null : fitCalibration([...SEED_FEATURES], rowFeats, seedRows, Uint8Array.from(seedRows, (i) => y[i]!), o.ridge, round > 0 ? seedCalibration : null);
+    // Second pass: every transcript's features again, each calibrated as soon as it is built.
+    if (round === 0) (conf = new Float64Array(nP * nT)), (context = new Float64Array(nP * nT));
+    const apply = calibrator(calibration, seedCalibration, nT, like, conf, context);
+    const features = new CellFeatures(st, raw, seedScale);
+    for (const m of members) apply(features.build(m), m);
   }
   const heldConf = rows.map((cell) => conf[cell]!);
   let held = chooseThreshold(heldConf, y, o.targetPrecision, 5);
@@ -396,15 +422,15 @@ export function fitFewshot(
     transcripts: new Set(state0.coded.filter((c) => c.themes.includes(t)).map((c) => c.transcript)).size,
   }));
   const state: FewshotState = {
-    version: 2,
+    version: 3,
     options: o,
     tfidf: vec.state,
     themes: themesOut,
-    counts: Array.from({ length: nT }, (_, t) => themeColumn(base.R, t, nT, V)),
+    counts: themeColumns(base.R, nT),
     all: denseToSparse(base.G),
     coded: codedIdx.map((p, ci) => ({ id: passages[p]!.id, transcript: passages[p]!.transcript, ...sp(x[p]!), themes: state0.coded[ci]!.themes })),
     rejected: rejected.map((r) => ({ ...sp(r.vector), themes: r.themes })),
-    soft: shares,
+    soft: shares.map((sh) => storedShare(sh, nT)),
     seeds: seedVecs.map(sp),
     unitMass: st.unit,
     seedScale,
@@ -428,7 +454,7 @@ export function fitFewshot(
  * look at their neighbours.
  */
 export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages: ModelPassage[]): ScoredCells {
-  if (state.version !== 2) throw new Error(`fewshot state version ${String(state.version)} is not this version's (2): fit again`);
+  if (state.version !== 3) throw new Error(`fewshot state version ${String(state.version)} is not this version's (3): fit again`);
   const o = state.options;
   const tree = buildTree(themes);
   const vec = TfidfVectorizer.fromState(state.tfidf);
@@ -446,8 +472,9 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   const codedId = new Map(state.coded.map((c, ci) => [c.id, ci]));
   const rejected = state.rejected.map((r) => ({ vector: dense(r), themes: r.themes }));
   const st = buildStats(coded, tree, V, state.seeds.map(dense), o, rejected);
-  addSoft(st, softTotals(state.soft, nT, V));
-  const ownShare = new Map(o.emLeaveOut ? state.soft.map((sp) => [sp.id, sp]) : []);
+  const soft = state.soft.map(shareOfStored);
+  addShares(st, soft);
+  const ownShare = new Map(o.emLeaveOut ? soft.map((sh) => [sh.id, sh]) : []);
   st.words = passages.map((p) => p.words ?? p.terms.length);
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
   const members: number[][] = [];
@@ -479,19 +506,66 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
     if (restore) restore();
   }
   const like = rejectedLike(xs, rejected, nT);
-  const feats = cellFeatures(st, raw, members, nP, state.seedScale, like);
+  const conf = new Float64Array(nP * nT);
   const context = new Float64Array(nP * nT);
-  return { conf: applyCalibration(state.calibration, state.seedCalibration, feats, nP * nT, like, context), raw, nearest, context };
+  const apply = calibrator(state.calibration, state.seedCalibration, nT, like, conf, context);
+  const features = new CellFeatures(st, raw, state.seedScale);
+  for (const m of members) apply(features.build(m), m);
+  return { conf, raw, nearest, context };
 }
 
 /** An uncoded passage's part of the soft counts: its vector, its weight per theme (sparse), and over all themes. */
+interface Share {
+  id: string;
+  indices: ArrayLike<number>;
+  values: ArrayLike<number>;
+  themes: ArrayLike<number>;
+  weights: ArrayLike<number>;
+  all: number;
+}
+
+/**
+ * A Share as the state stores it. Its doubles are little-endian bytes in base64: exact, and
+ * about half the text of their decimals (nearly every uncoded passage has a weight for nearly
+ * every theme: the shares were 97% of a stored state, 93 MB of JSON at 10,000 answers).
+ */
 export interface SoftPassage {
   id: string;
+  /** The passage's vector: its term indices... */
   indices: number[];
-  values: number[];
-  themes: number[];
-  weights: number[];
+  /** ...and their weights (base64 doubles). */
+  values: string;
+  /** The themes with a weight, one bit each (theme t: byte t >> 3, bit t & 7), in base64. */
+  themes: string;
+  /** Their weights in theme order (base64 doubles). */
+  weights: string;
   all: number;
+}
+
+function storedShare(sh: Share, nT: number): SoftPassage {
+  const bits = Buffer.alloc((nT + 7) >> 3);
+  for (let q = 0; q < sh.themes.length; q++) bits[sh.themes[q]! >> 3] |= 1 << (sh.themes[q]! & 7);
+  return { id: sh.id, indices: Array.from(sh.indices), values: packDoubles(sh.values), themes: bits.toString('base64'), weights: packDoubles(sh.weights), all: sh.all };
+}
+
+function shareOfStored(sp: SoftPassage): Share {
+  const bits = Buffer.from(sp.themes, 'base64');
+  const themes: number[] = [];
+  for (let t = 0; t < bits.length * 8; t++) if (bits[t >> 3]! & (1 << (t & 7))) themes.push(t);
+  return { id: sp.id, indices: sp.indices, values: unpackDoubles(sp.values), themes, weights: unpackDoubles(sp.weights), all: sp.all };
+}
+
+function packDoubles(a: ArrayLike<number>): string {
+  const b = Buffer.allocUnsafe(a.length * 8);
+  for (let i = 0; i < a.length; i++) b.writeDoubleLE(a[i]!, i * 8);
+  return b.toString('base64');
+}
+
+function unpackDoubles(s: string): Float64Array {
+  const b = Buffer.from(s, 'base64');
+  const out = new Float64Array(b.length >> 3);
+  for (let i = 0; i < out.length; i++) out[i] = b.readDoubleLE(i * 8);
+  return out;
 }
 
 /** Soft counts per (term, theme) and per term over all themes, dense, with their total mass. */
@@ -519,23 +593,25 @@ function softShare(conf: Float64Array, p: number, nT: number, tree: Tree, weight
 }
 
 /** Each uncoded passage's soft weights (theme indices and values, and over all themes), in passage order. */
-function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, weight: number, negOf: Map<number, number[]>, like: Float64Array): SoftPassage[] {
+function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, weight: number, negOf: Map<number, number[]>, like: Float64Array): Share[] {
   const nT = tree.themes.length;
-  const out: SoftPassage[] = [];
+  const out: Share[] = [];
   for (let p = 0; p < x.length; p++) {
     if (codedT[transcriptOf[p]!]) continue;
     const w = softShare(conf, p, nT, tree, weight, negOf.get(p), like);
     const themes: number[] = [];
     const weights: number[] = [];
     for (let t = 0; t < nT; t++) if (w.theme[t]) themes.push(t), weights.push(w.theme[t]!);
-    out.push({ id: ids[p]!, indices: [...x[p]!.indices], values: [...x[p]!.values], themes, weights, all: w.all });
+    out.push({ id: ids[p]!, indices: x[p]!.indices, values: x[p]!.values, themes, weights, all: w.all });
   }
   return out;
 }
 
-/** The soft counts the shares add up to (the fit and the scoring of a stored state sum them alike). */
-function softTotals(shares: readonly SoftPassage[], nT: number, V: number): Soft {
-  const R = new Float64Array(nT * V);
+/**
+ * The soft counts the shares add up to (the fit and the scoring of a stored state sum them
+ * alike), summed in R (all zeros).
+ */
+function softTotals(shares: readonly Share[], nT: number, V: number, R: Float64Array): Soft {
   const G = new Float64Array(V);
   let mass = 0;
   for (const sp of shares) {
@@ -553,27 +629,43 @@ function softTotals(shares: readonly SoftPassage[], nT: number, V: number): Soft
 }
 
 /** A stored share as the dense weights rawSignals takes out. */
-function shareOf(sp: SoftPassage, nT: number): { theme: Float64Array; all: number } {
+function shareOf(sh: Share, nT: number): { theme: Float64Array; all: number } {
   const theme = new Float64Array(nT);
-  sp.themes.forEach((t, q) => (theme[t] = sp.weights[q]!));
-  return { theme, all: sp.all };
+  for (let q = 0; q < sh.themes.length; q++) theme[sh.themes[q]!] = sh.weights[q]!;
+  return { theme, all: sh.all };
 }
 
-/** Adds the soft counts to the stats: each theme's total sums them in term order. */
-function addSoft(st: Stats, soft: Soft): void {
-  const { nT } = st;
-  const V = soft.G.length;
+/**
+ * Adds the shares' soft counts to the stats: each theme's total sums them in term order, and
+ * each count is its own plus the soft one. The soft counts are summed in st.R itself, its own
+ * counts put aside as their non-zero cells (few: the coded passages' terms) and added back, so
+ * that no second term x theme array is needed.
+ */
+function addShares(st: Stats, shares: readonly Share[]): void {
+  const { nT, V, R } = st;
+  const own = nonZeros(R);
+  R.fill(0);
+  const soft = softTotals(shares, nT, V, R);
   for (let j = 0; j < V; j++) {
     const off = j * nT;
     for (let t = 0; t < nT; t++) {
-      const v = soft.R[off + t]!;
-      if (!v) continue;
-      st.R[off + t] = st.R[off + t]! + v;
-      st.tot[t] = st.tot[t]! + v;
+      const v = R[off + t]!;
+      if (v) st.tot[t] = st.tot[t]! + v;
     }
     if (soft.G[j]) st.G[j] = st.G[j]! + soft.G[j]!;
   }
+  for (let k = 0; k < own.at.length; k++) R[own.at[k]!] = own.v[k]! + R[own.at[k]!]!;
   st.gtot += soft.mass;
+}
+
+/** The non-zero cells of a dense array: their places, in order, and values. */
+function nonZeros(d: Float64Array): { at: Int32Array; v: Float64Array } {
+  let n = 0;
+  for (let i = 0; i < d.length; i++) if (d[i]) n++;
+  const at = new Int32Array(n);
+  const v = new Float64Array(n);
+  for (let i = 0, k = 0; i < d.length; i++) if (d[i]) (at[k] = i), (v[k++] = d[i]!);
+  return { at, v };
 }
 
 /**
@@ -646,15 +738,15 @@ function sparseDot(a: SparseVector, b: SparseVector): number {
   return dot;
 }
 
-/** One theme's column of a term-major count matrix, as a sparse vector. */
-function themeColumn(R: Float64Array, t: number, nT: number, V: number): { indices: number[]; values: number[] } {
-  const indices: number[] = [];
-  const values: number[] = [];
-  for (let j = 0; j < V; j++) {
-    const v = R[j * nT + t]!;
-    if (v) indices.push(j), values.push(v);
+/** Each theme's column of a term-major count matrix (given as its non-zero cells), as a sparse vector. */
+function themeColumns(R: { at: Int32Array; v: Float64Array }, nT: number): { indices: number[]; values: number[] }[] {
+  const out = Array.from({ length: nT }, () => ({ indices: [] as number[], values: [] as number[] }));
+  for (let k = 0; k < R.at.length; k++) {
+    const c = out[R.at[k]! % nT]!;
+    c.indices.push((R.at[k]! / nT) | 0);
+    c.values.push(R.v[k]!);
   }
-  return { indices, values };
+  return out;
 }
 
 function denseToSparse(d: ArrayLike<number>): { indices: number[]; values: number[] } {
@@ -878,78 +970,114 @@ function nearestSignals(st: Stats, x: SparseVector, skipTranscript: number, raw:
 }
 
 const NF = FEATURES.length;
+/** Per cell, the signals its transcript's features read: mnb_z, cnb_z, knn, seed, seed_z. */
+const W = 5;
 
-/** The calibration's features of every cell, from the raw signals (context within each run of members). */
-function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: number, seedScale: SeedScale, like: Float64Array): Float32Array {
-  const { nT, tree, o } = st;
-  const W = 5;
-  const own = new Float64Array(nP * nT * W); // mnb_z, cnb_z, knn, seed, seed_z
-  // Single precision: the features of 4,000 passages by 190 themes would take 150 MB in double.
-  const f = new Float32Array(nP * nT * NF);
-  const zs = [0, 1];
-  for (let p = 0; p < nP; p++) {
-    for (const r of zs) {
-      let s = 0;
-      let s2 = 0;
-      let c = 0;
-      for (let t = 0; t < nT; t++) {
-        const v = raw[(p * nT + t) * NR + r]!;
-        if (Number.isNaN(v)) continue;
-        s += v;
-        s2 += v * v;
-        c++;
-      }
-      const m = c ? s / c : 0;
-      const sd = c > 1 ? Math.sqrt(Math.max(s2 / c - m * m, 0)) || 1 : 1;
-      for (let t = 0; t < nT; t++) {
-        const v = raw[(p * nT + t) * NR + r]!;
-        own[(p * nT + t) * W + r] = Number.isNaN(v) ? 0 : (v - m) / sd;
-      }
-    }
-    for (let t = 0; t < nT; t++) {
-      own[(p * nT + t) * W + 2] = raw[(p * nT + t) * NR + 2]!;
-      own[(p * nT + t) * W + 3] = raw[(p * nT + t) * NR + 3]!;
-    }
-    // The seed cosine standardised over the fit's passages, theme by theme: a theme described
-    // in many words matches more passages a little, and this says how unusual the match is.
-    for (let t = 0; t < nT; t++) own[(p * nT + t) * W + 4] = (raw[(p * nT + t) * NR + 3]! - seedScale.mean[t]!) / seedScale.sd[t]!;
+/**
+ * The calibration's features, built one transcript at a time into buffers reused from one
+ * transcript to the next: all cells at once took nP * nT * (24 floats + 5 doubles), over 200 MB
+ * at 5,000 answers. What every transcript shares (the fold's counts per theme, the tree) is
+ * computed once. A passage's features read only its own transcript (context, the transcript's
+ * means), so a block holds everything its cells need.
+ */
+class CellFeatures {
+  private readonly children: Float64Array;
+  private readonly below: Float64Array;
+  /** Themes with coded passages, sorted by each passage's combined score in turn. */
+  private readonly ranked: number[];
+  private readonly ctx = new Float64Array(W);
+  private readonly comb: Float64Array;
+  private readonly rank: Float64Array;
+  private readonly trSum: Float64Array;
+  private own = new Float64Array(0);
+  private feats = new Float32Array(0);
+
+  constructor(
+    private readonly st: Stats,
+    private readonly raw: Float64Array,
+    private readonly seedScale: SeedScale,
+  ) {
+    const { nT, tree } = st;
+    this.children = new Float64Array(nT);
+    for (let t = 0; t < nT; t++) if (tree.parent[t]! >= 0) this.children[tree.parent[t]!]!++;
+    // Direct counts are not in Stats (rolled only): the sub-themes' share is rolled minus own,
+    // estimated as the children's rolled counts.
+    this.below = new Float64Array(nT);
+    for (let t = 0; t < nT; t++) if (tree.parent[t]! >= 0) this.below[tree.parent[t]!] = this.below[tree.parent[t]!]! + st.rolled[t]!;
+    this.comb = new Float64Array(nT);
+    this.rank = new Float64Array(nT);
+    this.ranked = [...Array(nT).keys()].filter((t) => st.rolled[t]! > 0);
+    this.trSum = new Float64Array(nT * 3);
   }
-  const children = new Float64Array(nT);
-  for (let t = 0; t < nT; t++) if (tree.parent[t]! >= 0) children[tree.parent[t]!]!++;
-  const below = new Float64Array(nT);
-  // Direct counts are not in Stats (rolled only): the sub-themes' share is rolled minus own,
-  // estimated as the children's rolled counts.
-  for (let t = 0; t < nT; t++) if (tree.parent[t]! >= 0) below[tree.parent[t]!] = below[tree.parent[t]!]! + st.rolled[t]!;
-  const ctx = new Float64Array(W);
-  const comb = new Float64Array(nT);
-  const rank = new Float64Array(nT);
-  const ranked = [...Array(nT).keys()].filter((t) => st.rolled[t]! > 0);
-  const trSum = new Float64Array(nT * 3);
-  for (const m of members) {
+
+  /**
+   * The features of one transcript's passages m (in order), at [(i * nT + theme) * NF] for its
+   * i-th passage; valid until the next call.
+   */
+  build(m: number[]): Float32Array {
+    const { st, raw, seedScale, children, below, ctx, comb, rank, ranked, trSum } = this;
+    const { nT, tree, o } = st;
+    const n = m.length;
+    if (this.own.length < n * nT * W) {
+      this.own = new Float64Array(n * nT * W);
+      // Single precision, as the calibration was measured on.
+      this.feats = new Float32Array(n * nT * NF);
+    }
+    const own = this.own;
+    const f = this.feats;
+    for (let i = 0; i < n; i++) {
+      const p = m[i]!;
+      for (let r = 0; r < 2; r++) {
+        let s = 0;
+        let s2 = 0;
+        let c = 0;
+        for (let t = 0; t < nT; t++) {
+          const v = raw[(p * nT + t) * NR + r]!;
+          if (Number.isNaN(v)) continue;
+          s += v;
+          s2 += v * v;
+          c++;
+        }
+        const mean = c ? s / c : 0;
+        const sd = c > 1 ? Math.sqrt(Math.max(s2 / c - mean * mean, 0)) || 1 : 1;
+        for (let t = 0; t < nT; t++) {
+          const v = raw[(p * nT + t) * NR + r]!;
+          own[(i * nT + t) * W + r] = Number.isNaN(v) ? 0 : (v - mean) / sd;
+        }
+      }
+      for (let t = 0; t < nT; t++) {
+        own[(i * nT + t) * W + 2] = raw[(p * nT + t) * NR + 2]!;
+        own[(i * nT + t) * W + 3] = raw[(p * nT + t) * NR + 3]!;
+      }
+      // The seed cosine standardised over the fit's passages, theme by theme: a theme described
+      // in many words matches more passages a little, and this says how unusual the match is.
+      for (let t = 0; t < nT; t++) own[(i * nT + t) * W + 4] = (raw[(p * nT + t) * NR + 3]! - seedScale.mean[t]!) / seedScale.sd[t]!;
+    }
     // Whole-transcript context: the mean of the other passages' signals (a transcript about one
     // thing throughout; the calibration learns how far that holds in this study).
     trSum.fill(0);
-    for (const q of m) for (let t = 0; t < nT; t++) for (let r = 0; r < 3; r++) trSum[t * 3 + r] = trSum[t * 3 + r]! + own[(q * nT + t) * W + r]!;
-    for (let i = 0; i < m.length; i++) {
+    for (let i = 0; i < n; i++) for (let t = 0; t < nT; t++) for (let r = 0; r < 3; r++) trSum[t * 3 + r] = trSum[t * 3 + r]! + own[(i * nT + t) * W + r]!;
+    for (let i = 0; i < n; i++) {
       const p = m[i]!;
-      // Rank of each theme by the combined standardised score.
-      for (let t = 0; t < nT; t++) comb[t] = own[(p * nT + t) * W]! + own[(p * nT + t) * W + 1]!;
+      // Rank of each theme by the combined standardised score (ties by theme: a total order, so
+      // the ranks do not depend on the passages ranked before).
+      for (let t = 0; t < nT; t++) comb[t] = own[(i * nT + t) * W]! + own[(i * nT + t) * W + 1]!;
       ranked.sort((a, b) => comb[b]! - comb[a]! || a - b);
       rank.fill(nT);
       ranked.forEach((t, r) => (rank[t] = r + 1));
       for (let t = 0; t < nT; t++) {
-        const cell = p * nT + t;
+        const cell = i * nT + t;
         const at = cell * NF;
         const has = st.rolled[t]! > 0 ? 1 : 0;
         ctx.fill(0);
         let wsum = 0;
-        if (o.decay > 0 && m.length > 1) {
+        if (o.decay > 0 && n > 1) {
           for (let d = 1; d <= o.reach; d++) {
             const w = o.decay ** d;
             for (let side = -1; side <= 1; side += 2) {
               const q = i + side * d;
-              if (q < 0 || q >= m.length) continue;
-              const c2 = (m[q]! * nT + t) * W;
+              if (q < 0 || q >= n) continue;
+              const c2 = (q * nT + t) * W;
               for (let r = 0; r < W; r++) ctx[r] = ctx[r]! + w * own[c2 + r]!;
               wsum += w;
             }
@@ -978,22 +1106,25 @@ function cellFeatures(st: Stats, raw: Float64Array, members: number[][], nP: num
         f[at + 18] = ctx[4]!;
         f[at + 19] = Math.log1p(st.words[p] ?? 0);
         f[at + 20] = st.interviewer[p] ?? 0;
-        for (let r = 0; r < 3; r++) f[at + 21 + r] = m.length > 1 ? (trSum[t * 3 + r]! - own[cell * W + r]!) / (m.length - 1) : 0;
+        for (let r = 0; r < 3; r++) f[at + 21 + r] = n > 1 ? (trSum[t * 3 + r]! - own[cell * W + r]!) / (n - 1) : 0;
       }
     }
+    return f;
   }
-  return f;
 }
 
-/** A logistic regression on the named features of the given cells, standardised over them. */
-function fitCalibration(names: string[], rows: number[], y: Uint8Array, feats: Float32Array, ridge: number, start?: Calibration | null): Calibration {
+/**
+ * A logistic regression on the named features of the given rows of `feats` (NF per row),
+ * standardised over them.
+ */
+function fitCalibration(names: string[], feats: Float32Array, rows: number[], y: Uint8Array, ridge: number, start?: Calibration | null): Calibration {
   const idx = names.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
   const k = idx.length;
   const n = Math.max(rows.length, 1);
-  const mean = idx.map((j) => rows.reduce((a, cell) => a + feats[cell * NF + j]!, 0) / n);
-  const sd = idx.map((j, q) => Math.sqrt(rows.reduce((a, cell) => a + (feats[cell * NF + j]! - mean[q]!) ** 2, 0) / n) || 1);
+  const mean = idx.map((j) => rows.reduce((a, row) => a + feats[row * NF + j]!, 0) / n);
+  const sd = idx.map((j, q) => Math.sqrt(rows.reduce((a, row) => a + (feats[row * NF + j]! - mean[q]!) ** 2, 0) / n) || 1);
   const X = new Float64Array(rows.length * k);
-  rows.forEach((cell, i) => idx.forEach((j, q) => (X[i * k + q] = (feats[cell * NF + j]! - mean[q]!) / sd[q]!)));
+  rows.forEach((row, i) => idx.forEach((j, q) => (X[i * k + q] = (feats[row * NF + j]! - mean[q]!) / sd[q]!)));
   // A change of the log-loss below 1e-7 of it moves no confidence by 1e-4 (measured: same figures).
   const warm = start ? { weights: start.weights, intercepts: [start.intercept] } : undefined;
   const m = fitGrouped({ x: X, k, y, group: new Int32Array(rows.length), groups: 1 }, ridge, 1e-3, 1e-7, warm);
@@ -1001,37 +1132,43 @@ function fitCalibration(names: string[], rows: number[], y: Uint8Array, feats: F
 }
 
 /**
- * Calibrated confidences. A rejection counts against its theme on passages more like the
- * rejected passage (cosine l) than like any coded passage of the theme (cosine k): the
- * confidence keeps the share (1 - l) / (1 - k). A handful of rejections are too few for the
- * calibration to learn a weight for them.
+ * Calibrated confidences, one transcript at a time: `apply(feats, m, ...)` takes the features
+ * CellFeatures built for the passages m and writes their cells' confidence and context part.
+ * A rejection counts against its theme on passages more like the rejected passage (cosine l)
+ * than like any coded passage of the theme (cosine k): the confidence keeps the share
+ * (1 - l) / (1 - k). A handful of rejections are too few for the calibration to learn a weight
+ * for them.
  */
-function applyCalibration(c: Calibration, seedC: Calibration | null, feats: Float32Array, cells: number, like: Float64Array, context?: Float64Array): Float64Array {
+function calibrator(c: Calibration, seedC: Calibration | null, nT: number, like: Float64Array, conf: Float64Array, context: Float64Array) {
   const HAS = FEATURES.indexOf('has');
   const KNN = FEATURES.indexOf('knn');
   const CONTEXT = FEATURES.map((f) => f.startsWith('ctx_'));
   const ix = (cal: Calibration) => cal.features.map((n) => FEATURES.indexOf(n as (typeof FEATURES)[number]));
   const idx = ix(c);
   const sidx = seedC ? ix(seedC) : [];
-  const out = new Float64Array(cells);
-  for (let cell = 0; cell < cells; cell++) {
-    const cal = seedC && feats[cell * NF + HAS] === 0 ? seedC : c;
-    const use = cal === c ? idx : sidx;
-    let z = cal.intercept;
-    let ctx = 0;
-    for (let q = 0; q < use.length; q++) {
-      const part = (cal.weights[q]! * (feats[cell * NF + use[q]!]! - cal.mean[q]!)) / cal.sd[q]!;
-      z += part;
-      if (CONTEXT[use[q]!]) ctx += part;
+  return (feats: Float32Array, m: number[]): void => {
+    for (let i = 0; i < m.length; i++) {
+      for (let t = 0; t < nT; t++) {
+        const at = (i * nT + t) * NF;
+        const cell = m[i]! * nT + t;
+        const cal = seedC && feats[at + HAS] === 0 ? seedC : c;
+        const use = cal === c ? idx : sidx;
+        let z = cal.intercept;
+        let ctx = 0;
+        for (let q = 0; q < use.length; q++) {
+          const part = (cal.weights[q]! * (feats[at + use[q]!]! - cal.mean[q]!)) / cal.sd[q]!;
+          z += part;
+          if (CONTEXT[use[q]!]) ctx += part;
+        }
+        context[cell] = ctx;
+        let keep = 1;
+        if (like.length) {
+          const l = like[cell]!;
+          const k = Math.min(feats[at + KNN]!, 1 - 1e-9);
+          if (l > k) keep = (1 - l) / (1 - Math.max(k, 0));
+        }
+        conf[cell] = sigmoid(z) * keep;
+      }
     }
-    if (context) context[cell] = ctx;
-    let keep = 1;
-    if (like.length) {
-      const l = like[cell]!;
-      const k = Math.min(feats[cell * NF + KNN]!, 1 - 1e-9);
-      if (l > k) keep = (1 - l) / (1 - Math.max(k, 0));
-    }
-    out[cell] = sigmoid(z) * keep;
-  }
-  return out;
+  };
 }

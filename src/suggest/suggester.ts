@@ -49,7 +49,7 @@ export function resolveOptions(o: SuggesterOptions = {}): ResolvedOptions {
 }
 
 /** The version of SuggesterState this build writes and reads (a stored state of another is fitted again). */
-export const STATE_VERSION = 4;
+export const STATE_VERSION = 5;
 
 export interface SuggesterState {
   version: typeof STATE_VERSION;
@@ -81,7 +81,6 @@ export class ThemeSuggester {
   private pIndex = new Map<string, number>();
   private tree!: Tree;
   private vec!: TfidfVectorizer;
-  private profiles!: Profiles;
   private termLists: string[][] = [];
   /** Raw term counts of each passage (same vocabulary as `vec`). */
   private counts: SparseVector[] = [];
@@ -89,11 +88,10 @@ export class ThemeSuggester {
   private evidence: Map<number, number>[] = [];
   /** What `nearest` indexes: the coded passages' ids (few-example scorer) or every passage's. */
   private exemplarIds: string[] = [];
-  /** [passage][theme] combined score and confidence. */
-  private score = new Float64Array(0);
-  private conf = new Float64Array(0);
-  private ctxPart = new Float64Array(0);
-  private nearest = new Int32Array(0);
+  /** [passage][theme] confidence (a candidate's score is its log-odds, worked out when asked for). */
+  private conf: Float64Array = new Float64Array(0);
+  private ctxPart: Float64Array = new Float64Array(0);
+  private nearest: Int32Array = new Int32Array(0);
   private nearestSim = new Float64Array(0);
   /**
    * Per vocabulary term: whether a reason may cite it. Function words, pronouns, titles, numbers
@@ -165,16 +163,13 @@ export class ThemeSuggester {
     this.checkable = Uint8Array.from({ length: this.vec.size }, (_, i) => (citable(this.vec.term(i)) ? 1 : 0));
     const nT = themes.length;
     const corpus: Corpus = { x, c, vocabulary: this.vec.size, transcriptOf, members, codedTranscript, labels: labelsInBatch, negatives: negs, themes: nT };
-    const prof = (this.profiles = new Profiles(corpus, o.priorStrength, o.rocchio));
+    // The profiles serve the fit only (reports, evidence, the fingerprint): not kept after it.
+    const prof = new Profiles(corpus, o.priorStrength, o.rocchio);
     this.counts = c;
     this.exemplarIds = passages.map((p) => p.id);
     this.evidence = this.evidenceOf(prof, nT);
 
     const profiled = themes.map((_, t) => prof.positives[t]! > 0);
-    const nP = passages.length;
-    this.nearest = new Int32Array(nP * nT).fill(-1);
-    this.nearestSim = new Float64Array(nP * nT);
-    this.score = new Float64Array(nP * nT);
     progress(0);
     // The few-example scorer gives the confidences; the profiles above give reasons and reports.
     const few = fitFewshot(passages, codings, themes, { targetPrecision: o.targetPrecision, ...o.fewshot }, extra.negatives ?? [], (d) => progress(0.95 * d));
@@ -211,7 +206,7 @@ export class ThemeSuggester {
         path: th.path,
         exemplars: prof.positives[t]!,
         transcripts: prof.positiveTranscripts[t]!,
-        topTerms: profiled[t] ? this.topTerms(t, 10) : [],
+        topTerms: profiled[t] ? this.topTerms(prof, t, 10) : [],
         threshold: thresholds[t]!,
         expectedPrecision,
         expectedRecall,
@@ -258,7 +253,7 @@ export class ThemeSuggester {
     // would be millions of numbers): its calibration, threshold and options are hashed as text.
     const f = this.st.fewshot;
     const light = { ...this.st, fewshot: { options: f.options, calibration: f.calibration, seedCalibration: f.seedCalibration, threshold: f.threshold, seedScale: f.seedScale } };
-    this.fp = fingerprint([JSON.stringify(light), prof.s, prof.y, this.score, this.conf]);
+    this.fp = fingerprint([JSON.stringify(light), prof.s, prof.y, Float64Array.from(this.conf, logOdds), this.conf]);
     return this;
   }
 
@@ -282,24 +277,23 @@ export class ThemeSuggester {
     m.termLists = state.options.bigrams ? passages.map((p) => withBigrams(p.terms, true)) : passages.map((p) => p.terms);
     m.counts = m.termLists.map((l) => m.vec.vectorAndCounts(l).counts);
     m.evidence = state.evidence.map((e) => new Map(e.indices.map((i, k) => [i, e.weights[k]!])));
-    const n = passages.length * themes.length;
-    m.score = new Float64Array(n);
-    m.nearest = new Int32Array(n);
-    m.nearestSim = new Float64Array(n);
     m.useCells(scoreFewshot(state.fewshot, themes, passages), state.fewshot);
     return m;
   }
 
-  /** Takes the few-example scorer's confidences, context parts and nearest coded passages. */
+  /**
+   * Takes the few-example scorer's confidences, context parts and nearest coded passages (its own
+   * arrays, not copies: nothing else keeps them); the model's one array of its own is made only
+   * now, after the scoring.
+   */
   private useCells(cells: ScoredCells, few: FewshotState): void {
-    this.conf = new Float64Array(cells.conf);
-    this.ctxPart = new Float64Array(cells.context);
+    this.conf = cells.conf;
+    this.ctxPart = cells.context;
+    this.nearest = cells.nearest;
+    this.nearestSim = new Float64Array(cells.conf.length);
     this.exemplarIds = few.coded.map((c) => c.id);
     for (let cell = 0; cell < this.conf.length; cell++) {
-      const c = Math.min(Math.max(this.conf[cell]!, 1e-12), 1 - 1e-12);
-      this.score[cell] = Math.log(c / (1 - c));
       const ci = cells.nearest[cell]!;
-      this.nearest[cell] = ci;
       this.nearestSim[cell] = ci >= 0 ? cells.raw[cell * 4 + 2]! : 0;
     }
   }
@@ -350,24 +344,24 @@ export class ThemeSuggester {
     for (let t = 0; t < nT; t++) if (st.themes[t]!.scored) scoredThemes.push(t);
     const seeds = this.tree.themes.map((th) => this.seedList(th));
     const conf = this.conf;
-    const score = this.score;
     return ids.map((id, i) => {
       if (i % 500 === 0) progress(i / ids.length);
       const p = this.pIndex.get(id);
       if (p === undefined) throw new UserError(`passage ${id} is not in the study the model was fitted on`);
       const o = p * nT;
-      const scored = scoredThemes.slice().sort((a, b) => conf[o + b]! - conf[o + a]! || score[o + b]! - score[o + a]! || a - b);
+      // (Equal confidences have equal scores: ties go by theme.)
+      const scored = scoredThemes.slice().sort((a, b) => conf[o + b]! - conf[o + a]! || a - b);
       const above = scored.filter((t) => conf[o + t]! >= st.thresholds[t]!);
       const chosen = chooseThemes(this.tree, above);
       const explain = scored.filter((t, r) => r < withReasons || chosen.has(t));
       const have = explain.some((t) => seeds[t]!.length) ? new Set(this.termLists[p]) : null;
       const candidates: Candidate[] = scored.map((t, r) => ({
         themeId: st.themes[t]!.id,
-        score: score[o + t]!,
+        score: logOdds(conf[o + t]!),
         confidence: conf[o + t]!,
         aboveThreshold: conf[o + t]! >= st.thresholds[t]!,
         chosen: chosen.has(t),
-        reasons: r < withReasons || chosen.has(t) ? this.reasons(p, t, seeds[t]!, have, chosen.has(t)) : [],
+        reasons: r < withReasons || chosen.has(t) ? this.reasons(p, t, seeds[t]!, have, chosen.has(t)) : NO_REASONS,
       }));
       return { passageId: id, transcript: this.passages[p]!.transcript, candidates, unclaimed: chosen.size === 0 };
     });
@@ -423,10 +417,10 @@ export class ThemeSuggester {
   }
 
   /** The theme's most distinctive terms by z (rounded, as reported), ties by term. */
-  private topTerms(t: number, n: number): TermWeight[] {
-    const { nT, vc, termOf } = this.profiles;
-    const delta = this.profiles.fullDelta();
-    const z = this.profiles.fullZ();
+  private topTerms(prof: Profiles, t: number, n: number): TermWeight[] {
+    const { nT, vc, termOf } = prof;
+    const delta = prof.fullDelta();
+    const z = prof.fullZ();
     // Only the terms whose rounded z reaches the n-th largest need an object.
     const rz: number[] = [];
     for (let l = 0; l < vc; l++) if (delta[l * nT + t]! > 0 && this.checkable[termOf[l]!]) rz.push(round(z[l * nT + t]!));
@@ -455,9 +449,21 @@ export class ThemeSuggester {
 
 }
 
+/**
+ * The reasons of a candidate given none: one frozen list shared by all of them (a bulk run
+ * returns a candidate for every theme of every passage, most of them without reasons).
+ */
+const NO_REASONS = Object.freeze([]) as unknown as Reason[];
+
 /** Whether a term can be cited as evidence: a word of two letters or more, not a function word. */
 export function citable(term: string): boolean {
   return !isFunctionWord(term) && /^\p{L}[\p{L}'’-]*\p{L}$/u.test(term);
+}
+
+/** A candidate's score: the log-odds of its confidence, kept off 0 and 1. */
+function logOdds(conf: number): number {
+  const c = Math.min(Math.max(conf, 1e-12), 1 - 1e-12);
+  return Math.log(c / (1 - c));
 }
 
 function round(v: number): number {
