@@ -13,10 +13,14 @@ export interface TranscriptRow {
   added_at: string;
 }
 
+// One prepared statement per database: an import of 20,000 survey answers looks each one up, and
+// preparing the query every time cost more than running it.
+const byName = new WeakMap<DB, ReturnType<DB['prepare']>>();
+
 export function findTranscript(db: DB, name: string): TranscriptRow | undefined {
-  return db.prepare('SELECT id, name, file, format, hash, labelled, added_at FROM transcripts WHERE name = ?').get(name) as
-    | TranscriptRow
-    | undefined;
+  let find = byName.get(db);
+  if (!find) byName.set(db, (find = db.prepare('SELECT id, name, file, format, hash, labelled, added_at FROM transcripts WHERE name = ?')));
+  return find.get(name) as TranscriptRow | undefined;
 }
 
 export function listTranscripts(db: DB): TranscriptRow[] {
