@@ -85,7 +85,7 @@ In scripts (no terminal), decide one suggestion at a time instead:
       try {
         const coder = coderOf(opts, study.db);
         requireTranscripts(study.db, opts.transcript);
-        const review = ReviewSession.start(sqliteReviewStore(study), coder, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder }, () =>
+        const review = ReviewSession.start(sqliteReviewStore(study), coder, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder, phased: true }, () =>
           process.stdout.write('Fitting theme profiles and scoring passages...\n'),
         );
         const session = new Session(study, review, {
@@ -135,7 +135,13 @@ class Session {
     const stdout = process.stdout;
     const alt = !this.look.dumb;
     return new Promise((done, fail) => {
+      // Keys pressed while the other transcripts are scored wait, and are then taken in order.
+      let waiting: (Buffer | string)[] | null = null;
       const onData = (chunk: Buffer | string) => {
+        if (waiting) {
+          waiting.push(chunk);
+          return;
+        }
         try {
           for (const key of decodeKeys(chunk.toString())) {
             this.handle(key);
@@ -175,13 +181,33 @@ class Session {
       // The other screen of the terminal: the coder's scrollback is left as it was.
       if (alt) stdout.write('\x1b[?1049h\x1b[?25l');
       try {
-        if (this.review.queue.total === 0) this.message = 'No passage is waiting: every suggested passage is coded or decided.';
+        if (this.review.queue.total === 0 && !this.review.scoring) this.message = 'No passage is waiting: every suggested passage is coded or decided.';
         this.draw();
       } catch (e) {
         restore();
         return fail(e);
       }
       stdin.resume();
+      if (!this.review.scoring) return;
+      // The first screen is on the terminal (the write's callback) before the slow part starts.
+      waiting = [];
+      stdout.write('', () =>
+        setImmediate(() => {
+          try {
+            this.review.scoreRest();
+            this.draw();
+          } catch (e) {
+            restore();
+            return fail(e);
+          }
+          const keys = waiting ?? [];
+          waiting = null;
+          for (const chunk of keys) {
+            if (this.finish) break;
+            onData(chunk);
+          }
+        }),
+      );
     });
   }
 
@@ -203,6 +229,7 @@ class Session {
       showing: r.showing,
       total: r.queue.total,
       remaining: r.queue.remaining,
+      scoring: r.scoring,
       accepted: r.tally.accepted,
       decided: r.tally.decided,
       deferred: r.queue.deferred.size,
