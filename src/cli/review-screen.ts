@@ -88,7 +88,7 @@ export function statusLine(m: Pick<ScreenModel, 'showing' | 'total' | 'remaining
   const pos = m.showing ? (m.showing.position === null ? `back from the log (queue of ${m.total})` : `${m.showing.position} / ${m.total}`) : `done (${m.total})`;
   const parts = [`queue ${pos}${m.scoring ? ' so far' : ''}`, `${m.remaining} left`];
   // Before the counts, which a narrow screen cuts first (and which are 0 while this shows).
-  if (m.scoring) parts.push('the other transcripts are still being scored');
+  if (m.scoring) parts.push('other transcripts still being scored');
   parts.push(`accepted ${m.accepted} of ${m.decided} decided${pct(m.accepted, m.decided)}`);
   if (m.deferred) parts.push(`${m.deferred} deferred`);
   return parts.join(' · ');
