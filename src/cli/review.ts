@@ -45,6 +45,9 @@ the matched terms in [brackets], and up to five candidate themes with their conf
 at or above the theme's threshold, and a reason. The queue holds the passages of the run that
 are not coded and have no standing decision. The footer counts as trellis stats does: accepted
 out of decided, where a re-code is decided but not accepted and a defer is not yet decided.
+When an earlier run's model serves (the same codings and decisions), the first screen comes as
+soon as the first transcript is scored; the status line says while the other transcripts are
+still being scored, and keys pressed meanwhile are taken, in order, once they are.
 
 Keys (single keys, no Enter):
   1-5    accept that candidate; the passage stays, so a second or third theme can be accepted
