@@ -109,8 +109,7 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
     parts = transcriptParts(inputs.passages, targetsOf(inputs));
     return parts.length ? parts[0]!.passages : [];
   };
-  const fit = fitModel(db, opts, progress && ((d) => progress('fit', d)), firstUntil && firstPart);
-  const { model, inputs, rev, negatives, key, keep, scorer } = fit;
+  const { model, inputs, rev, negatives, key, keep, scorer } = fitModel(db, opts, progress && ((d) => progress('fit', d)), firstUntil && firstPart);
   // A theme a coder rejected for a passage is not suggested for it again.
   const rejected = new Set(negatives.map((n) => `${n.passageId}\u0000${n.themeId}`));
   const reports = model.themeReports();
