@@ -44,6 +44,8 @@ export interface ScreenModel {
   showing: Showing | undefined;
   total: number;
   remaining: number;
+  /** The other transcripts are still being scored: the queue has only its first passages. */
+  scoring?: boolean;
   accepted: number;
   decided: number;
   deferred: number;
@@ -82,9 +84,12 @@ function clipFront(text: string, n: number): string {
 
 const pct = (a: number, b: number) => (b ? ` (${Math.round((100 * a) / b)}%)` : '');
 
-export function statusLine(m: Pick<ScreenModel, 'showing' | 'total' | 'remaining' | 'accepted' | 'decided' | 'deferred'>): string {
+export function statusLine(m: Pick<ScreenModel, 'showing' | 'total' | 'remaining' | 'scoring' | 'accepted' | 'decided' | 'deferred'>): string {
   const pos = m.showing ? (m.showing.position === null ? `back from the log (queue of ${m.total})` : `${m.showing.position} / ${m.total}`) : `done (${m.total})`;
-  const parts = [`queue ${pos}`, `${m.remaining} left`, `accepted ${m.accepted} of ${m.decided} decided${pct(m.accepted, m.decided)}`];
+  const parts = [`queue ${pos}${m.scoring ? ' so far' : ''}`, `${m.remaining} left`];
+  // Before the counts, which a narrow screen cuts first (and which are 0 while this shows).
+  if (m.scoring) parts.push('other transcripts still being scored');
+  parts.push(`accepted ${m.accepted} of ${m.decided} decided${pct(m.accepted, m.decided)}`);
   if (m.deferred) parts.push(`${m.deferred} deferred`);
   return parts.join(' · ');
 }

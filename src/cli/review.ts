@@ -45,6 +45,9 @@ the matched terms in [brackets], and up to five candidate themes with their conf
 at or above the theme's threshold, and a reason. The queue holds the passages of the run that
 are not coded and have no standing decision. The footer counts as trellis stats does: accepted
 out of decided, where a re-code is decided but not accepted and a defer is not yet decided.
+When an earlier run's model serves (the same codings and decisions), the first screen comes as
+soon as the first transcript is scored; the status line says while the other transcripts are
+still being scored, and keys pressed meanwhile are taken, in order, once they are.
 
 Keys (single keys, no Enter):
   1-5    accept that candidate; the passage stays, so a second or third theme can be accepted
@@ -85,7 +88,7 @@ In scripts (no terminal), decide one suggestion at a time instead:
       try {
         const coder = coderOf(opts, study.db);
         requireTranscripts(study.db, opts.transcript);
-        const review = ReviewSession.start(sqliteReviewStore(study), coder, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder }, () =>
+        const review = ReviewSession.start(sqliteReviewStore(study), coder, { transcripts: opts.transcript, theme: opts.theme, order: opts.order as ReviewOrder, phased: true }, () =>
           process.stdout.write('Fitting theme profiles and scoring passages...\n'),
         );
         const session = new Session(study, review, {
@@ -135,7 +138,13 @@ class Session {
     const stdout = process.stdout;
     const alt = !this.look.dumb;
     return new Promise((done, fail) => {
+      // Keys pressed while the other transcripts are scored wait, and are then taken in order.
+      let waiting: (Buffer | string)[] | null = null;
       const onData = (chunk: Buffer | string) => {
+        if (waiting) {
+          waiting.push(chunk);
+          return;
+        }
         try {
           for (const key of decodeKeys(chunk.toString())) {
             this.handle(key);
@@ -175,13 +184,33 @@ class Session {
       // The other screen of the terminal: the coder's scrollback is left as it was.
       if (alt) stdout.write('\x1b[?1049h\x1b[?25l');
       try {
-        if (this.review.queue.total === 0) this.message = 'No passage is waiting: every suggested passage is coded or decided.';
+        if (this.review.queue.total === 0 && !this.review.scoring) this.message = 'No passage is waiting: every suggested passage is coded or decided.';
         this.draw();
       } catch (e) {
         restore();
         return fail(e);
       }
       stdin.resume();
+      if (!this.review.scoring) return;
+      // The first screen is on the terminal (the write's callback) before the slow part starts.
+      waiting = [];
+      stdout.write('', () =>
+        setImmediate(() => {
+          try {
+            this.review.scoreRest();
+            this.draw();
+          } catch (e) {
+            restore();
+            return fail(e);
+          }
+          const keys = waiting ?? [];
+          waiting = null;
+          for (const chunk of keys) {
+            if (this.finish) break;
+            onData(chunk);
+          }
+        }),
+      );
     });
   }
 
@@ -203,6 +232,7 @@ class Session {
       showing: r.showing,
       total: r.queue.total,
       remaining: r.queue.remaining,
+      scoring: r.scoring,
       accepted: r.tally.accepted,
       decided: r.tally.decided,
       deferred: r.queue.deferred.size,

@@ -11,12 +11,17 @@ import { AlreadyDecided, claimOn, decidedPassages, passagePlaces, themeOrder } f
 import type { Study } from '../study/study.js';
 import { currentTemplate } from '../study/template.js';
 import { reviseTemplate } from './revise.js';
-import { suggest } from './suggest.js';
+import { suggest, type SuggestRun } from './suggest.js';
 
 /**
  * Starts a session: a fresh suggestion run (so the queue reflects the latest codings and
  * decisions), then the queue: passages of the run that are not coded and have no standing
  * decision, filtered and ordered.
+ *
+ * With `setup.phased` and the transcript order, when a stored model state serves, only the
+ * first transcripts with an open passage are scored before this returns; `ReviewStart.rest`
+ * scores the others into the same run and gives the rest of the queue, which then ends as a
+ * whole run's would (transcript order puts every later item after the first ones).
  */
 export function startReview(db: DB, setup: ReviewSetup = {}, fitting: () => void = () => undefined): ReviewStart {
   let within: Set<string> | null = null;
@@ -25,35 +30,53 @@ export function startReview(db: DB, setup: ReviewSetup = {}, fitting: () => void
     within = new Set([...walk({ roots: [node] })].map((e) => e.node.id));
   }
   fitting(); // the arguments are checked: the slow part starts
-  const run = suggest(db, { top: setup.top ?? 5, transcripts: setup.transcripts });
-  const thresholds = new Map(run.reports.map((r) => [r.themeId, r.threshold]));
+  // (Suggesting writes no decision: read before it, these are what they would be after it.)
   const place = passagePlaces(db);
   const decided = decidedPassages(db);
-  const items: ReviewItem[] = [];
-  for (const p of run.passages) {
-    if (decided.has(p.passageId) || p.candidates.length === 0) continue;
-    if (within && !p.candidates.some((c) => within.has(c.themeId))) continue;
-    const at = place.get(p.passageId);
-    items.push({
-      passageId: p.passageId,
-      transcript: p.transcript,
-      transcriptIndex: at?.t ?? 0,
-      ordinal: at?.ordinal ?? 0,
-      candidates: p.candidates.map((c) => {
-        const t = thresholds.get(c.themeId);
-        return {
-          suggestionId: c.suggestionId,
-          themeId: c.themeId,
-          path: run.paths.get(c.themeId) ?? c.themeId,
-          confidence: c.confidence,
-          above: c.aboveThreshold,
-          threshold: t !== undefined && Number.isFinite(t) ? t : FALLBACK_THRESHOLD,
-          reasons: c.reasons,
-        };
-      }),
-    });
+  const open = (p: SuggestRun['passages'][number]) => !decided.has(p.passageId) && p.candidates.length > 0 && (!within || p.candidates.some((c) => within.has(c.themeId)));
+  const order = setup.order ?? 'transcript';
+  const phased = setup.phased === true && order === 'transcript';
+  const run = suggest(db, { top: setup.top ?? 5, transcripts: setup.transcripts, firstUntil: phased ? (ps) => ps.some(open) : undefined });
+  const thresholds = new Map(run.reports.map((r) => [r.themeId, r.threshold]));
+  const rank = themeOrder(db);
+  const itemsOf = (passages: SuggestRun['passages']): ReviewItem[] => {
+    const items: ReviewItem[] = [];
+    for (const p of passages) {
+      if (!open(p)) continue;
+      const at = place.get(p.passageId);
+      items.push({
+        passageId: p.passageId,
+        transcript: p.transcript,
+        transcriptIndex: at?.t ?? 0,
+        ordinal: at?.ordinal ?? 0,
+        candidates: p.candidates.map((c) => {
+          const t = thresholds.get(c.themeId);
+          return {
+            suggestionId: c.suggestionId,
+            themeId: c.themeId,
+            path: run.paths.get(c.themeId) ?? c.themeId,
+            confidence: c.confidence,
+            above: c.aboveThreshold,
+            threshold: t !== undefined && Number.isFinite(t) ? t : FALLBACK_THRESHOLD,
+            reasons: c.reasons,
+          };
+        }),
+      });
+    }
+    return orderQueue(items, order, rank);
+  };
+  const items = itemsOf(run.passages);
+  const start: ReviewStart = { runId: run.runId, items, left: run.passages.length - items.length };
+  const rest = run.rest;
+  if (rest) {
+    start.rest = () => {
+      const passages = rest();
+      const more = itemsOf(passages);
+      start.left += passages.length - more.length;
+      return { items: more, left: start.left };
+    };
   }
-  return { runId: run.runId, items: orderQueue(items, setup.order ?? 'transcript', themeOrder(db)), left: run.passages.length - items.length };
+  return start;
 }
 
 /**

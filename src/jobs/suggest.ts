@@ -1,14 +1,14 @@
 import { UserError } from '../errors.js';
 import { resolveOptions, STATE_VERSION, ThemeSuggester } from '../suggest/suggester.js';
-import type { PassageSuggestions, SuggesterOptions, ThemeReport } from '../suggest/types.js';
+import type { ModelPassage, PassageSuggestions, SuggesterOptions, ThemeReport } from '../suggest/types.js';
 import type { DB } from '../study/db.js';
 import { passageTokens } from '../study/passages.js';
 import { matchedFragment } from '../text/fragment.js';
 import { nothingToCode, rejections } from '../study/decisions.js';
 import { currentRevision } from '../study/template.js';
 import { loadState, saveState, touchState } from '../study/model-store.js';
-import { storeSuggestionRun, type StoredCandidate } from '../study/suggestion-rows.js';
-import { inputsKey, modelInputs } from './model-inputs.js';
+import { addToSuggestionRun, storeSuggestionRun, type StoredCandidate } from '../study/suggestion-rows.js';
+import { inputsKey, modelInputs, type ModelInputs } from './model-inputs.js';
 
 export type { StoredCandidate } from '../study/suggestion-rows.js';
 
@@ -20,6 +20,11 @@ export interface SuggestRun {
   reports: ThemeReport[];
   /** id → path of every current theme */
   paths: Map<string, string>;
+  /**
+   * With `firstUntil`, when transcripts are left: scores them, stores them into this same run
+   * and returns their passages (once; slow, like a whole run).
+   */
+  rest?: () => SuggestRun['passages'];
 }
 
 export interface SuggestOptions extends SuggesterOptions {
@@ -30,6 +35,12 @@ export interface SuggestOptions extends SuggesterOptions {
   includeCoded?: boolean;
   /** Told how far the run is: the step, and the share of it done (0 to 1). */
   progress?: (step: 'fit' | 'score' | 'store', done: number) => void;
+  /**
+   * Score and store transcript by transcript, in study order, until this says the passages
+   * stored so far are enough; the others are left to `SuggestRun.rest()`. Only when a stored
+   * state serves (a new fit scores every passage anyway); the run ends the same either way.
+   */
+  firstUntil?: (passages: SuggestRun['passages']) => boolean;
 }
 
 /**
@@ -37,8 +48,11 @@ export interface SuggestOptions extends SuggesterOptions {
  * exactly these inputs when the study keeps one (scored from it, which gives the same
  * suggestions), otherwise a new fit. `keep()` stores the new state (or marks the stored one used):
  * a command calls it inside its own write, after it has succeeded.
+ *
+ * With `only`, a stored state scores just the passages it picks (whole transcripts, in study
+ * order), and `scorer` scores any others later from the same state; a new fit scores them all.
  */
-export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: number) => void) {
+export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: number) => void, only?: (inputs: ModelInputs) => ModelPassage[]) {
   const rev = currentRevision(db);
   if (!rev) throw new UserError('the study has no template yet: run "trellis template set FILE" first');
   const inputs = modelInputs(db);
@@ -46,10 +60,13 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
   const options = resolveOptions(opts);
   const key = inputsKey(inputs, negatives, options, STATE_VERSION);
   let model: ThemeSuggester | null = null;
+  let scorer: ((passages: ModelPassage[]) => ThemeSuggester) | null = null;
   const stored = loadState(db, key);
   if (stored) {
+    const from = (passages: ModelPassage[]) => ThemeSuggester.fromState(stored.state, inputs.themes, passages, stored.fingerprint);
     try {
-      model = ThemeSuggester.fromState(stored.state, inputs.themes, inputs.passages, stored.fingerprint);
+      model = from(only ? only(inputs) : inputs.passages);
+      if (only) scorer = from;
     } catch {
       model = null; // a state this build cannot read: fit again
     }
@@ -62,7 +79,7 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
     if (reused) touchState(db, key);
     else saveState(db, key, fitted.state, fitted.fingerprint);
   };
-  return { model, inputs, rev, negatives, key, reused, keep };
+  return { model, inputs, rev, negatives, key, reused, keep, scorer };
 }
 
 /**
@@ -71,19 +88,112 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
  */
 export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
   // (The progress callback is not a model option: options are stored with the run.)
-  const { progress, ...opts } = options;
-  const { model, inputs, rev, negatives, key, keep } = fitModel(db, opts, progress && ((d) => progress('fit', d)));
+  const { progress, firstUntil, ...opts } = options;
+  // The passages to suggest for, read once from the model's inputs.
+  let targets: string[] | null = null;
+  const targetsOf = (inputs: ModelInputs): string[] => {
+    if (targets) return targets;
+    // A passage judged "nothing to code" is done, like a coded one.
+    const judged = opts.includeCoded ? new Set<string>() : nothingToCode(db);
+    let t = opts.includeCoded ? inputs.passages.filter((p) => p.role === 'participant').map((p) => p.id) : inputs.uncoded.filter((id) => !judged.has(id));
+    if (opts.transcripts?.length) {
+      const want = new Set(opts.transcripts);
+      const byId = new Map(inputs.passages.map((p) => [p.id, p]));
+      t = t.filter((id) => want.has(byId.get(id)!.transcript));
+    }
+    return (targets = t);
+  };
+  // In parts: the transcripts that hold a target, in study order, each scored whole.
+  let parts: TranscriptPart[] = [];
+  const firstPart = (inputs: ModelInputs) => {
+    parts = transcriptParts(inputs.passages, targetsOf(inputs));
+    return parts.length ? parts[0]!.passages : [];
+  };
+  const { model, inputs, rev, negatives, key, keep, scorer } = fitModel(db, opts, progress && ((d) => progress('fit', d)), firstUntil && firstPart);
   // A theme a coder rejected for a passage is not suggested for it again.
   const rejected = new Set(negatives.map((n) => `${n.passageId}\u0000${n.themeId}`));
-  const byId = new Map(inputs.passages.map((p) => [p.id, p]));
-  // A passage judged "nothing to code" is done, like a coded one.
-  const judged = opts.includeCoded ? new Set<string>() : nothingToCode(db);
-  let targets = opts.includeCoded ? inputs.passages.filter((p) => p.role === 'participant').map((p) => p.id) : inputs.uncoded.filter((id) => !judged.has(id));
-  if (opts.transcripts?.length) {
-    const want = new Set(opts.transcripts);
-    targets = targets.filter((id) => want.has(byId.get(id)!.transcript));
+  const reports = model.themeReports();
+  const paths = new Map(inputs.themes.map((t) => [t.id, t.path]));
+  const result = (runId: number, passages: SuggestRun['passages']): SuggestRun => ({ runId, rev: rev.rev, fingerprint: model.fingerprint, passages, reports, paths });
+  const meta = { rev: rev.rev, fingerprint: model.fingerprint, options: model.options, key };
+
+  if (!scorer) {
+    const kept = rankAndExplain(db, model, targetsOf(inputs), rejected, opts.top, progress);
+    return db.transaction(() => {
+      const runId = storeSuggestionRun(db, meta, kept, progress && ((d) => progress('store', d)));
+      keep();
+      return result(runId, kept as SuggestRun['passages']);
+    })();
   }
-  const top = opts.top;
+
+  // In parts: one transcript, then twice as many each time, until firstUntil has enough; each
+  // part stored as it is scored, so the suggestion ids follow the order a whole run gives them.
+  const first: SuggestRun['passages'] = [];
+  let runId = 0;
+  let done = 0;
+  let next = model;
+  for (let size = 1; done < parts.length; size *= 2) {
+    const part = parts.slice(done, done + size);
+    if (done > 0) next = scorer(part.flatMap((p) => p.passages));
+    const kept = rankAndExplain(db, next, part.flatMap((p) => p.targets), rejected, opts.top) as SuggestRun['passages'];
+    db.transaction(() => {
+      if (done === 0) {
+        runId = storeSuggestionRun(db, meta, kept);
+        keep();
+      } else addToSuggestionRun(db, runId, kept);
+    })();
+    first.push(...kept);
+    done += part.length;
+    if (firstUntil!(first)) break;
+  }
+  if (!parts.length) {
+    runId = db.transaction(() => {
+      const id = storeSuggestionRun(db, meta, []);
+      keep();
+      return id;
+    })();
+  }
+  const run = result(runId, first);
+  if (done < parts.length) {
+    let left: TranscriptPart[] | null = parts.slice(done);
+    run.rest = () => {
+      if (!left) return [];
+      const part = left;
+      left = null;
+      const kept = rankAndExplain(db, scorer(part.flatMap((p) => p.passages)), part.flatMap((p) => p.targets), rejected, opts.top, progress) as SuggestRun['passages'];
+      db.transaction(() => addToSuggestionRun(db, runId, kept, progress && ((d) => progress('store', d))))();
+      return kept;
+    };
+  }
+  return run;
+}
+
+/** A transcript's passages (all of them: context reads a passage's neighbours) and the ones to suggest for. */
+interface TranscriptPart {
+  passages: ModelPassage[];
+  targets: string[];
+}
+
+/** The transcripts holding a target, in study order. */
+function transcriptParts(passages: ModelPassage[], targets: string[]): TranscriptPart[] {
+  const want = new Set(targets);
+  const out: TranscriptPart[] = [];
+  let cur: TranscriptPart | null = null;
+  let last: string | null = null;
+  for (const p of passages) {
+    if (p.transcript !== last) {
+      last = p.transcript;
+      cur = { passages: [], targets: [] };
+      out.push(cur);
+    }
+    cur!.passages.push(p);
+    if (want.has(p.id)) cur!.targets.push(p.id);
+  }
+  return out.filter((t) => t.targets.length > 0);
+}
+
+/** The ranked candidates of these passages, with reasons and the stretch of text they come from. */
+function rankAndExplain(db: DB, model: ThemeSuggester, targets: string[], rejected: Set<string>, top: number | undefined, progress?: SuggestOptions['progress']) {
   // Reasons for the best three candidates (and every chosen one): enough to judge at a glance.
   const predicted = model.predict(targets, { reasons: 3, progress: progress && ((d) => progress('score', d)) });
   const kept = predicted.map((p) => {
@@ -111,12 +221,5 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
       }
     }
   }
-
-  return db.transaction(() => {
-    const runId = storeSuggestionRun(db, { rev: rev.rev, fingerprint: model.fingerprint, options: model.options, key }, kept, progress && ((d) => progress('store', d)));
-    keep();
-    const passages = kept as SuggestRun['passages'];
-    const paths = new Map(inputs.themes.map((t) => [t.id, t.path]));
-    return { runId, rev: rev.rev, fingerprint: model.fingerprint, passages, reports: model.themeReports(), paths };
-  })();
+  return kept;
 }

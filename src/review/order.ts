@@ -37,6 +37,11 @@ export interface ReviewSetup {
   theme?: string;
   order?: ReviewOrder;
   top?: number;
+  /**
+   * Score the first transcripts first (transcript order, a stored model state): the session can
+   * be shown while `ReviewStart.rest` scores the others. Without it the whole run comes first.
+   */
+  phased?: boolean;
 }
 
 export interface ReviewStart {
@@ -44,6 +49,11 @@ export interface ReviewStart {
   items: ReviewItem[];
   /** Passages of the run left out: already decided, or (with --theme) without that theme. */
   left: number;
+  /**
+   * Set when transcripts are still to be scored (a phased start): scores them into the same run
+   * (slow) and gives their items, which go after `items`, and the run's `left` now. Call once.
+   */
+  rest?: () => { items: ReviewItem[]; left: number };
 }
 
 /**

@@ -22,7 +22,10 @@ export interface ThemeRef {
 export type Written<T = DecisionRow> = { ok: true; value: T } | { ok: false; claim: Claim; message: string };
 
 export interface ReviewStore {
-  /** A fresh suggestion run and the queue of passages still open (slow: fits the model). */
+  /**
+   * A fresh suggestion run and the queue of passages still open (slow: fits the model). With
+   * `setup.phased`, possibly only its first part, and `rest` to score the others.
+   */
   start(setup: ReviewSetup, fitting?: () => void): ReviewStart;
   /** Another coder's or session's claim on the passage (`mine`: this session's decision ids). */
   claim(passageId: string, mine: ReadonlySet<number>): Claim | null;

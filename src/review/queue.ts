@@ -17,6 +17,20 @@ export class ReviewQueue {
     this.index = new Map(items.map((it, i) => [it.passageId, i]));
   }
 
+  /**
+   * Adds passages after the last one (a queue given in parts: they follow it in its order).
+   * Where the session stands and what it has handled stay; a passage already in it is left out.
+   */
+  add(items: readonly ReviewItem[]): void {
+    // A cursor that ran past the end comes back to it, so that next() goes on with the new ones.
+    if (this.cursor >= this.items.length) this.cursor = this.items.length - 1;
+    for (const it of items) {
+      if (this.index.has(it.passageId)) continue;
+      this.index.set(it.passageId, this.items.length);
+      this.items.push(it);
+    }
+  }
+
   get total(): number {
     return this.items.length;
   }

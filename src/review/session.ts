@@ -156,6 +156,8 @@ export class ReviewSession {
   readonly tally = new Tally();
   /** Passages shown before the current one, for `previous`. */
   private readonly history: ReviewItem[] = [];
+  /** The rest of a queue given in parts (ReviewStart.rest), until it is asked for. */
+  private rest: (() => { items: ReviewItem[] }) | undefined;
 
   constructor(
     private readonly store: ReviewStore,
@@ -171,7 +173,31 @@ export class ReviewSession {
   static start(store: ReviewStore, coder: string, setup: ReviewSetup = {}, fitting?: () => void): ReviewSession {
     const start = store.start(setup, fitting);
     const filters = [...(setup.transcripts ?? []).map((t) => `transcript ${t}`), ...(setup.theme ? [`theme ${setup.theme}`] : [])];
-    return new ReviewSession(store, coder, new ReviewQueue(start.items), setup.order ?? 'transcript', filters);
+    const session = new ReviewSession(store, coder, new ReviewQueue(start.items), setup.order ?? 'transcript', filters);
+    session.rest = start.rest;
+    return session;
+  }
+
+  /** Whether part of the queue is still to come (a phased start): `scoreRest` brings it. */
+  get scoring(): boolean {
+    return this.rest !== undefined;
+  }
+
+  /** Scores the transcripts still to come (slow) and adds their passages to the queue. */
+  scoreRest(): void {
+    const rest = this.rest;
+    if (!rest) return;
+    this.rest = undefined;
+    this.extend(rest().items);
+  }
+
+  /**
+   * More passages at the end of the queue: the passage shown, the decisions and the place in
+   * the queue stay; a session that had run out of passages goes on with the first of them.
+   */
+  extend(items: readonly ReviewItem[]): void {
+    this.queue.add(items);
+    if (!this.current) this.advance();
   }
 
   /** The passage shown, with its tokens (not serialisable: for the terminal's drawing). */

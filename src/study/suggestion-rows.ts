@@ -26,6 +26,23 @@ export function storeSuggestionRun(db: DB, run: RunRow, kept: PassageSuggestions
       .prepare('INSERT INTO suggestion_runs (created_at, rev, fingerprint, options, passages, unclaimed, model_inputs) VALUES (?, ?, ?, ?, ?, ?, ?)')
       .run(new Date().toISOString(), run.rev, run.fingerprint, JSON.stringify(run.options), kept.length, kept.filter((p) => p.unclaimed).length, run.key).lastInsertRowid,
   );
+  storeCandidates(db, runId, kept, progress);
+  return runId;
+}
+
+/**
+ * Stores more passages into a run stored earlier (a run scored in parts), as storeSuggestionRun
+ * would have stored them: ids continue from the last one given, and the run's counts grow.
+ */
+export function addToSuggestionRun(db: DB, runId: number, kept: PassageSuggestions[], progress?: (done: number) => void): void {
+  const changed = db
+    .prepare('UPDATE suggestion_runs SET passages = passages + ?, unclaimed = unclaimed + ? WHERE id = ?')
+    .run(kept.length, kept.filter((p) => p.unclaimed).length, runId).changes;
+  if (changed !== 1) throw new Error(`suggestion run ${runId} is not in the study`);
+  storeCandidates(db, runId, kept, progress);
+}
+
+function storeCandidates(db: DB, runId: number, kept: PassageSuggestions[], progress?: (done: number) => void): void {
   // Ids are given explicitly (the next free ones, inside this transaction), so that many rows
   // can go in one statement: a run writes hundreds of thousands of rows, and one statement
   // execution per row was most of the cost of storing them.
@@ -52,7 +69,6 @@ export function storeSuggestionRun(db: DB, run: RunRow, kept: PassageSuggestions
     });
   });
   flush();
-  return runId;
 }
 
 export interface SuggestionRow {
