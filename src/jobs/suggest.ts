@@ -195,16 +195,21 @@ function transcriptParts(passages: ModelPassage[], targets: string[]): Transcrip
 /** The ranked candidates of these passages, with reasons and the stretch of text they come from. */
 function rankAndExplain(db: DB, model: ThemeSuggester, targets: string[], rejected: Set<string>, top: number | undefined, progress?: SuggestOptions['progress']) {
   // Reasons for the best three candidates (and every chosen one): enough to judge at a glance.
-  const predicted = model.predict(targets, { reasons: 3, progress: progress && ((d) => progress('score', d)) });
-  const kept = predicted.map((p) => {
-    const open = rejected.size ? p.candidates.filter((c) => !rejected.has(`${p.passageId}\u0000${c.themeId}`)) : p.candidates;
-    // Best first: the themes the hierarchy rule chose (the most specific ones above threshold),
-    // then the rest by confidence; a parent's confidence always includes its sub-themes'.
-    const chosen = open.filter((c) => c.chosen);
-    const ranked = chosen.length ? [...chosen, ...open.filter((c) => !c.chosen)] : open;
-    p.unclaimed = chosen.length === 0;
-    p.candidates = top ? ranked.slice(0, top) : chosen.length ? chosen : ranked.slice(0, 1);
-    return p;
+  // Each passage is cut to the candidates the run keeps as it is scored, so a large batch never
+  // holds every theme's candidate for every passage at once.
+  const kept = model.predict(targets, {
+    reasons: 3,
+    progress: progress && ((d) => progress('score', d)),
+    shape: (p) => {
+      const open = rejected.size ? p.candidates.filter((c) => !rejected.has(`${p.passageId}\u0000${c.themeId}`)) : p.candidates;
+      // Best first: the themes the hierarchy rule chose (the most specific ones above threshold),
+      // then the rest by confidence; a parent's confidence always includes its sub-themes'.
+      const chosen = open.filter((c) => c.chosen);
+      const ranked = chosen.length ? [...chosen, ...open.filter((c) => !c.chosen)] : open;
+      p.unclaimed = chosen.length === 0;
+      p.candidates = top ? ranked.slice(0, top) : chosen.length ? chosen : ranked.slice(0, 1);
+      return p;
+    },
   });
 
   // Distinctive terms as each passage writes them, and the stretch of it they come from.

@@ -328,15 +328,19 @@ export class ThemeSuggester {
     return this.state.reports;
   }
 
-  /** Suggestions for the given passages (default: every passage given to fit), in input order. */
   /**
+   * Suggestions for the given passages (default: every passage given to fit), in input order.
    * @param opts.reasons how many of the best candidates get reasons (default 3); chosen
    * candidates always do. Reasons cost more than the scores, so bulk scoring can ask for fewer.
    * @param opts.progress told the share of the passages done (0 to 1)
+   * @param opts.shape applied to each passage's suggestions as it is made (say, to keep the best few)
    */
-  predict(passageIds?: string[], opts: { reasons?: number; progress?: Progress } = {}): PassageSuggestions[] {
+  predict(passageIds?: string[], opts: { reasons?: number; progress?: Progress; shape?: (p: PassageSuggestions) => PassageSuggestions } = {}): PassageSuggestions[] {
     const withReasons = opts.reasons ?? 3;
     const progress = opts.progress ?? (() => {});
+    // A caller keeping a few candidates per passage says so here: a large batch's every candidate
+    // of every theme (millions of objects) is then never held at once.
+    const shape = opts.shape;
     const st = this.state;
     const nT = st.themes.length;
     const ids = passageIds ?? this.passages.map((p) => p.id);
@@ -363,7 +367,8 @@ export class ThemeSuggester {
         chosen: chosen.has(t),
         reasons: r < withReasons || chosen.has(t) ? this.reasons(p, t, seeds[t]!, have, chosen.has(t)) : NO_REASONS,
       }));
-      return { passageId: id, transcript: this.passages[p]!.transcript, candidates, unclaimed: chosen.size === 0 };
+      const out = { passageId: id, transcript: this.passages[p]!.transcript, candidates, unclaimed: chosen.size === 0 };
+      return shape ? shape(out) : out;
     });
   }
 
