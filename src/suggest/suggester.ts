@@ -253,7 +253,11 @@ export class ThemeSuggester {
     // would be millions of numbers): its calibration, threshold and options are hashed as text.
     const f = this.st.fewshot;
     const light = { ...this.st, fewshot: { options: f.options, calibration: f.calibration, seedCalibration: f.seedCalibration, threshold: f.threshold, seedScale: f.seedScale } };
-    this.fp = fingerprint([JSON.stringify(light), prof.s, prof.y, Float64Array.from(this.conf, logOdds), this.conf]);
+    // A loop, not Float64Array.from(conf, logOdds): with a map function that goes through a
+    // temporary list of boxed numbers, 370 MB of garbage for 20,000 passages x 367 themes.
+    const scores = new Float64Array(this.conf.length);
+    for (let i = 0; i < scores.length; i++) scores[i] = logOdds(this.conf[i]!);
+    this.fp = fingerprint([JSON.stringify(light), prof.s, prof.y, scores, this.conf]);
     return this;
   }
 
