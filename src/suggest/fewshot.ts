@@ -328,12 +328,10 @@ export function fitFewshot(
       // themes in proportion to their confidences, weighted by em, and the model is refitted.
       shares = softShares(conf, x, ids, codedT, transcriptOf, tree, o.em, negOf, like);
       shareAt = new Map(shares.map((sp) => [pIndex.get(sp.id)!, sp]));
-      st.R.fill(0);
-      for (let k = 0; k < base.R.at.length; k++) st.R[base.R.at[k]!] = base.R.v[k]!;
       st.tot.set(base.tot);
       st.G.set(base.G);
       st.gtot = base.gtot;
-      addShares(st, shares);
+      addShares(st, shares, base.R);
     }
     // After the first round only the Naive Bayes signals change: the others are kept.
     if (round === 0) {
@@ -379,9 +377,9 @@ export function fitFewshot(
       const ti = transcriptOf[(cell / nT) | 0]!;
       (rowsOfT.get(ti) ?? rowsOfT.set(ti, []).get(ti)!).push(i);
     });
-    const rowFeatures = new CellFeatures(st, raw, seedScale);
+    const features = new CellFeatures(st, raw, seedScale);
     for (const [ti, rs] of rowsOfT) {
-      const f = rowFeatures.build(members[ti]!);
+      const f = features.build(members[ti]!);
       for (const i of rs) {
         const cell = rows[i]!;
         const at = (placeOf[(cell / nT) | 0]! * nT + (cell % nT)) * NF;
@@ -398,7 +396,6 @@ export function fitFewshot(
     // Second pass: every transcript's features again, each calibrated as soon as it is built.
     if (round === 0) (conf = new Float64Array(nP * nT)), (context = new Float64Array(nP * nT));
     const apply = calibrator(calibration, seedCalibration, nT, like, conf, context);
-    const features = new CellFeatures(st, raw, seedScale);
     for (const m of members) apply(features.build(m), m);
   }
   const heldConf = rows.map((cell) => conf[cell]!);
@@ -570,8 +567,6 @@ function unpackDoubles(s: string): Float64Array {
 
 /** Soft counts per (term, theme) and per term over all themes, dense, with their total mass. */
 interface Soft {
-  /** Term-major, as Stats.R. */
-  R: Float64Array;
   G: Float64Array;
   mass: number;
 }
@@ -609,7 +604,7 @@ function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT
 
 /**
  * The soft counts the shares add up to (the fit and the scoring of a stored state sum them
- * alike), summed in R (all zeros).
+ * alike): per (term, theme) summed into R (all zeros, term-major as Stats.R), per term returned.
  */
 function softTotals(shares: readonly Share[], nT: number, V: number, R: Float64Array): Soft {
   const G = new Float64Array(V);
@@ -625,7 +620,7 @@ function softTotals(shares: readonly Share[], nT: number, V: number, R: Float64A
       for (let q = 0; q < sp.themes.length; q++) R[off + sp.themes[q]!] = R[off + sp.themes[q]!]! + sp.weights[q]! * v;
     }
   }
-  return { R, G, mass };
+  return { G, mass };
 }
 
 /** A stored share as the dense weights rawSignals takes out. */
@@ -638,12 +633,11 @@ function shareOf(sh: Share, nT: number): { theme: Float64Array; all: number } {
 /**
  * Adds the shares' soft counts to the stats: each theme's total sums them in term order, and
  * each count is its own plus the soft one. The soft counts are summed in st.R itself, its own
- * counts put aside as their non-zero cells (few: the coded passages' terms) and added back, so
- * that no second term x theme array is needed.
+ * counts put aside as their non-zero cells (few: the coded passages' terms; given when the
+ * caller has them) and added back, so that no second term x theme array is needed.
  */
-function addShares(st: Stats, shares: readonly Share[]): void {
+function addShares(st: Stats, shares: readonly Share[], own = nonZeros(st.R)): void {
   const { nT, V, R } = st;
-  const own = nonZeros(R);
   R.fill(0);
   const soft = softTotals(shares, nT, V, R);
   for (let j = 0; j < V; j++) {
