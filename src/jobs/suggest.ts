@@ -1,5 +1,6 @@
 import { UserError } from '../errors.js';
-import { resolveOptions, STATE_VERSION, ThemeSuggester } from '../suggest/suggester.js';
+import { resolveOptions, STATE_VERSION, ThemeSuggester, type SuggesterState } from '../suggest/suggester.js';
+import { decodeState, encodeState } from '../suggest/state-codec.js';
 import type { ModelPassage, PassageSuggestions, SuggesterOptions, ThemeReport } from '../suggest/types.js';
 import type { DB } from '../study/db.js';
 import { passageTokens } from '../study/passages.js';
@@ -63,8 +64,10 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
   let scorer: ((passages: ModelPassage[]) => ThemeSuggester) | null = null;
   const stored = loadState(db, key);
   if (stored) {
-    const from = (passages: ModelPassage[]) => ThemeSuggester.fromState(stored.state, inputs.themes, passages, stored.fingerprint);
     try {
+      const state = decodeState<SuggesterState>(stored.bytes);
+      const fp = stored.fingerprint; // (the closure keeps the state, not the bytes it came from)
+      const from = (passages: ModelPassage[]) => ThemeSuggester.fromState(state, inputs.themes, passages, fp);
       model = from(only ? only(inputs) : inputs.passages);
       if (only) scorer = from;
     } catch {
@@ -77,7 +80,7 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
   const fitted = model;
   const keep = () => {
     if (reused) touchState(db, key);
-    else saveState(db, key, fitted.state, fitted.fingerprint);
+    else saveState(db, key, encodeState(fitted.state), fitted.fingerprint);
   };
   return { model, inputs, rev, negatives, key, reused, keep, scorer };
 }

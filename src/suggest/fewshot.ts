@@ -24,7 +24,6 @@
  * The outcome is the theme itself (not a sub-theme of it): a parent is likely only when coders
  * gave the parent itself.
  */
-import { Buffer } from 'node:buffer';
 import { TfidfVectorizer, type TfidfState } from '../text/tfidf.js';
 import type { SparseVector } from '../math/sparse.js';
 import { buildTree, type Tree } from './hierarchy.js';
@@ -125,7 +124,7 @@ export interface Calibration {
 
 /** The learned state: enough to score any passage, including one added after the fit. */
 export interface FewshotState {
-  version: 3;
+  version: 4;
   options: FewshotResolved;
   tfidf: TfidfState;
   themes: { id: string; path: string; parent: number; depth: number; children: number; direct: number; rolled: number; transcripts: number }[];
@@ -140,7 +139,7 @@ export interface FewshotState {
    * one's vector and weights. Their sums are added to `counts` and `all`; a passage listed here
    * is scored without its own share, as the fit scored it.
    */
-  soft: SoftPassage[];
+  soft: SoftShares;
   /** Rejected suggestions: the passage's vector and the themes it was rejected for. */
   rejected: { indices: number[]; values: number[]; themes: number[] }[];
   /** Per theme, its name, definition and seed terms as a vector (empty when it has none). */
@@ -162,17 +161,35 @@ export interface SeedScale {
   sd: number[];
 }
 
-function seedScaleOf(raw: Float64Array, nP: number, nT: number): SeedScale {
-  const mean = new Array<number>(nT).fill(0);
-  const sd = new Array<number>(nT).fill(0);
-  for (let t = 0; t < nT; t++) {
-    let s1 = 0;
-    let s2 = 0;
-    for (let p = 0; p < nP; p++) (s1 += raw[(p * nT + t) * NR + 3]!), (s2 += raw[(p * nT + t) * NR + 3]! ** 2);
-    mean[t] = s1 / Math.max(nP, 1);
-    sd[t] = Math.sqrt(Math.max(s2 / Math.max(nP, 1) - mean[t]! ** 2, 0)) || 1;
+function seedScaleOf(st: Stats, x: SparseVector[]): SeedScale {
+  const nT = st.nT;
+  const nP = x.length;
+  const s1 = new Array<number>(nT).fill(0);
+  const s2 = new Array<number>(nT).fill(0);
+  const v = new Float64Array(nT);
+  // Passage by passage, each theme's sums in passage order (as theme by theme over the passages).
+  for (let p = 0; p < nP; p++) {
+    seedCosines(st, x[p]!, v);
+    for (let t = 0; t < nT; t++) (s1[t] = s1[t]! + v[t]!), (s2[t] = s2[t]! + v[t]! ** 2);
   }
+  const mean = s1.map((a) => a / Math.max(nP, 1));
+  const sd = s2.map((b, t) => Math.sqrt(Math.max(b / Math.max(nP, 1) - mean[t]! ** 2, 0)) || 1);
   return { mean, sd };
+}
+
+/**
+ * Each theme's seed cosine with x (both unit length), into out, through the seed vectors' terms:
+ * each sum runs over the shared terms in term order, as a sparse dot product does.
+ */
+function seedCosines(st: Stats, x: SparseVector, out: Float64Array): void {
+  out.fill(0);
+  const { seedPost } = st;
+  for (let k = 0; k < x.indices.length; k++) {
+    const ps = seedPost[x.indices[k]!];
+    if (!ps) continue;
+    const w = x.values[k]!;
+    for (let q = 0; q < ps.t.length; q++) out[ps.t[q]!] = out[ps.t[q]!]! + w * ps.w[q]!;
+  }
 }
 
 /** Dense working copy of the counts, mutated while a coded transcript is left out. */
@@ -194,20 +211,26 @@ interface Stats {
   codedThemes: number[][];
   codedTranscript: number[];
   seeds: SparseVector[];
+  /** The seed vectors by term: per term, the themes whose seed vector holds it, with its weight. */
+  seedPost: ({ t: number[]; w: number[] } | undefined)[];
   unit: number;
   o: FewshotResolved;
   /** Per scored passage: its words, and 1 for an interviewer's turn. */
   words: number[];
   interviewer: number[];
+  /** A buffer rawSignals reuses for the seed cosines. */
+  seedScratch?: Float64Array;
 }
 
 export interface ScoredCells {
   /** [passage * nT + theme] calibrated confidence. */
   conf: Float64Array;
-  /** [passage * nT + theme] raw signals (RAW order), for reasons. */
-  raw: Float64Array;
+  /** [passage * nT + theme] the nearest-passage signal (for reasons). */
+  knn: Float64Array;
   /** Nearest coded passage per cell (index into state.coded), -1 when none. */
   nearest: Int32Array;
+  /** [(passage * nT + theme) * 4 + signal] every raw signal (RAW order), when the fit is asked for them (tests, studies of the model). */
+  raw?: Float64Array;
   /** The part of each cell's logit that its neighbouring passages give (for reasons). */
   context: Float64Array;
 }
@@ -236,6 +259,7 @@ export function fitFewshot(
   opts: FewshotOptions = {},
   negatives: Coding[] = [],
   progress: (done: number) => void = () => {},
+  extra: { raw?: boolean } = {},
 ): FewshotFit {
   const o = resolveFewshot(opts);
   const tree = buildTree(themes);
@@ -308,60 +332,66 @@ export function fitFewshot(
   // Base counts, kept so that each round of the uncoded passages' soft counts starts from them
   // (the term x theme counts as their non-zero cells: the coded passages' terms only).
   const base = { R: nonZeros(st.R), tot: st.tot.slice(), G: st.G.slice(), gtot: st.gtot };
-  let shares: Share[] = [];
-  let shareAt = new Map<number, Share>();
-  let raw!: Float64Array;
-  let nearest!: Int32Array;
+  let shares = noShares();
+  /** Passage -> its place in shares. */
+  let shareAt = new Map<number, number>();
   let rows!: number[];
   let y!: Uint8Array;
   let calibration!: Calibration;
   let seedCalibration!: Calibration | null;
   let conf!: Float64Array;
   let context!: Float64Array;
-  let seedScale!: SeedScale;
+  // The signals that do not change between EM rounds, kept per cell from the first: the nearest
+  // coded passage and its similarity. The others are worked out a transcript at a time as its
+  // features are built (all cells' signals at once were 235 MB at 20,000 answers x 367 themes).
+  const kept: KeptSignals = { knn: new Float64Array(nP * nT), nearest: new Int32Array(nP * nT).fill(-1) };
+  const seedScale = seedScaleOf(st, x);
+  const allRaw = extra.raw ? new Float64Array(nP * nT * NR) : null;
   const codedOfT = new Map<number, number[]>();
   state0.coded.forEach((c, ci) => (codedOfT.get(c.transcript) ?? codedOfT.set(c.transcript, []).get(c.transcript)!).push(ci));
   const like = rejectedLike(x, rejected, nT);
-  for (let round = 0; round <= (o.em > 0 ? o.emRounds : 0); round++) {
+  const rounds = (o.em > 0 ? o.emRounds : 0) + 1;
+  let scratch = new Float64Array(0);
+  for (let round = 0; round < rounds; round++) {
+    progress(round / rounds);
     if (round > 0) {
       // Semi-supervised EM (multinomial models): the uncoded passages join the counts of the
       // themes in proportion to their confidences, weighted by em, and the model is refitted.
       shares = softShares(conf, x, ids, codedT, transcriptOf, tree, o.em, negOf, like);
-      shareAt = new Map(shares.map((sp) => [pIndex.get(sp.id)!, sp]));
+      shareAt = new Map(shares.ids.map((id, k) => [pIndex.get(id)!, k]));
       st.tot.set(base.tot);
       st.G.set(base.G);
       st.gtot = base.gtot;
       addShares(st, shares, base.R);
     }
-    // After the first round only the Naive Bayes signals change: the others are kept.
-    if (round === 0) {
-      raw = new Float64Array(nP * nT * NR);
-      nearest = new Int32Array(nP * nT).fill(-1);
-    }
-    // Left-out signals for the coded transcripts; full-model signals for the others.
-    const rounds = (o.em > 0 ? o.emRounds : 0) + 1;
-    for (let ti = 0; ti < members.length; ti++) {
-      if (ti % 250 === 0) progress((round + ti / members.length) / rounds);
+    /**
+     * Transcript ti's raw signals, NR per cell, its passages in order: left-out signals for a
+     * coded transcript, full-model ones for the others. The nearest-passage signals are found in
+     * the first round (each transcript's raw signals are worked out once a round) and kept.
+     */
+    const rawOf = (ti: number, into: Float64Array): Float64Array => {
+      const m = members[ti]!;
+      const known = round > 0;
       if (byPassage && codedT[ti]) {
-        for (const p of members[ti]!) {
+        m.forEach((p, i) => {
           const ci = codedCi.get(p);
           const restore = ci !== undefined ? leaveOut(st, state0.coded, [ci], -1) : null;
-          rawSignals(st, x[p]!, ci !== undefined ? foldOf(ci) : -1, raw, nearest, p, round > 0, null);
+          rawSignals(st, x[p]!, ci !== undefined ? foldOf(ci) : -1, into, i, p, kept, known, null);
           if (restore) restore();
-        }
-        continue;
+        });
+        return into;
       }
       const out = codedOfT.get(ti) ?? [];
       const restore = out.length ? leaveOut(st, state0.coded, out, -1) : null;
-      for (const p of members[ti]!) {
+      m.forEach((p, i) => {
         // An uncoded passage is scored without its own soft counts (as a new passage would be).
         const own = round > 0 && !out.length && o.emLeaveOut ? shareAt.get(p) : undefined;
-        const self = own ? shareOf(own, nT) : null;
-        rawSignals(st, x[p]!, out.length ? ti : -1, raw, nearest, p, round > 0, self);
-      }
+        const self = own !== undefined ? shareOf(shares, own, nT) : null;
+        rawSignals(st, x[p]!, out.length ? ti : -1, into, i, p, kept, known, self);
+      });
       if (restore) restore();
-    }
-    seedScale = seedScaleOf(raw, nP, nT);
+      return into;
+    };
 
     // Calibration rows: every cell of the coded transcripts, and each rejection elsewhere (an
     // observation "not this theme").
@@ -370,16 +400,20 @@ export function fitFewshot(
     for (const [p, ts] of [...negOf].sort((a, b) => a[0] - b[0])) if (!codedT[transcriptOf[p]!]) for (const t of ts) rows.push(p * nT + t);
     y = Uint8Array.from(rows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0));
     // First pass: the features of the rows only (the fit learns on them), each transcript with a
-    // row built once and its rows copied out, in row order.
+    // row built once and its rows copied out, in row order. Those transcripts' raw signals are
+    // kept for the second pass (they are the coded batch and the rejections: a small share).
     const rowFeats = new Float32Array(rows.length * NF);
     const rowsOfT = new Map<number, number[]>();
     rows.forEach((cell, i) => {
       const ti = transcriptOf[(cell / nT) | 0]!;
       (rowsOfT.get(ti) ?? rowsOfT.set(ti, []).get(ti)!).push(i);
     });
-    const features = new CellFeatures(st, raw, seedScale);
+    const features = new CellFeatures(st, seedScale);
+    const rawKept = new Map<number, Float64Array>();
     for (const [ti, rs] of rowsOfT) {
-      const f = features.build(members[ti]!);
+      const r = rawOf(ti, new Float64Array(members[ti]!.length * nT * NR));
+      rawKept.set(ti, r);
+      const f = features.build(members[ti]!, r);
       for (const i of rs) {
         const cell = rows[i]!;
         const at = (placeOf[(cell / nT) | 0]! * nT + (cell % nT)) * NF;
@@ -393,10 +427,20 @@ export function fitFewshot(
     const HAS = FEATURES.indexOf('has');
     const seedRows = all.filter((i) => rowFeats[i * NF + HAS] === 1);
     seedCalibration = o.drop.includes('seed_only_model') ? null : fitCalibration([...SEED_FEATURES], rowFeats, seedRows, Uint8Array.from(seedRows, (i) => y[i]!), o.ridge, round > 0 ? seedCalibration : null);
-    // Second pass: every transcript's features again, each calibrated as soon as it is built.
+    // Second pass: every transcript's signals and features, each calibrated as soon as built.
     if (round === 0) (conf = new Float64Array(nP * nT)), (context = new Float64Array(nP * nT));
     const apply = calibrator(calibration, seedCalibration, nT, like, conf, context);
-    for (const m of members) apply(features.build(m), m);
+    for (let ti = 0; ti < members.length; ti++) {
+      if (ti % 250 === 0) progress((round + ti / members.length) / rounds);
+      const m = members[ti]!;
+      let r = rawKept.get(ti);
+      if (!r) {
+        if (scratch.length < m.length * nT * NR) scratch = new Float64Array(m.length * nT * NR);
+        r = rawOf(ti, scratch);
+      }
+      if (allRaw && round === rounds - 1) m.forEach((p, i) => allRaw.set(r.subarray(i * nT * NR, (i + 1) * nT * NR), p * nT * NR));
+      apply(features.build(m, r), m);
+    }
   }
   const heldConf = rows.map((cell) => conf[cell]!);
   let held = chooseThreshold(heldConf, y, o.targetPrecision, 5);
@@ -419,7 +463,7 @@ export function fitFewshot(
     transcripts: new Set(state0.coded.filter((c) => c.themes.includes(t)).map((c) => c.transcript)).size,
   }));
   const state: FewshotState = {
-    version: 3,
+    version: 4,
     options: o,
     tfidf: vec.state,
     themes: themesOut,
@@ -427,7 +471,7 @@ export function fitFewshot(
     all: denseToSparse(base.G),
     coded: codedIdx.map((p, ci) => ({ id: passages[p]!.id, transcript: passages[p]!.transcript, ...sp(x[p]!), themes: state0.coded[ci]!.themes })),
     rejected: rejected.map((r) => ({ ...sp(r.vector), themes: r.themes })),
-    soft: shares.map((sh) => storedShare(sh, nT)),
+    soft: shares,
     seeds: seedVecs.map(sp),
     unitMass: st.unit,
     seedScale,
@@ -439,7 +483,7 @@ export function fitFewshot(
   return {
     state,
     heldOut: { passage: rows.map((c) => (c / nT) | 0), theme: rows.map((c) => c % nT), conf: heldConf, y: [...y] },
-    cells: { conf, raw, nearest, context },
+    cells: { conf, knn: kept.knn, nearest: kept.nearest, context, ...(allRaw ? { raw: allRaw } : {}) },
   };
 }
 
@@ -451,7 +495,7 @@ export function fitFewshot(
  * look at their neighbours.
  */
 export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages: ModelPassage[]): ScoredCells {
-  if (state.version !== 3) throw new Error(`fewshot state version ${String(state.version)} is not this version's (3): fit again`);
+  if (state.version !== 4) throw new Error(`fewshot state version ${String(state.version)} is not this version's (4): fit again`);
   const o = state.options;
   const tree = buildTree(themes);
   const vec = TfidfVectorizer.fromState(state.tfidf);
@@ -469,9 +513,9 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   const codedId = new Map(state.coded.map((c, ci) => [c.id, ci]));
   const rejected = state.rejected.map((r) => ({ vector: dense(r), themes: r.themes }));
   const st = buildStats(coded, tree, V, state.seeds.map(dense), o, rejected);
-  const soft = state.soft.map(shareOfStored);
+  const soft = state.soft;
   addShares(st, soft);
-  const ownShare = new Map(o.emLeaveOut ? soft.map((sh) => [sh.id, sh]) : []);
+  const ownShare = new Map(o.emLeaveOut ? soft.ids.map((id, k) => [id, k]) : []);
   st.words = passages.map((p) => p.words ?? p.terms.length);
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
   const members: number[][] = [];
@@ -481,88 +525,62 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
     members[members.length - 1]!.push(i);
   });
   const nP = passages.length;
-  const raw = new Float64Array(nP * nT * NR);
-  const nearest = new Int32Array(nP * nT).fill(-1);
+  const kept: KeptSignals = { knn: new Float64Array(nP * nT), nearest: new Int32Array(nP * nT).fill(-1) };
   const xs = passages.map((p) => vec.vector(p.terms));
-  for (const m of members) {
-    const out = codedOf.get(passages[m[0]!]!.transcript) ?? [];
-    if (out.length && byPassage) {
-      for (const i of m) {
-        const ci = codedId.get(passages[i]!.id);
-        const restore = ci !== undefined ? leaveOut(st, coded, [ci], -1) : null;
-        rawSignals(st, xs[i]!, ci !== undefined ? foldOf(ci) : -1, raw, nearest, i, false, null);
-        if (restore) restore();
-      }
-      continue;
-    }
-    const restore = out.length ? leaveOut(st, coded, out, -1) : null;
-    for (const i of m) {
-      const own = out.length ? undefined : ownShare.get(passages[i]!.id);
-      rawSignals(st, xs[i]!, out.length ? foldOf(out[0]!) : -1, raw, nearest, i, false, own ? shareOf(own, nT) : null);
-    }
-    if (restore) restore();
-  }
   const like = rejectedLike(xs, rejected, nT);
   const conf = new Float64Array(nP * nT);
   const context = new Float64Array(nP * nT);
   const apply = calibrator(state.calibration, state.seedCalibration, nT, like, conf, context);
-  const features = new CellFeatures(st, raw, state.seedScale);
-  for (const m of members) apply(features.build(m), m);
-  return { conf, raw, nearest, context };
-}
-
-/** An uncoded passage's part of the soft counts: its vector, its weight per theme (sparse), and over all themes. */
-interface Share {
-  id: string;
-  indices: ArrayLike<number>;
-  values: ArrayLike<number>;
-  themes: ArrayLike<number>;
-  weights: ArrayLike<number>;
-  all: number;
+  const features = new CellFeatures(st, state.seedScale);
+  // A transcript at a time: its raw signals, its features, its confidences.
+  let raw = new Float64Array(0);
+  for (const m of members) {
+    if (raw.length < m.length * nT * NR) raw = new Float64Array(m.length * nT * NR);
+    const out = codedOf.get(passages[m[0]!]!.transcript) ?? [];
+    if (out.length && byPassage) {
+      m.forEach((i, at) => {
+        const ci = codedId.get(passages[i]!.id);
+        const restore = ci !== undefined ? leaveOut(st, coded, [ci], -1) : null;
+        rawSignals(st, xs[i]!, ci !== undefined ? foldOf(ci) : -1, raw, at, i, kept, false, null);
+        if (restore) restore();
+      });
+    } else {
+      const restore = out.length ? leaveOut(st, coded, out, -1) : null;
+      m.forEach((i, at) => {
+        const own = out.length ? undefined : ownShare.get(passages[i]!.id);
+        rawSignals(st, xs[i]!, out.length ? foldOf(out[0]!) : -1, raw, at, i, kept, false, own !== undefined ? shareOf(soft, own, nT) : null);
+      });
+      if (restore) restore();
+    }
+    apply(features.build(m, raw), m);
+  }
+  return { conf, knn: kept.knn, nearest: kept.nearest, context };
 }
 
 /**
- * A Share as the state stores it. Its doubles are little-endian bytes in base64: exact, and
- * about half the text of their decimals (nearly every uncoded passage has a weight for nearly
- * every theme: the shares were 97% of a stored state, 93 MB of JSON at 10,000 answers).
+ * The uncoded passages' parts of the soft counts (semi-supervised EM), packed: per passage its
+ * vector, its weight over all themes, and its weight per theme, dense (nearly every uncoded
+ * passage has a weight for nearly every theme; 0 is none). Typed arrays, not an object per
+ * passage: at 20,000 answers x 367 themes the objects and their lists took about 180 MB more,
+ * and the state stores the arrays as they are (src/suggest/state-codec.ts).
  */
-export interface SoftPassage {
-  id: string;
-  /** The passage's vector: its term indices... */
-  indices: number[];
-  /** ...and their weights (base64 doubles). */
-  values: string;
-  /** The themes with a weight, one bit each (theme t: byte t >> 3, bit t & 7), in base64. */
-  themes: string;
-  /** Their weights in theme order (base64 doubles). */
-  weights: string;
-  all: number;
+export interface SoftShares {
+  ids: string[];
+  /** Passage k's vector: terms vecIndex[vecStart[k]..vecStart[k+1]) with weights vecValue. */
+  vecStart: Int32Array;
+  vecIndex: Int32Array;
+  vecValue: Float64Array;
+  /** Passage k's weight of theme t at [k * nT + t]. */
+  weights: Float64Array;
+  /** Passage k's weight over all themes. */
+  all: Float64Array;
 }
 
-function storedShare(sh: Share, nT: number): SoftPassage {
-  const bits = Buffer.alloc((nT + 7) >> 3);
-  for (let q = 0; q < sh.themes.length; q++) bits[sh.themes[q]! >> 3] |= 1 << (sh.themes[q]! & 7);
-  return { id: sh.id, indices: Array.from(sh.indices), values: packDoubles(sh.values), themes: bits.toString('base64'), weights: packDoubles(sh.weights), all: sh.all };
-}
+const noShares = (): SoftShares => ({ ids: [], vecStart: new Int32Array(1), vecIndex: new Int32Array(0), vecValue: new Float64Array(0), weights: new Float64Array(0), all: new Float64Array(0) });
 
-function shareOfStored(sp: SoftPassage): Share {
-  const bits = Buffer.from(sp.themes, 'base64');
-  const themes: number[] = [];
-  for (let t = 0; t < bits.length * 8; t++) if (bits[t >> 3]! & (1 << (t & 7))) themes.push(t);
-  return { id: sp.id, indices: sp.indices, values: unpackDoubles(sp.values), themes, weights: unpackDoubles(sp.weights), all: sp.all };
-}
-
-function packDoubles(a: ArrayLike<number>): string {
-  const b = Buffer.allocUnsafe(a.length * 8);
-  for (let i = 0; i < a.length; i++) b.writeDoubleLE(a[i]!, i * 8);
-  return b.toString('base64');
-}
-
-function unpackDoubles(s: string): Float64Array {
-  const b = Buffer.from(s, 'base64');
-  const out = new Float64Array(b.length >> 3);
-  for (let i = 0; i < out.length; i++) out[i] = b.readDoubleLE(i * 8);
-  return out;
+/** Passage k's share as rawSignals takes it out (a view, not a copy). */
+function shareOf(sh: SoftShares, k: number, nT: number): { theme: Float64Array; all: number } {
+  return { theme: sh.weights.subarray(k * nT, (k + 1) * nT), all: sh.all[k]! };
 }
 
 /** Soft counts per (term, theme) and per term over all themes, dense, with their total mass. */
@@ -587,18 +605,22 @@ function softShare(conf: Float64Array, p: number, nT: number, tree: Tree, weight
   return { theme: share, all: weight * Math.min(1, total) };
 }
 
-/** Each uncoded passage's soft weights (theme indices and values, and over all themes), in passage order. */
-function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, weight: number, negOf: Map<number, number[]>, like: Float64Array): Share[] {
+/** Each uncoded passage's soft weights (per theme and over all themes), in passage order. */
+function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, weight: number, negOf: Map<number, number[]>, like: Float64Array): SoftShares {
   const nT = tree.themes.length;
-  const out: Share[] = [];
-  for (let p = 0; p < x.length; p++) {
-    if (codedT[transcriptOf[p]!]) continue;
+  const which: number[] = [];
+  for (let p = 0; p < x.length; p++) if (!codedT[transcriptOf[p]!]) which.push(p);
+  const n = which.length;
+  const vecStart = new Int32Array(n + 1);
+  which.forEach((p, k) => (vecStart[k + 1] = vecStart[k]! + x[p]!.indices.length));
+  const out: SoftShares = { ids: which.map((p) => ids[p]!), vecStart, vecIndex: new Int32Array(vecStart[n]!), vecValue: new Float64Array(vecStart[n]!), weights: new Float64Array(n * nT), all: new Float64Array(n) };
+  which.forEach((p, k) => {
     const w = softShare(conf, p, nT, tree, weight, negOf.get(p), like);
-    const themes: number[] = [];
-    const weights: number[] = [];
-    for (let t = 0; t < nT; t++) if (w.theme[t]) themes.push(t), weights.push(w.theme[t]!);
-    out.push({ id: ids[p]!, indices: x[p]!.indices, values: x[p]!.values, themes, weights, all: w.all });
-  }
+    out.vecIndex.set(x[p]!.indices, vecStart[k]!);
+    out.vecValue.set(x[p]!.values, vecStart[k]!);
+    out.weights.set(w.theme, k * nT);
+    out.all[k] = w.all;
+  });
   return out;
 }
 
@@ -606,28 +628,26 @@ function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT
  * The soft counts the shares add up to (the fit and the scoring of a stored state sum them
  * alike): per (term, theme) summed into R (all zeros, term-major as Stats.R), per term returned.
  */
-function softTotals(shares: readonly Share[], nT: number, V: number, R: Float64Array): Soft {
+function softTotals(shares: SoftShares, nT: number, V: number, R: Float64Array): Soft {
   const G = new Float64Array(V);
   let mass = 0;
-  for (const sp of shares) {
-    const g = sp.all;
-    for (let k = 0; k < sp.indices.length; k++) {
-      const j = sp.indices[k]!;
-      const v = sp.values[k]!;
+  const { vecStart, vecIndex, vecValue, weights, all } = shares;
+  for (let s = 0; s < all.length; s++) {
+    const g = all[s]!;
+    const wo = s * nT;
+    for (let k = vecStart[s]!; k < vecStart[s + 1]!; k++) {
+      const j = vecIndex[k]!;
+      const v = vecValue[k]!;
       G[j] = G[j]! + g * v;
       mass += g * v;
       const off = j * nT;
-      for (let q = 0; q < sp.themes.length; q++) R[off + sp.themes[q]!] = R[off + sp.themes[q]!]! + sp.weights[q]! * v;
+      for (let t = 0; t < nT; t++) {
+        const w = weights[wo + t]!;
+        if (w) R[off + t] = R[off + t]! + w * v;
+      }
     }
   }
   return { G, mass };
-}
-
-/** A stored share as the dense weights rawSignals takes out. */
-function shareOf(sh: Share, nT: number): { theme: Float64Array; all: number } {
-  const theme = new Float64Array(nT);
-  for (let q = 0; q < sh.themes.length; q++) theme[sh.themes[q]!] = sh.weights[q]!;
-  return { theme, all: sh.all };
 }
 
 /**
@@ -636,7 +656,7 @@ function shareOf(sh: Share, nT: number): { theme: Float64Array; all: number } {
  * counts put aside as their non-zero cells (few: the coded passages' terms; given when the
  * caller has them) and added back, so that no second term x theme array is needed.
  */
-function addShares(st: Stats, shares: readonly Share[], own = nonZeros(st.R)): void {
+function addShares(st: Stats, shares: SoftShares, own = nonZeros(st.R)): void {
   const { nT, V, R } = st;
   R.fill(0);
   const soft = softTotals(shares, nT, V, R);
@@ -815,11 +835,25 @@ function buildStats(
     codedThemes: coded.map((c) => c.themes),
     codedTranscript: coded.map((c) => c.transcript),
     seeds,
+    seedPost: seedPostings(seeds, V),
     words: [],
     interviewer: [],
     unit: coded.length ? (gtot - rejected.reduce((a, r) => a + r.vector.values.reduce((b, w) => b + w, 0), 0)) / coded.length : 1,
     o,
   };
+}
+
+function seedPostings(seeds: SparseVector[], V: number): Stats['seedPost'] {
+  const post: Stats['seedPost'] = new Array(V);
+  seeds.forEach((v, t) => {
+    for (let k = 0; k < v.indices.length; k++) {
+      const j = v.indices[k]!;
+      const ps = (post[j] ??= { t: [], w: [] });
+      ps.t.push(t);
+      ps.w.push(v.values[k]!);
+    }
+  });
+  return post;
 }
 
 /** Takes the given coded passages out of the counts; returns the function that puts them back exactly. */
@@ -855,19 +889,27 @@ function leaveOut(st: Stats, coded: { vector: SparseVector; themes: number[] }[]
   };
 }
 
-/** The raw signals of one passage vector against every theme, written at row p. */
+/** The signals found once per passage and kept (they do not change between EM rounds). */
+interface KeptSignals {
+  /** [passage * nT + theme] the nearest coded passage's similarity, less the nearest rejected one's. */
+  knn: Float64Array;
+  /** [passage * nT + theme] that coded passage (index into the coded passages), -1 when none. */
+  nearest: Int32Array;
+}
+
 /**
- * @param nbOnly only the two Naive Bayes signals (the seed and nearest-passage signals do not
- *   change between EM rounds: they are kept from the first)
+ * The raw signals of one passage vector (passage p) against every theme, written at row i of raw.
+ * @param known the nearest-passage signals are in kept already (copied, not found again)
  */
 function rawSignals(
   st: Stats,
   x: SparseVector,
   skipTranscript: number,
   raw: Float64Array,
-  nearest: Int32Array,
+  i: number,
   p: number,
-  nbOnly = false,
+  kept: KeptSignals,
+  known: boolean,
   self: { theme: Float64Array; all: number } | null = null,
 ): void {
   const { nT, V, R, tot, G, tree, o } = st;
@@ -881,8 +923,10 @@ function rawSignals(
   // Top level: all coded passages shrunk toward the uniform distribution.
   const top = new Float64Array(n);
   for (let k = 0; k < n; k++) top[k] = (G[x.indices[k]!]! - selfAll * x.values[k]! + mu / V) / (gtot + mu);
-  const base = p * nT * NR;
-  if (!nbOnly) for (let t = 0; t < nT; t++) raw[base + t * NR + 3] = sparseDot(x, st.seeds[t]!); // seed cosine (both unit length)
+  const base = i * nT * NR;
+  const seed = (st.seedScratch ??= new Float64Array(nT));
+  seedCosines(st, x, seed);
+  for (let t = 0; t < nT; t++) raw[base + t * NR + 3] = seed[t]!;
   // Themes with coded passages, parents before children (a theme with none has none below it:
   // its Naive Bayes signals are unused), with their totals less the passage's own soft share.
   const live: number[] = [];
@@ -920,16 +964,20 @@ function rawSignals(
     raw[base + t * NR] = ll[t]!;
     raw[base + t * NR + 1] = cl[t]!;
   }
-  if (!nbOnly) nearestSignals(st, x, skipTranscript, raw, nearest, p);
+  const cell0 = p * nT;
+  if (known) for (let t = 0; t < nT; t++) raw[base + t * NR + 2] = kept.knn[cell0 + t]!;
+  else {
+    for (let t = 0; t < nT; t++) raw[base + t * NR + 2] = 0;
+    nearestSignals(st, x, skipTranscript, raw, base, kept.nearest, cell0);
+    for (let t = 0; t < nT; t++) kept.knn[cell0 + t] = raw[base + t * NR + 2]!;
+  }
   // Which themes have coded passages in this fold (for the standardising).
   for (let t = 0; t < nT; t++) if (!(st.rolled[t]! > 0)) raw[base + t * NR] = raw[base + t * NR + 1] = NaN;
 }
 
 /** The nearest coded passage of each theme, less the nearest rejected one's similarity. */
-function nearestSignals(st: Stats, x: SparseVector, skipTranscript: number, raw: Float64Array, nearest: Int32Array, p: number): void {
+function nearestSignals(st: Stats, x: SparseVector, skipTranscript: number, raw: Float64Array, base: number, nearest: Int32Array, cell0: number): void {
   const n = x.indices.length;
-  const base = p * st.nT * NR;
-  const nT = st.nT;
   // Nearest coded passage of each theme (sub-themes' passages count for the parent).
   const sims = new Float64Array(st.codedThemes.length);
   for (let k = 0; k < n; k++) {
@@ -943,7 +991,7 @@ function nearestSignals(st: Stats, x: SparseVector, skipTranscript: number, raw:
     for (const t of st.codedThemes[ci]!) {
       if (s > raw[base + t * NR + 2]!) {
         raw[base + t * NR + 2] = s;
-        nearest[p * nT + t] = ci;
+        nearest[cell0 + t] = ci;
       }
     }
   }
@@ -988,7 +1036,6 @@ class CellFeatures {
 
   constructor(
     private readonly st: Stats,
-    private readonly raw: Float64Array,
     private readonly seedScale: SeedScale,
   ) {
     const { nT, tree } = st;
@@ -1006,10 +1053,11 @@ class CellFeatures {
 
   /**
    * The features of one transcript's passages m (in order), at [(i * nT + theme) * NF] for its
-   * i-th passage; valid until the next call.
+   * i-th passage, from their raw signals (its i-th passage's at [(i * nT + theme) * NR]); valid
+   * until the next call.
    */
-  build(m: number[]): Float32Array {
-    const { st, raw, seedScale, children, below, ctx, comb, rank, ranked, trSum } = this;
+  build(m: number[], raw: Float64Array): Float32Array {
+    const { st, seedScale, children, below, ctx, comb, rank, ranked, trSum } = this;
     const { nT, tree, o } = st;
     const n = m.length;
     if (this.own.length < n * nT * W) {
@@ -1020,13 +1068,12 @@ class CellFeatures {
     const own = this.own;
     const f = this.feats;
     for (let i = 0; i < n; i++) {
-      const p = m[i]!;
       for (let r = 0; r < 2; r++) {
         let s = 0;
         let s2 = 0;
         let c = 0;
         for (let t = 0; t < nT; t++) {
-          const v = raw[(p * nT + t) * NR + r]!;
+          const v = raw[(i * nT + t) * NR + r]!;
           if (Number.isNaN(v)) continue;
           s += v;
           s2 += v * v;
@@ -1035,17 +1082,17 @@ class CellFeatures {
         const mean = c ? s / c : 0;
         const sd = c > 1 ? Math.sqrt(Math.max(s2 / c - mean * mean, 0)) || 1 : 1;
         for (let t = 0; t < nT; t++) {
-          const v = raw[(p * nT + t) * NR + r]!;
+          const v = raw[(i * nT + t) * NR + r]!;
           own[(i * nT + t) * W + r] = Number.isNaN(v) ? 0 : (v - mean) / sd;
         }
       }
       for (let t = 0; t < nT; t++) {
-        own[(i * nT + t) * W + 2] = raw[(p * nT + t) * NR + 2]!;
-        own[(i * nT + t) * W + 3] = raw[(p * nT + t) * NR + 3]!;
+        own[(i * nT + t) * W + 2] = raw[(i * nT + t) * NR + 2]!;
+        own[(i * nT + t) * W + 3] = raw[(i * nT + t) * NR + 3]!;
       }
       // The seed cosine standardised over the fit's passages, theme by theme: a theme described
       // in many words matches more passages a little, and this says how unusual the match is.
-      for (let t = 0; t < nT; t++) own[(i * nT + t) * W + 4] = (raw[(p * nT + t) * NR + 3]! - seedScale.mean[t]!) / seedScale.sd[t]!;
+      for (let t = 0; t < nT; t++) own[(i * nT + t) * W + 4] = (raw[(i * nT + t) * NR + 3]! - seedScale.mean[t]!) / seedScale.sd[t]!;
     }
     // Whole-transcript context: the mean of the other passages' signals (a transcript about one
     // thing throughout; the calibration learns how far that holds in this study).

@@ -1,8 +1,9 @@
 // The suggestion model as data: fit returns a plain state, and a model rebuilt from that state
-// alone (after a JSON round trip, as the study stores it) predicts what the fitted model predicted,
+// alone (after a round trip through the bytes the study stores) predicts what the fitted model predicted,
 // for passages it saw and for passages added after the fit.
 import { describe, expect, it } from 'vitest';
-import { ThemeSuggester } from '../../src/suggest/suggester.js';
+import { decodeState, encodeState } from '../../src/suggest/state-codec.js';
+import { ThemeSuggester, type SuggesterState } from '../../src/suggest/suggester.js';
 import type { Coding, ModelPassage, PassageSuggestions } from '../../src/suggest/types.js';
 import { theme } from '../helpers/themes.js';
 
@@ -39,7 +40,7 @@ const rounded = (ps: PassageSuggestions[]) =>
 
 describe('the suggestion model as data', () => {
   const fitted = new ThemeSuggester().fit(passages, codings, themes, { negatives });
-  const stored = JSON.parse(JSON.stringify(fitted.state));
+  const stored = decodeState<SuggesterState>(encodeState(fitted.state));
 
   it('reloads from its stored state to the same predictions, reasons and theme reports', () => {
     const again = ThemeSuggester.fromState(stored, themes, passages, fitted.fingerprint);
