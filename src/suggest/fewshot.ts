@@ -1164,11 +1164,14 @@ function fitCalibration(names: string[], feats: Float32Array, rows: number[], y:
   const n = Math.max(rows.length, 1);
   const mean = idx.map((j) => rows.reduce((a, row) => a + feats[row * NF + j]!, 0) / n);
   const sd = idx.map((j, q) => Math.sqrt(rows.reduce((a, row) => a + (feats[row * NF + j]! - mean[q]!) ** 2, 0) / n) || 1);
-  const X = new Float64Array(rows.length * k);
-  rows.forEach((row, i) => idx.forEach((j, q) => (X[i * k + q] = (feats[row * NF + j]! - mean[q]!) / sd[q]!)));
+  // Each row standardised as the fit reads it (all rows as doubles at once were 80 MB at 20,000 answers).
+  const row = (i: number, out: Float64Array) => {
+    const at = rows[i]! * NF;
+    for (let q = 0; q < k; q++) out[q] = (feats[at + idx[q]!]! - mean[q]!) / sd[q]!;
+  };
   // A change of the log-loss below 1e-7 of it moves no confidence by 1e-4 (measured: same figures).
   const warm = start ? { weights: start.weights, intercepts: [start.intercept] } : undefined;
-  const m = fitGrouped({ x: X, k, y, group: new Int32Array(rows.length), groups: 1 }, ridge, 1e-3, 1e-7, warm);
+  const m = fitGrouped({ row, k, y, group: new Int32Array(rows.length), groups: 1 }, ridge, 1e-3, 1e-7, warm);
   return { features: names, mean, sd, weights: m.weights, intercept: m.intercepts[0]! };
 }
 

@@ -10,8 +10,13 @@ import { addRidge, backtrack } from '../math/newton.js';
 import { sigmoid, softplus } from '../math/sigmoid.js';
 
 export interface GroupedData {
-  /** Row-major features, `k` per row. */
-  x: Float64Array;
+  /** Row-major features, `k` per row (or `row`). */
+  x?: Float64Array;
+  /**
+   * Instead of `x`: writes row i's k features into out. A large fit need not hold every row's
+   * features as doubles at once (80 MB at 20,000 answers); the Newton steps read each row anew.
+   */
+  row?: (i: number, out: Float64Array) => void;
   k: number;
   /** 0/1 outcome of each row. */
   y: Uint8Array;
@@ -51,12 +56,20 @@ export function fitGrouped(d: GroupedData, ridge = 1, interceptRidge = 1e-3, tol
     start.intercepts.forEach((b, g) => (beta[k + g] = b));
   }
 
+  const xi = new Float64Array(k);
+  const x = d.x;
+  const load =
+    d.row ??
+    ((i: number, out: Float64Array) => {
+      for (let j = 0; j < k; j++) out[j] = x![i * k + j]!;
+    });
   const model = (): GroupedModel => ({ weights: [...beta.subarray(0, k)], intercepts: [...beta.subarray(k)] });
   const objective = (b: Float64Array): number => {
     let s = 0;
     for (let i = 0; i < n; i++) {
       let z = b[k + d.group[i]!]!;
-      for (let j = 0; j < k; j++) z += b[j]! * d.x[i * k + j]!;
+      load(i, xi);
+      for (let j = 0; j < k; j++) z += b[j]! * xi[j]!;
       s += d.y[i] ? softplus(-z) : softplus(z);
     }
     for (let j = 0; j < k; j++) s += 0.5 * ridge * b[j]! * b[j]!;
@@ -71,15 +84,16 @@ export function fitGrouped(d: GroupedData, ridge = 1, interceptRidge = 1e-3, tol
     for (let i = 0; i < n; i++) {
       const g = d.group[i]!;
       let z = beta[k + g]!;
-      for (let j = 0; j < k; j++) z += beta[j]! * d.x[i * k + j]!;
+      load(i, xi);
+      for (let j = 0; j < k; j++) z += beta[j]! * xi[j]!;
       const p = sigmoid(z);
       const r = p - d.y[i]!;
       const w = Math.max(p * (1 - p), 1e-12);
       const gi = k + g;
       for (let j = 0; j < k; j++) {
-        const xj = d.x[i * k + j]!;
+        const xj = xi[j]!;
         grad[j] = grad[j]! + r * xj;
-        for (let l = 0; l <= j; l++) hess[j * dim + l] = hess[j * dim + l]! + w * xj * d.x[i * k + l]!;
+        for (let l = 0; l <= j; l++) hess[j * dim + l] = hess[j * dim + l]! + w * xj * xi[l]!;
         hess[gi * dim + j] = hess[gi * dim + j]! + w * xj;
       }
       grad[gi] = grad[gi]! + r;

@@ -69,6 +69,16 @@ export interface SuggesterState {
   coded: { passages: number; transcripts: number; codings: number; ignoredCodings: number; negatives: number };
 }
 
+/** The log-odds of conf, 65,536 at a time in one reused array. */
+function* logOddsBlocks(conf: Float64Array): Generator<Float64Array> {
+  const block = new Float64Array(Math.min(conf.length, 65_536));
+  for (let from = 0; from < conf.length; from += block.length) {
+    const n = Math.min(block.length, conf.length - from);
+    for (let i = 0; i < n; i++) block[i] = logOdds(conf[from + i]!);
+    yield n === block.length ? block : block.subarray(0, n);
+  }
+}
+
 /** Called with the share of the work done so far, 0 to 1. */
 export type Progress = (done: number) => void;
 
@@ -163,11 +173,11 @@ export class ThemeSuggester {
     this.checkable = Uint8Array.from({ length: this.vec.size }, (_, i) => (citable(this.vec.term(i)) ? 1 : 0));
     const nT = themes.length;
     const corpus: Corpus = { x, c, vocabulary: this.vec.size, transcriptOf, members, codedTranscript, labels: labelsInBatch, negatives: negs, themes: nT };
-    // The profiles serve the fit only (reports, evidence, the fingerprint): not kept after it.
-    const prof = new Profiles(corpus, o.priorStrength, o.rocchio);
+    // The profiles serve the fit only (reports, evidence, the fingerprint): what the fit needs of
+    // them is taken before the few-example scorer runs, so their arrays are gone by then.
+    const prof = this.profileFacts(corpus, tree);
     this.counts = c;
     this.exemplarIds = passages.map((p) => p.id);
-    this.evidence = this.evidenceOf(prof, nT);
 
     const profiled = themes.map((_, t) => prof.positives[t]! > 0);
     progress(0);
@@ -206,7 +216,7 @@ export class ThemeSuggester {
         path: th.path,
         exemplars: prof.positives[t]!,
         transcripts: prof.positiveTranscripts[t]!,
-        topTerms: profiled[t] ? this.topTerms(prof, t, 10) : [],
+        topTerms: prof.topTerms[t]!,
         threshold: thresholds[t]!,
         expectedPrecision,
         expectedRecall,
@@ -215,16 +225,9 @@ export class ThemeSuggester {
         warnings,
       };
     });
-    // Overlap between themes that are not ancestor and descendant.
-    for (let a = 0; a < nT; a++) {
-      for (let b = a + 1; b < nT; b++) {
-        if (!profiled[a] || !profiled[b] || tree.ancestors[a]!.includes(b) || tree.ancestors[b]!.includes(a)) continue;
-        const cos = prof.centroidCosine(a, b);
-        if (cos > o.overlapCosine) {
-          reports[a]!.warnings.push(`overlaps strongly with theme ${themes[b]!.path} (centroid cosine ${cos.toFixed(2)})`);
-          reports[b]!.warnings.push(`overlaps strongly with theme ${themes[a]!.path} (centroid cosine ${cos.toFixed(2)})`);
-        }
-      }
+    for (const { a, b, cos } of prof.overlaps) {
+      reports[a]!.warnings.push(`overlaps strongly with theme ${themes[b]!.path} (centroid cosine ${cos.toFixed(2)})`);
+      reports[b]!.warnings.push(`overlaps strongly with theme ${themes[a]!.path} (centroid cosine ${cos.toFixed(2)})`);
     }
 
     progress(1);
@@ -253,12 +256,40 @@ export class ThemeSuggester {
     // would be millions of numbers): its calibration, threshold and options are hashed as text.
     const f = this.st.fewshot;
     const light = { ...this.st, fewshot: { options: f.options, calibration: f.calibration, seedCalibration: f.seedCalibration, threshold: f.threshold, seedScale: f.seedScale } };
-    // A loop, not Float64Array.from(conf, logOdds): with a map function that goes through a
-    // temporary list of boxed numbers, 370 MB of garbage for 20,000 passages x 367 themes.
-    const scores = new Float64Array(this.conf.length);
-    for (let i = 0; i < scores.length; i++) scores[i] = logOdds(this.conf[i]!);
-    this.fp = fingerprint([JSON.stringify(light), prof.s, prof.y, scores, this.conf]);
+    // The scores (log-odds) a block at a time, as the bytes of one array of them: the whole
+    // array was 60 MB more at the end of a fit on 20,000 answers.
+    this.fp = fingerprint([JSON.stringify(light), prof.digest, { pieces: logOddsBlocks(this.conf) }, this.conf]);
     return this;
+  }
+
+  /**
+   * What the fit takes from the theme profiles: the evidence terms (kept by the model), each
+   * theme's counts and top terms, the pairs of themes that overlap strongly, and a digest of the
+   * profiles for the fingerprint.
+   */
+  private profileFacts(corpus: Corpus, tree: Tree) {
+    const o = this.options;
+    const nT = corpus.themes;
+    const prof = new Profiles(corpus, o.priorStrength, o.rocchio);
+    this.evidence = this.evidenceOf(prof, nT);
+    const profiled = (t: number) => prof.positives[t]! > 0;
+    // Overlap between themes that are not ancestor and descendant.
+    const overlaps: { a: number; b: number; cos: number }[] = [];
+    for (let a = 0; a < nT; a++) {
+      for (let b = a + 1; b < nT; b++) {
+        if (!profiled(a) || !profiled(b) || tree.ancestors[a]!.includes(b) || tree.ancestors[b]!.includes(a)) continue;
+        const cos = prof.centroidCosine(a, b);
+        if (cos > o.overlapCosine) overlaps.push({ a, b, cos });
+      }
+    }
+    return {
+      positives: prof.positives,
+      rejected: prof.rejected,
+      positiveTranscripts: prof.positiveTranscripts,
+      topTerms: Array.from({ length: nT }, (_, t) => (profiled(t) ? this.topTerms(prof, t, 10) : [])),
+      overlaps,
+      digest: fingerprint([prof.s, prof.y]),
+    };
   }
 
   /**
