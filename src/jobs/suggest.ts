@@ -122,6 +122,8 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
 
   if (!scorer) {
     const kept = rankAndExplain(db, model, targetsOf(inputs), rejected, opts.top, progress);
+    // Every prediction is made: the scores' memory is given back before the run is stored.
+    model.dropScores();
     return db.transaction(() => {
       const runId = storeSuggestionRun(db, meta, kept, progress && ((d) => progress('store', d)));
       keep();

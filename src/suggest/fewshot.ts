@@ -335,8 +335,6 @@ export function fitFewshot(
   let shares = noShares();
   /** Passage -> its place in shares. */
   let shareAt = new Map<number, number>();
-  let rows!: number[];
-  let y!: Uint8Array;
   let calibration!: Calibration;
   let seedCalibration!: Calibration | null;
   let conf!: Float64Array;
@@ -350,6 +348,18 @@ export function fitFewshot(
   const codedOfT = new Map<number, number[]>();
   state0.coded.forEach((c, ci) => (codedOfT.get(c.transcript) ?? codedOfT.set(c.transcript, []).get(c.transcript)!).push(ci));
   const like = rejectedLike(x, rejected, nT);
+  // Calibration rows: every cell of the coded transcripts, and each rejection elsewhere (an
+  // observation "not this theme"); the same in every round.
+  const rows: number[] = [];
+  for (let ti = 0; ti < members.length; ti++) if (codedT[ti]) for (const p of members[ti]!) for (let t = 0; t < nT; t++) rows.push(p * nT + t);
+  for (const [p, ts] of [...negOf].sort((a, b) => a[0] - b[0])) if (!codedT[transcriptOf[p]!]) for (const t of ts) rows.push(p * nT + t);
+  const y = Uint8Array.from(rows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0));
+  const allRows = rows.map((_, i) => i);
+  const rowsOfT = new Map<number, number[]>();
+  rows.forEach((cell, i) => {
+    const ti = transcriptOf[(cell / nT) | 0]!;
+    (rowsOfT.get(ti) ?? rowsOfT.set(ti, []).get(ti)!).push(i);
+  });
   const rounds = (o.em > 0 ? o.emRounds : 0) + 1;
   let scratch = new Float64Array(0);
   for (let round = 0; round < rounds; round++) {
@@ -357,7 +367,7 @@ export function fitFewshot(
     if (round > 0) {
       // Semi-supervised EM (multinomial models): the uncoded passages join the counts of the
       // themes in proportion to their confidences, weighted by em, and the model is refitted.
-      shares = softShares(conf, x, ids, codedT, transcriptOf, tree, o.em, negOf, like);
+      shares = softShares(conf, x, ids, codedT, transcriptOf, tree, o.em, negOf, like, round > 1 ? shares : undefined);
       shareAt = new Map(shares.ids.map((id, k) => [pIndex.get(id)!, k]));
       st.tot.set(base.tot);
       st.G.set(base.G);
@@ -393,40 +403,32 @@ export function fitFewshot(
       return into;
     };
 
-    // Calibration rows: every cell of the coded transcripts, and each rejection elsewhere (an
-    // observation "not this theme").
-    rows = [];
-    for (let ti = 0; ti < members.length; ti++) if (codedT[ti]) for (const p of members[ti]!) for (let t = 0; t < nT; t++) rows.push(p * nT + t);
-    for (const [p, ts] of [...negOf].sort((a, b) => a[0] - b[0])) if (!codedT[transcriptOf[p]!]) for (const t of ts) rows.push(p * nT + t);
-    y = Uint8Array.from(rows, (cell) => (direct[(cell / nT) | 0]!.includes(cell % nT) ? 1 : 0));
     // First pass: the features of the rows only (the fit learns on them), each transcript with a
     // row built once and its rows copied out, in row order. Those transcripts' raw signals are
     // kept for the second pass (they are the coded batch and the rejections: a small share).
-    const rowFeats = new Float32Array(rows.length * NF);
-    const rowsOfT = new Map<number, number[]>();
-    rows.forEach((cell, i) => {
-      const ti = transcriptOf[(cell / nT) | 0]!;
-      (rowsOfT.get(ti) ?? rowsOfT.set(ti, []).get(ti)!).push(i);
-    });
+    // (A function of its own, so that the rows' features are let go before the second pass.)
     const features = new CellFeatures(st, seedScale);
     const rawKept = new Map<number, Float64Array>();
-    for (const [ti, rs] of rowsOfT) {
-      const r = rawOf(ti, new Float64Array(members[ti]!.length * nT * NR));
-      rawKept.set(ti, r);
-      const f = features.build(members[ti]!, r);
-      for (const i of rs) {
-        const cell = rows[i]!;
-        const at = (placeOf[(cell / nT) | 0]! * nT + (cell % nT)) * NF;
-        rowFeats.set(f.subarray(at, at + NF), i * NF);
+    const learn = () => {
+      const rowFeats = new Float32Array(rows.length * NF);
+      for (const [ti, rs] of rowsOfT) {
+        const r = rawOf(ti, new Float64Array(members[ti]!.length * nT * NR));
+        rawKept.set(ti, r);
+        const f = features.build(members[ti]!, r);
+        for (const i of rs) {
+          const cell = rows[i]!;
+          const at = (placeOf[(cell / nT) | 0]! * nT + (cell % nT)) * NF;
+          rowFeats.set(f.subarray(at, at + NF), i * NF);
+        }
       }
-    }
-    const all = rows.map((_, i) => i);
-    calibration = fitCalibration(FEATURES.filter((f) => !o.drop.includes(f)), rowFeats, all, y, o.ridge, round > 0 ? calibration : null);
-    // Themes with no coded passage: how a name-and-seeds match alone predicts a coding, learned on
-    // the themes that have coded passages (as if they had none).
-    const HAS = FEATURES.indexOf('has');
-    const seedRows = all.filter((i) => rowFeats[i * NF + HAS] === 1);
-    seedCalibration = o.drop.includes('seed_only_model') ? null : fitCalibration([...SEED_FEATURES], rowFeats, seedRows, Uint8Array.from(seedRows, (i) => y[i]!), o.ridge, round > 0 ? seedCalibration : null);
+      calibration = fitCalibration(FEATURES.filter((f) => !o.drop.includes(f)), rowFeats, allRows, y, o.ridge, round > 0 ? calibration : null);
+      // Themes with no coded passage: how a name-and-seeds match alone predicts a coding, learned
+      // on the themes that have coded passages (as if they had none).
+      const HAS = FEATURES.indexOf('has');
+      const seedRows = allRows.filter((i) => rowFeats[i * NF + HAS] === 1);
+      seedCalibration = o.drop.includes('seed_only_model') ? null : fitCalibration([...SEED_FEATURES], rowFeats, seedRows, Uint8Array.from(seedRows, (i) => y[i]!), o.ridge, round > 0 ? seedCalibration : null);
+    };
+    learn();
     // Second pass: every transcript's signals and features, each calibrated as soon as built.
     if (round === 0) (conf = new Float64Array(nP * nT)), (context = new Float64Array(nP * nT));
     const apply = calibrator(calibration, seedCalibration, nT, like, conf, context);
@@ -605,21 +607,32 @@ function softShare(conf: Float64Array, p: number, nT: number, tree: Tree, weight
   return { theme: share, all: weight * Math.min(1, total) };
 }
 
-/** Each uncoded passage's soft weights (per theme and over all themes), in passage order. */
-function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, weight: number, negOf: Map<number, number[]>, like: Float64Array): SoftShares {
+/**
+ * Each uncoded passage's soft weights (per theme and over all themes), in passage order. An
+ * earlier round's shares (the same passages) are given to be refilled: the weights are rewritten
+ * in place, the vectors kept (a second set of weights was 60 MB more at 20,000 answers).
+ */
+function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT: Uint8Array, transcriptOf: Int32Array, tree: Tree, weight: number, negOf: Map<number, number[]>, like: Float64Array, into?: SoftShares): SoftShares {
   const nT = tree.themes.length;
   const which: number[] = [];
   for (let p = 0; p < x.length; p++) if (!codedT[transcriptOf[p]!]) which.push(p);
   const n = which.length;
-  const vecStart = new Int32Array(n + 1);
-  which.forEach((p, k) => (vecStart[k + 1] = vecStart[k]! + x[p]!.indices.length));
-  const out: SoftShares = { ids: which.map((p) => ids[p]!), vecStart, vecIndex: new Int32Array(vecStart[n]!), vecValue: new Float64Array(vecStart[n]!), weights: new Float64Array(n * nT), all: new Float64Array(n) };
+  let out = into;
+  if (!out || out.ids.length !== n) {
+    const vecStart = new Int32Array(n + 1);
+    which.forEach((p, k) => (vecStart[k + 1] = vecStart[k]! + x[p]!.indices.length));
+    out = { ids: which.map((p) => ids[p]!), vecStart, vecIndex: new Int32Array(vecStart[n]!), vecValue: new Float64Array(vecStart[n]!), weights: new Float64Array(n * nT), all: new Float64Array(n) };
+    const made = out;
+    which.forEach((p, k) => {
+      made.vecIndex.set(x[p]!.indices, made.vecStart[k]!);
+      made.vecValue.set(x[p]!.values, made.vecStart[k]!);
+    });
+  }
+  const { weights, all } = out;
   which.forEach((p, k) => {
     const w = softShare(conf, p, nT, tree, weight, negOf.get(p), like);
-    out.vecIndex.set(x[p]!.indices, vecStart[k]!);
-    out.vecValue.set(x[p]!.values, vecStart[k]!);
-    out.weights.set(w.theme, k * nT);
-    out.all[k] = w.all;
+    weights.set(w.theme, k * nT);
+    all[k] = w.all;
   });
   return out;
 }

@@ -109,6 +109,7 @@ export class ThemeSuggester {
    * 0.01 of top-1 on the interviews benchmark) but a researcher cannot check them as evidence.
    */
   private checkable = new Uint8Array(0);
+  private scoresDropped = false;
 
   constructor(opts: SuggesterOptions = {}) {
     this.options = resolveOptions(opts);
@@ -360,6 +361,19 @@ export class ThemeSuggester {
   }
 
   /**
+   * Lets go of the per-cell arrays (confidences, context parts, nearest coded passages): a large
+   * batch's are hundreds of MB, and a command that has its predictions still stores them and
+   * prints them. The state, fingerprint and theme reports stay; predict can no longer be called.
+   */
+  dropScores(): void {
+    this.conf = new Float64Array(0);
+    this.ctxPart = new Float64Array(0);
+    this.nearest = new Int32Array(0);
+    this.nearestSim = new Float64Array(0);
+    this.scoresDropped = true;
+  }
+
+  /**
    * Suggestions for the given passages (default: every passage given to fit), in input order.
    * @param opts.reasons how many of the best candidates get reasons (default 3); chosen
    * candidates always do. Reasons cost more than the scores, so bulk scoring can ask for fewer.
@@ -378,6 +392,7 @@ export class ThemeSuggester {
     const scoredThemes: number[] = [];
     for (let t = 0; t < nT; t++) if (st.themes[t]!.scored) scoredThemes.push(t);
     const seeds = this.tree.themes.map((th) => this.seedList(th));
+    if (this.scoresDropped) throw new Error('ThemeSuggester: predict after dropScores()');
     const conf = this.conf;
     return ids.map((id, i) => {
       if (i % 500 === 0) progress(i / ids.length);

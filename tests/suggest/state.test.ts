@@ -74,4 +74,16 @@ describe('the suggestion model as data', () => {
     expect(() => ThemeSuggester.fromState(stored, themes.slice(0, 4), passages, fitted.fingerprint)).toThrow(/other themes/);
     expect(() => ThemeSuggester.fromState({ ...stored, version: 3 }, themes, passages, fitted.fingerprint)).toThrow(/fit again/);
   });
+
+  it('lets go of its scores when asked, keeping its state, fingerprint and reports', () => {
+    const m = new ThemeSuggester().fit(passages, codings, themes, { negatives });
+    const reports = m.themeReports();
+    m.dropScores();
+    expect(() => m.predict(toDo)).toThrow(/after dropScores/);
+    expect(m.fingerprint).toBe(fitted.fingerprint);
+    expect(m.themeReports()).toEqual(reports);
+    // The state still scores: a model rebuilt from it predicts what the fitted one did.
+    const again = ThemeSuggester.fromState(decodeState<SuggesterState>(encodeState(m.state)), themes, passages, m.fingerprint);
+    expect(rounded(again.predict(toDo))).toEqual(rounded(fitted.predict(toDo)));
+  });
 });
