@@ -204,10 +204,10 @@ interface Stats {
 export interface ScoredCells {
   /** [passage * nT + theme] calibrated confidence. */
   conf: Float64Array;
-  /** [passage * nT + theme] raw signals (RAW order), for reasons. */
-  raw: Float64Array;
   /** Nearest coded passage per cell (index into state.coded), -1 when none. */
   nearest: Int32Array;
+  /** Each cell's similarity to its nearest coded passage (0 when none), for reasons. */
+  similarity: Float64Array;
   /** The part of each cell's logit that its neighbouring passages give (for reasons). */
   context: Float64Array;
 }
@@ -218,8 +218,8 @@ export interface FewshotFit {
   state: FewshotState;
   /** Left-out confidences of the coded transcripts' cells, with their outcomes (for reports). */
   heldOut: { passage: number[]; theme: number[]; conf: number[]; y: number[] };
-  /** Scores of every passage given to fit (coded transcripts: left-out scores). */
-  cells: ScoredCells;
+  /** Scores of every passage given to fit (coded transcripts: left-out scores), with their raw signals ([passage * nT + theme] in RAW order). */
+  cells: ScoredCells & { raw: Float64Array };
 }
 
 /** Seed vector terms of a theme: name and definition terms, seeds twice (chosen on purpose). */
@@ -439,7 +439,7 @@ export function fitFewshot(
   return {
     state,
     heldOut: { passage: rows.map((c) => (c / nT) | 0), theme: rows.map((c) => c % nT), conf: heldConf, y: [...y] },
-    cells: { conf, raw, nearest, context },
+    cells: { conf, raw, nearest, similarity: nearestSimilarity(raw, nearest), context },
   };
 }
 
@@ -469,9 +469,10 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
   const codedId = new Map(state.coded.map((c, ci) => [c.id, ci]));
   const rejected = state.rejected.map((r) => ({ vector: dense(r), themes: r.themes }));
   const st = buildStats(coded, tree, V, state.seeds.map(dense), o, rejected);
-  const soft = state.soft.map(shareOfStored);
-  addShares(st, soft);
-  const ownShare = new Map(o.emLeaveOut ? soft.map((sh) => [sh.id, sh]) : []);
+  // The shares decoded one at a time, here and where a passage's own is taken out: all of them
+  // at once were some 110 MB at 20,000 answers and 367 themes, held through the whole scoring.
+  addShares(st, decodedShares(state.soft));
+  const ownShare = new Map(o.emLeaveOut ? state.soft.map((sp) => [sp.id, sp]) : []);
   st.words = passages.map((p) => p.words ?? p.terms.length);
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
   const members: number[][] = [];
@@ -481,34 +482,59 @@ export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages:
     members[members.length - 1]!.push(i);
   });
   const nP = passages.length;
-  const raw = new Float64Array(nP * nT * NR);
-  const nearest = new Int32Array(nP * nT).fill(-1);
   const xs = passages.map((p) => vec.vector(p.terms));
-  for (const m of members) {
-    const out = codedOf.get(passages[m[0]!]!.transcript) ?? [];
-    if (out.length && byPassage) {
-      for (const i of m) {
-        const ci = codedId.get(passages[i]!.id);
-        const restore = ci !== undefined ? leaveOut(st, coded, [ci], -1) : null;
-        rawSignals(st, xs[i]!, ci !== undefined ? foldOf(ci) : -1, raw, nearest, i, false, null);
-        if (restore) restore();
-      }
-      continue;
-    }
-    const restore = out.length ? leaveOut(st, coded, out, -1) : null;
-    for (const i of m) {
-      const own = out.length ? undefined : ownShare.get(passages[i]!.id);
-      rawSignals(st, xs[i]!, out.length ? foldOf(out[0]!) : -1, raw, nearest, i, false, own ? shareOf(own, nT) : null);
-    }
-    if (restore) restore();
-  }
   const like = rejectedLike(xs, rejected, nT);
   const conf = new Float64Array(nP * nT);
   const context = new Float64Array(nP * nT);
+  const nearest = new Int32Array(nP * nT).fill(-1);
+  const similarity = new Float64Array(nP * nT);
   const apply = calibrator(state.calibration, state.seedCalibration, nT, like, conf, context);
+  // The raw signals one transcript at a time, in buffers reused from one to the next: a
+  // passage's features read only its own transcript's, and the whole study's at once were
+  // nP * nT * 4 doubles (235 MB at 20,000 answers and 367 themes). Each transcript's leave-out
+  // is restored exactly (saved values) before its features are built, as when all came first.
+  let widest = 0;
+  for (const m of members) widest = Math.max(widest, m.length);
+  const raw = new Float64Array(widest * nT * NR);
+  const rowNearest = new Int32Array(widest * nT);
+  const rows = Array.from({ length: widest }, (_, k) => k);
   const features = new CellFeatures(st, raw, state.seedScale);
-  for (const m of members) apply(features.build(m), m);
-  return { conf, raw, nearest, context };
+  for (const m of members) {
+    raw.fill(0, 0, m.length * nT * NR);
+    rowNearest.fill(-1, 0, m.length * nT);
+    const out = codedOf.get(passages[m[0]!]!.transcript) ?? [];
+    if (out.length && byPassage) {
+      m.forEach((i, k) => {
+        const ci = codedId.get(passages[i]!.id);
+        const restore = ci !== undefined ? leaveOut(st, coded, [ci], -1) : null;
+        rawSignals(st, xs[i]!, ci !== undefined ? foldOf(ci) : -1, raw, rowNearest, k, false, null);
+        if (restore) restore();
+      });
+    } else {
+      const restore = out.length ? leaveOut(st, coded, out, -1) : null;
+      m.forEach((i, k) => {
+        const own = out.length ? undefined : ownShare.get(passages[i]!.id);
+        rawSignals(st, xs[i]!, out.length ? foldOf(out[0]!) : -1, raw, rowNearest, k, false, own ? shareOf(shareOfStored(own), nT) : null);
+      });
+      if (restore) restore();
+    }
+    m.forEach((i, k) => {
+      for (let t = 0; t < nT; t++) {
+        const ci = rowNearest[k * nT + t]!;
+        nearest[i * nT + t] = ci;
+        similarity[i * nT + t] = ci >= 0 ? raw[(k * nT + t) * NR + 2]! : 0;
+      }
+    });
+    apply(features.build(m, rows), m);
+  }
+  return { conf, nearest, similarity, context };
+}
+
+/** Each cell's similarity to its nearest coded passage (the knn raw signal), 0 when none. */
+function nearestSimilarity(raw: Float64Array, nearest: Int32Array): Float64Array {
+  const out = new Float64Array(nearest.length);
+  for (let cell = 0; cell < nearest.length; cell++) out[cell] = nearest[cell]! >= 0 ? raw[cell * NR + 2]! : 0;
+  return out;
 }
 
 /** An uncoded passage's part of the soft counts: its vector, its weight per theme (sparse), and over all themes. */
@@ -550,6 +576,10 @@ function shareOfStored(sp: SoftPassage): Share {
   const themes: number[] = [];
   for (let t = 0; t < bits.length * 8; t++) if (bits[t >> 3]! & (1 << (t & 7))) themes.push(t);
   return { id: sp.id, indices: sp.indices, values: unpackDoubles(sp.values), themes, weights: unpackDoubles(sp.weights), all: sp.all };
+}
+
+function* decodedShares(stored: readonly SoftPassage[]): Generator<Share> {
+  for (const sp of stored) yield shareOfStored(sp);
 }
 
 function packDoubles(a: ArrayLike<number>): string {
@@ -606,7 +636,7 @@ function softShares(conf: Float64Array, x: SparseVector[], ids: string[], codedT
  * The soft counts the shares add up to (the fit and the scoring of a stored state sum them
  * alike): per (term, theme) summed into R (all zeros, term-major as Stats.R), per term returned.
  */
-function softTotals(shares: readonly Share[], nT: number, V: number, R: Float64Array): Soft {
+function softTotals(shares: Iterable<Share>, nT: number, V: number, R: Float64Array): Soft {
   const G = new Float64Array(V);
   let mass = 0;
   for (const sp of shares) {
@@ -636,7 +666,7 @@ function shareOf(sh: Share, nT: number): { theme: Float64Array; all: number } {
  * counts put aside as their non-zero cells (few: the coded passages' terms; given when the
  * caller has them) and added back, so that no second term x theme array is needed.
  */
-function addShares(st: Stats, shares: readonly Share[], own = nonZeros(st.R)): void {
+function addShares(st: Stats, shares: Iterable<Share>, own = nonZeros(st.R)): void {
   const { nT, V, R } = st;
   R.fill(0);
   const soft = softTotals(shares, nT, V, R);
@@ -1007,8 +1037,9 @@ class CellFeatures {
   /**
    * The features of one transcript's passages m (in order), at [(i * nT + theme) * NF] for its
    * i-th passage; valid until the next call.
+   * @param rows each passage's row of `raw` (default: its index in the study, when `raw` holds all)
    */
-  build(m: number[]): Float32Array {
+  build(m: number[], rows: readonly number[] = m): Float32Array {
     const { st, raw, seedScale, children, below, ctx, comb, rank, ranked, trSum } = this;
     const { nT, tree, o } = st;
     const n = m.length;
@@ -1020,7 +1051,7 @@ class CellFeatures {
     const own = this.own;
     const f = this.feats;
     for (let i = 0; i < n; i++) {
-      const p = m[i]!;
+      const p = rows[i]!;
       for (let r = 0; r < 2; r++) {
         let s = 0;
         let s2 = 0;

@@ -94,7 +94,7 @@ export class ThemeSuggester {
   private conf: Float64Array = new Float64Array(0);
   private ctxPart: Float64Array = new Float64Array(0);
   private nearest: Int32Array = new Int32Array(0);
-  private nearestSim = new Float64Array(0);
+  private nearestSim: Float64Array = new Float64Array(0);
   /**
    * Per vocabulary term: whether a reason may cite it. Function words, pronouns, titles, numbers
    * and one-letter lemmas still count in the scores (measured: taking them out of the model lost
@@ -288,20 +288,15 @@ export class ThemeSuggester {
   }
 
   /**
-   * Takes the few-example scorer's confidences, context parts and nearest coded passages (its own
-   * arrays, not copies: nothing else keeps them); the model's one array of its own is made only
-   * now, after the scoring.
+   * Takes the few-example scorer's confidences, context parts, nearest coded passages and their
+   * similarities (its own arrays, not copies: nothing else keeps them).
    */
   private useCells(cells: ScoredCells, few: FewshotState): void {
     this.conf = cells.conf;
     this.ctxPart = cells.context;
     this.nearest = cells.nearest;
-    this.nearestSim = new Float64Array(cells.conf.length);
+    this.nearestSim = cells.similarity;
     this.exemplarIds = few.coded.map((c) => c.id);
-    for (let cell = 0; cell < this.conf.length; cell++) {
-      const ci = cells.nearest[cell]!;
-      this.nearestSim[cell] = ci >= 0 ? cells.raw[cell * 4 + 2]! : 0;
-    }
   }
 
   /** Per theme, the citable terms distinctive of it (excess weight > 0, z > 1.96). */
