@@ -96,7 +96,7 @@ function protocol(all, train, leftOut, claimAt) {
   const t2 = performance.now();
   const thresholds = Object.fromEntries(model.themeReports().map((r) => [r.themeId, r.threshold]));
   const candidates = all.map((p) => ({ id: p.id, transcript: p.transcript, speaker: null, role: 'participant', terms: p.terms, words: p.text.split(/\s+/).length }));
-  const pr = unclaimedPool({ passages: candidates, suggestions: preds, themes: th, codings, thresholds });
+  const pr = unclaimedPool({ passages: candidates, scores: model.scores(test.map((p) => p.id)), themes: th, codings, thresholds });
   const t3 = performance.now();
   const inPool = new Set(pr.pool.map((p) => p.id));
   const excluded = new Map(pr.excluded.map((e) => [e.id, e.reason]));

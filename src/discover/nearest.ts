@@ -10,17 +10,21 @@
  *  - top share: the share of members whose best candidate is that theme;
  *  - novelty: the mean over the members of their chance that no theme applies (pool.ts, noneFits).
  *
- * Pure: suggestions and pool entries in, numbers out.
+ * Pure: the model's scores and pool entries in, numbers out.
  */
+import type { PassageScores, ThemeScores } from '../suggest/types.js';
+
 export interface NearnessInput {
-  /** Each member's candidates (theme and calibrated confidence). */
-  candidates: ReadonlyMap<string, readonly { themeId: string; confidence: number }[]>;
+  /** The members' scores (calibrated confidence of every theme), by passage id. */
+  scores: ReadonlyMap<string, PassageScores>;
+  /** The theme ids and the scored themes the confidences refer to. */
+  themes: Pick<ThemeScores, 'themeIds' | 'scored'>;
   /** Each member's chance that no theme applies. */
   noneFits: ReadonlyMap<string, number>;
 }
 
 export interface ClusterNearness {
-  /** The nearest existing theme, or null when no member has a candidate. */
+  /** The nearest existing theme, or null when no member has a scored theme. */
   themeId: string | null;
   closeness: number;
   topShare: number;
@@ -28,30 +32,39 @@ export interface ClusterNearness {
 }
 
 export function clusterNearness(members: readonly string[], input: NearnessInput): ClusterNearness {
-  const sum = new Map<string, number>();
-  const top = new Map<string, number>();
+  const { themeIds, scored } = input.themes;
+  const sum = new Float64Array(themeIds.length);
+  const top = new Float64Array(themeIds.length);
+  // Themes are weighed in the first scored member's ranking (best first, ties by theme), so
+  // near-equal sums (within 1e-12) are settled as they always were.
+  let order: number[] | null = null;
   let novelty = 0;
   for (const id of members) {
-    const cands = input.candidates.get(id) ?? [];
-    let best: { themeId: string; confidence: number } | null = null;
-    for (const c of cands) {
-      sum.set(c.themeId, (sum.get(c.themeId) ?? 0) + c.confidence);
-      if (!best || c.confidence > best.confidence || (c.confidence === best.confidence && c.themeId < best.themeId)) best = c;
+    const s = input.scores.get(id);
+    if (s) {
+      const conf = s.confidence;
+      order ??= scored.slice().sort((a, b) => conf[b]! - conf[a]! || a - b);
+      let best = -1;
+      for (const t of scored) {
+        sum[t] += conf[t]!;
+        if (best < 0 || conf[t]! > conf[best]! || (conf[t] === conf[best] && themeIds[t]! < themeIds[best]!)) best = t;
+      }
+      if (best >= 0) top[best]++;
     }
-    if (best) top.set(best.themeId, (top.get(best.themeId) ?? 0) + 1);
     novelty += input.noneFits.get(id) ?? 1;
   }
   const n = Math.max(members.length, 1);
-  let themeId: string | null = null;
+  let themeId = -1;
   let closeness = 0;
-  for (const [t, s] of sum) {
-    const better = themeId === null || s > closeness * n + 1e-12 || (Math.abs(s - closeness * n) <= 1e-12 && ((top.get(t) ?? 0) > (top.get(themeId) ?? 0) || ((top.get(t) ?? 0) === (top.get(themeId) ?? 0) && t < themeId)));
+  for (const t of order ?? []) {
+    const s = sum[t]!;
+    const better = themeId < 0 || s > closeness * n + 1e-12 || (Math.abs(s - closeness * n) <= 1e-12 && (top[t]! > top[themeId]! || (top[t] === top[themeId] && themeIds[t]! < themeIds[themeId]!)));
     if (better) {
       themeId = t;
       closeness = s / n;
     }
   }
-  return { themeId, closeness, topShare: themeId === null ? 0 : (top.get(themeId) ?? 0) / n, novelty: members.length ? novelty / members.length : 0 };
+  return { themeId: themeId < 0 ? null : themeIds[themeId]!, closeness, topShare: themeId < 0 ? 0 : top[themeId]! / n, novelty: members.length ? novelty / members.length : 0 };
 }
 
 /** Most novel first; ties by size (larger first), then by the given order. */

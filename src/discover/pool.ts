@@ -19,7 +19,7 @@
  * coders applied directly), and the parents that cleared their thresholds only through their
  * sub-themes' evidence: the passage may be a new sub-theme, which is what discovery is for.
  */
-import type { Coding, PassageSuggestions } from '../suggest/types.js';
+import type { Coding, ThemeScores } from '../suggest/types.js';
 import type { NearestTheme, PoolCandidate, PoolEntry, PoolExclusion, PoolResult } from './types.js';
 
 /**
@@ -60,8 +60,8 @@ export function noneFits(confidences: readonly number[]): number {
 export interface PoolInput {
   /** The passages to sort (usually every passage of the study). */
   passages: readonly PoolCandidate[];
-  /** The model's suggestions for (some of) them; a passage with none is 'not-scored'. */
-  suggestions: readonly PassageSuggestions[];
+  /** The model's scores of (some of) them; a passage without is 'not-scored'. */
+  scores: ThemeScores;
   /** The template: theme ids with their parents (leaves are themes no other theme names). */
   themes: readonly { id: string; parentId: string | null }[];
   /** Human codings, accepted suggestions included: a coded passage is claimed by its coder. */
@@ -108,8 +108,11 @@ export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolRes
   const claiming = claimingThemes(input.themes, input.codings);
   const coded = new Set(input.codings.map((c) => c.passageId));
   const judged = new Set(input.nothingToCode ?? []);
-  const rejected = new Set((input.rejected ?? []).map((c) => `${c.passageId}\u0000${c.themeId}`));
-  const byId = new Map(input.suggestions.map((s) => [s.passageId, s]));
+  const rejected = new Map<string, Set<string>>();
+  for (const c of input.rejected ?? []) (rejected.get(c.passageId) ?? rejected.set(c.passageId, new Set()).get(c.passageId)!).add(c.themeId);
+  const { themeIds, scored, thresholds } = input.scores;
+  const claims = themeIds.map((id) => claiming.has(id));
+  const byId = new Map(input.scores.passages.map((s) => [s.passageId, s]));
   const pool: PoolEntry[] = [];
   const excluded: PoolResult['excluded'] = [];
   const counts: PoolResult['counts'] = { interviewer: 0, short: 0, 'small-talk': 0, coded: 0, 'nothing-to-code': 0, claimed: 0, 'not-scored': 0, unclaimed: 0 };
@@ -136,18 +139,30 @@ export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolRes
       out(p.id, 'not-scored');
       continue;
     }
-    const live = s.candidates.filter((c) => !rejected.has(`${p.id}\u0000${c.themeId}`));
+    const conf = s.confidence;
+    const gone = rejected.get(p.id);
     // Every theme counts, parents too: a rejected sub-theme must not hide a parent that fits.
-    const none = noneFits(live.map((c) => c.confidence));
+    let best = 0;
+    // The nearest is the best theme at a coded level (ties: the first theme, as candidates rank).
+    let near = -1;
+    const cleared: number[] = [];
+    for (const t of scored) {
+      if (gone?.has(themeIds[t]!)) continue;
+      const c = conf[t]!;
+      best = Math.max(best, c);
+      if (claims[t]) {
+        if (near < 0 || c > conf[near]!) near = t;
+      } else if (c >= thresholds[t]!) cleared.push(t);
+    }
+    const none = 1 - best;
     if (none < (opts.noneFitsAt ?? NONE_FITS_AT)) {
       out(p.id, 'claimed');
       continue;
     }
-    // Candidates are ranked best first; the nearest is the best one at a coded level.
-    const near = live.find((c) => claiming.has(c.themeId));
-    const threshold = near ? input.thresholds?.[near.themeId] : undefined;
-    const nearest: NearestTheme | null = near ? { themeId: near.themeId, confidence: near.confidence, ...(threshold === undefined ? {} : { threshold }) } : null;
-    const clearedParents = live.filter((c) => c.aboveThreshold && !claiming.has(c.themeId)).map((c) => c.themeId);
+    const nearId = near < 0 ? null : themeIds[near]!;
+    const threshold = nearId === null ? undefined : input.thresholds?.[nearId];
+    const nearest: NearestTheme | null = nearId === null ? null : { themeId: nearId, confidence: conf[near]!, ...(threshold === undefined ? {} : { threshold }) };
+    const clearedParents = cleared.sort((a, b) => conf[b]! - conf[a]! || a - b).map((t) => themeIds[t]!);
     // Small talk and clitics would only add noise to the clusters' vectors and terms.
     pool.push({ id: p.id, transcript: p.transcript, speaker: p.speaker, terms: topicTerms(p.terms), words: p.words ?? p.terms.length, nearest, clearedParents, noneFits: none });
     counts.unclaimed++;

@@ -9,7 +9,7 @@
  * the interviewer's questions neither dilute nor inflate it. Ties: more unclaimed words first,
  * then natural name order.
  */
-import type { PassageSuggestions } from '../suggest/types.js';
+import type { ThemeScores } from '../suggest/types.js';
 import { naturalCompare } from './order.js';
 import { isSubstantive, type PoolOptions } from './pool.js';
 import type { PoolCandidate } from './types.js';
@@ -19,7 +19,8 @@ export interface TriageInput {
   passages: readonly PoolCandidate[];
   /** Passages coded, or judged nothing to code: not part of any transcript's uncoded part. */
   done: Iterable<string>;
-  suggestions: readonly PassageSuggestions[];
+  /** The model's scores of the uncoded passages (their chosen themes). */
+  scores: ThemeScores;
   /** The unclaimed pool (ids of PoolResult.pool). */
   unclaimed: Iterable<string>;
   /** The open clusters (shown, not dismissed, not yet promoted). */
@@ -48,7 +49,8 @@ export function triage(input: TriageInput, opts: PoolOptions & { top?: number } 
   const top = opts.top ?? 3;
   const done = new Set(input.done);
   const unclaimed = new Set(input.unclaimed);
-  const sugg = new Map(input.suggestions.map((s) => [s.passageId, s]));
+  const { themeIds } = input.scores;
+  const sugg = new Map(input.scores.passages.map((s) => [s.passageId, s]));
   const clusterOf = new Map<string, string>();
   const sizes = new Map<string, number>();
   for (const c of input.clusters) {
@@ -73,7 +75,7 @@ export function triage(input: TriageInput, opts: PoolOptions & { top?: number } 
         if (isSubstantive(p, opts)) dp++;
         continue;
       }
-      for (const c of sugg.get(p.id)?.candidates ?? []) if (c.chosen) themes.set(c.themeId, (themes.get(c.themeId) ?? 0) + 1);
+      for (const t of sugg.get(p.id)?.chosen ?? []) themes.set(themeIds[t]!, (themes.get(themeIds[t]!) ?? 0) + 1);
       if (!isSubstantive(p, opts)) continue;
       sw += words;
       sp++;

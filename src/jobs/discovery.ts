@@ -7,7 +7,7 @@ import { addTheme } from '../template/ops.js';
 import { findByPath } from '../template/paths.js';
 import { byNovelty, clusterNearness } from '../discover/nearest.js';
 import { clusterKey, clusterLabel } from '../discover/key.js';
-import type { PassageSuggestions } from '../suggest/types.js';
+import type { ThemeScores } from '../suggest/types.js';
 import { dismissals, latestClusters, openCluster, passageFacts, storeDiscoveryRun, storePromotion, type ClusterDetail, type NewCluster, type StoredCluster } from '../study/clusters.js';
 import type { DB } from '../study/db.js';
 import { nothingToCode } from '../study/decisions.js';
@@ -28,7 +28,7 @@ export interface DiscoveryRun {
 
 interface Scored {
   passages: PoolCandidate[];
-  suggestions: PassageSuggestions[];
+  scores: ThemeScores;
   pool: PoolResult;
   fingerprint: string;
   codedPassages: Set<string>;
@@ -48,14 +48,16 @@ function scoreStudy(db: DB, poolOpts: PoolOptions = {}, progress?: DiscoveryProg
     const row = stored.get(p.id);
     return { id: p.id, transcript: p.transcript, speaker: row?.speaker ?? null, role: p.role, terms: p.terms, words: row?.words };
   });
-  const suggestions = model.predict(inputs.uncoded, { reasons: 0, progress: progress && ((d) => progress('score', d)) });
+  // Compact scores, not predict()'s candidates: one object per passage and theme is 7 million
+  // objects (1.5 GB) at 20,000 passages and 367 themes.
+  const scores = model.scores(inputs.uncoded, { progress: progress && ((d) => progress('score', d)) });
   const thresholds = Object.fromEntries(model.themeReports().map((r) => [r.themeId, r.threshold]));
   const pool = unclaimedPool(
-    { passages, suggestions, themes: inputs.themes.map((t) => ({ id: t.id, parentId: t.parentId })), codings: inputs.codings, rejected: negatives, nothingToCode: nothingToCode(db), thresholds },
+    { passages, scores, themes: inputs.themes.map((t) => ({ id: t.id, parentId: t.parentId })), codings: inputs.codings, rejected: negatives, nothingToCode: nothingToCode(db), thresholds },
     poolOpts,
   );
   const codedPassages = new Set(inputs.codings.map((c) => c.passageId));
-  return { passages, suggestions, pool, fingerprint: model.fingerprint, codedPassages, background: inputs.passages.map((p) => p.terms), keep };
+  return { passages, scores, pool, fingerprint: model.fingerprint, codedPassages, background: inputs.passages.map((p) => p.terms), keep };
 }
 
 /**
@@ -75,7 +77,8 @@ export function runDiscovery(db: DB, opts: DiscoverOptions = {}, progress?: Disc
     const keys = new Set<string>();
     const paths = themePaths(db);
     const near = {
-      candidates: new Map(scored.suggestions.map((s) => [s.passageId, s.candidates])),
+      scores: new Map(scored.scores.passages.map((s) => [s.passageId, s])),
+      themes: scored.scores,
       noneFits: new Map(scored.pool.pool.map((p) => [p.id, p.noneFits])),
     };
     const made = byNovelty(result.clusters.map((c) => ({ c, ...clusterNearness(c.passageIds, near), size: c.size }))).map(({ c, themeId, closeness, topShare, novelty }): NewCluster => {
@@ -177,7 +180,7 @@ export function triageStudy(db: DB, transcripts?: string[], progress?: Discovery
   let rows = triage({
     passages: scored.passages,
     done,
-    suggestions: scored.suggestions,
+    scores: scored.scores,
     unclaimed: scored.pool.pool.map((p) => p.id),
     clusters: clusters.map((c) => ({ id: c.cluster_id, passageIds: c.passage_ids })),
   });

@@ -25,12 +25,14 @@ import type {
   Candidate,
   Coding,
   ModelPassage,
+  PassageScores,
   PassageSuggestions,
   Reason,
   SuggesterOptions,
   TermWeight,
   ThemeInfo,
   ThemeReport,
+  ThemeScores,
 } from './types.js';
 
 export type ResolvedOptions = Required<Omit<SuggesterOptions, 'fewshot'>> & { fewshot: FewshotOptions };
@@ -416,6 +418,32 @@ export class ThemeSuggester {
       const out = { passageId: id, transcript: this.passages[p]!.transcript, candidates, unclaimed: chosen.size === 0 };
       return shape ? shape(out) : out;
     });
+  }
+
+  /**
+   * The given passages' confidences and chosen themes (default: every passage given to fit), in
+   * input order: predict()'s numbers without its candidate objects or reasons, for readers that
+   * go through every theme of every passage. Each passage's confidences are a view of the
+   * model's own array (no copy), one row of it; do not write to them.
+   */
+  scores(passageIds?: string[], opts: { progress?: Progress } = {}): ThemeScores {
+    const progress = opts.progress ?? (() => {});
+    const st = this.state;
+    const nT = st.themes.length;
+    const ids = passageIds ?? this.passages.map((p) => p.id);
+    const scored: number[] = [];
+    for (let t = 0; t < nT; t++) if (st.themes[t]!.scored) scored.push(t);
+    const passages = ids.map((id, i): PassageScores => {
+      if (i % 500 === 0) progress(i / ids.length);
+      const p = this.pIndex.get(id);
+      if (p === undefined) throw new UserError(`passage ${id} is not in the study the model was fitted on`);
+      const confidence = this.conf.subarray(p * nT, (p + 1) * nT);
+      const above = scored.filter((t) => confidence[t]! >= st.thresholds[t]!);
+      // Best first and ties by theme, as predict() ranks its candidates.
+      const chosen = [...chooseThemes(this.tree, above)].sort((a, b) => confidence[b]! - confidence[a]! || a - b);
+      return { passageId: id, transcript: this.passages[p]!.transcript, confidence, chosen };
+    });
+    return { themeIds: st.themes.map((t) => t.id), scored, thresholds: st.thresholds, passages };
   }
 
   private reasons(p: number, t: number, seeds: string[], have: Set<string> | null, chosen = false): Reason[] {

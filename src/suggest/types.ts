@@ -119,3 +119,27 @@ export interface PassageSuggestions {
   candidates: Candidate[];
   unclaimed: boolean;
 }
+
+/**
+ * Every passage's confidences with no object per (passage, theme): what bulk readers (the
+ * unclaimed pool, cluster nearness, triage) take instead of PassageSuggestions, whose candidates
+ * come to millions of objects in a large study. The same numbers and choices as predict()'s.
+ */
+export interface ThemeScores {
+  /** Theme ids in the model's order: a theme is its index here. */
+  themeIds: readonly string[];
+  /** The themes the model scores (the ones predict() gives a candidate), in index order. */
+  scored: readonly number[];
+  /** Each theme's threshold: a confidence at or above it is above threshold. */
+  thresholds: readonly number[];
+  passages: PassageScores[];
+}
+
+export interface PassageScores {
+  passageId: string;
+  transcript: string;
+  /** Every theme's calibrated confidence, by theme index; only the scored themes' count. */
+  confidence: Float64Array;
+  /** The chosen themes (hierarchy rule applied), best first as predict() ranks candidates. */
+  chosen: readonly number[];
+}

@@ -2,18 +2,15 @@ import { describe, expect, it } from 'vitest';
 import { NONE_FITS_AT, noneFits, unclaimedPool } from '../../src/discover/pool.js';
 import type { PoolCandidate } from '../../src/discover/types.js';
 import { ThemeSuggester } from '../../src/suggest/suggester.js';
-import type { Candidate, Coding, ModelPassage, PassageSuggestions, ThemeInfo } from '../../src/suggest/types.js';
+import type { Coding, ModelPassage, ThemeInfo } from '../../src/suggest/types.js';
+import { scoreTable } from './scores.js';
 
 // All passages, names and themes here are invented: a hospital-handover study whose template
 // names staffing, handover tools and support, but not the car park on night shifts, which
 // Amira, Joe and Priya talk about in the transcripts still to code.
 
-function cand(themeId: string, confidence: number): Candidate {
-  return { themeId, score: 0, confidence, aboveThreshold: false, chosen: false, reasons: [] };
-}
 const LONG = ['rota', 'short', 'staff', 'shift', 'cover', 'agency', 'nurse', 'ward'];
 const passage = (id: string): PoolCandidate => ({ id, transcript: id.split('#')[0]!, speaker: 'Amira', role: 'participant', terms: LONG, words: 16 });
-const sugg = (id: string, candidates: Candidate[]): PassageSuggestions => ({ passageId: id, transcript: id.split('#')[0]!, candidates, unclaimed: true });
 const THEMES = [
   { id: 'work', parentId: null },
   { id: 'staff', parentId: 'work' },
@@ -29,20 +26,23 @@ describe('the none-fits probability', () => {
 
   it('pools a passage only when the chance that no theme applies reaches the cut; a parent claims too', () => {
     const passages = ['a#1', 'a#2', 'a#3'].map(passage);
-    const suggestions = [
-      sugg('a#1', [cand('staff', 0.05), cand('tools', 0.05)]), // nothing fits: pooled
-      sugg('a#2', [cand('work', 0.9), cand('staff', 0.05), cand('tools', 0.05)]), // the parent claims it
-      sugg('a#3', [cand('tools', 0.6), cand('staff', 0.1)]),
-    ];
-    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings: [] }, { noneFitsAt: 0.5 });
+    const scores = scoreTable(
+      THEMES.map((t) => t.id),
+      [
+        { id: 'a#1', conf: { staff: 0.05, tools: 0.05 } }, // nothing fits: pooled
+        { id: 'a#2', conf: { work: 0.9, staff: 0.05, tools: 0.05 } }, // the parent claims it
+        { id: 'a#3', conf: { tools: 0.6, staff: 0.1 } },
+      ],
+    );
+    const r = unclaimedPool({ passages, scores, themes: THEMES, codings: [] }, { noneFitsAt: 0.5 });
     expect(r.pool.map((p) => p.id)).toEqual(['a#1']);
     expect(r.pool[0]!.noneFits).toBeCloseTo(0.95, 12);
     expect(r.counts.claimed).toBe(2);
     // A rejected theme no longer counts towards "some theme fits".
-    const rej = unclaimedPool({ passages, suggestions, themes: THEMES, codings: [], rejected: [{ passageId: 'a#3', themeId: 'tools' }] }, { noneFitsAt: 0.5 });
+    const rej = unclaimedPool({ passages, scores, themes: THEMES, codings: [], rejected: [{ passageId: 'a#3', themeId: 'tools' }] }, { noneFitsAt: 0.5 });
     expect(rej.pool.map((p) => p.id)).toEqual(['a#1', 'a#3']);
     // A lower cut pools only the passages where even less fits.
-    expect(unclaimedPool({ passages, suggestions, themes: THEMES, codings: [] }, { noneFitsAt: 0.96 }).pool).toHaveLength(0);
+    expect(unclaimedPool({ passages, scores, themes: THEMES, codings: [] }, { noneFitsAt: 0.96 }).pool).toHaveLength(0);
   });
 });
 
@@ -94,10 +94,10 @@ describe('the pool rule on a small invented study where one topic is absent from
     }
     const model = new ThemeSuggester().fit(passages, codings, INFO);
     const uncoded = passages.filter((p) => Number(p.transcript.slice(1)) >= 5);
-    const suggestions = model.predict(uncoded.map((p) => p.id), { reasons: 0 });
+    const scores = model.scores(uncoded.map((p) => p.id));
     const pool = unclaimedPool({
       passages: passages.map((p) => ({ id: p.id, transcript: p.transcript, speaker: 'Joe', role: 'participant', terms: p.terms, words: 20 })),
-      suggestions,
+      scores,
       themes: INFO,
       codings,
     });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { claimingThemes, isSubstantive, substantiveCheck, topicTerms, unclaimedPool } from '../../src/discover/pool.js';
 import type { PoolCandidate } from '../../src/discover/types.js';
-import type { Candidate, PassageSuggestions } from '../../src/suggest/types.js';
+import { scoreTable } from './scores.js';
 
 // All passages and themes here are invented. The template:
 //   Workload > Staffing, Workload > Admin, Support (a root with no sub-theme: a leaf).
@@ -18,14 +18,6 @@ function passage(id: string, terms: string[] = TALK, role: 'participant' | 'inte
   return { id, transcript: id.split('#')[0]!, speaker: role === 'participant' ? 'P' : 'Interviewer', role, terms, words: terms.length * 2 };
 }
 
-function cand(themeId: string, confidence: number, above: boolean, chosen = above): Candidate {
-  return { themeId, score: 0, confidence, aboveThreshold: above, chosen, reasons: [] };
-}
-
-function sugg(id: string, candidates: Candidate[]): PassageSuggestions {
-  const sorted = candidates.slice().sort((a, b) => b.confidence - a.confidence);
-  return { passageId: id, transcript: id.split('#')[0]!, candidates: sorted, unclaimed: !sorted.some((c) => c.chosen) };
-}
 
 describe('substantive passages', () => {
   it('needs a participant, 7 topic lemmas and less than half small talk', () => {
@@ -65,19 +57,21 @@ describe('the unclaimed pool', () => {
     passage('t1#7'), // not scored
     passage('t1#8'), // its only leaf above threshold was rejected
   ];
-  const suggestions = [
-    sugg('t1#2', [cand('staff', 0.9, true)]),
-    sugg('t1#3', [cand('work', 0.95, true, false), cand('staff', 0.8, true), cand('support', 0.1, false)]),
-    sugg('t1#4', [cand('work', 0.45, true), cand('admin', 0.35, false), cand('staff', 0.3, false)]),
-    sugg('t1#5', [cand('work', 0.2, false), cand('support', 0.4, false), cand('admin', 0.1, false)]),
-    sugg('t1#8', [cand('staff', 0.75, true), cand('admin', 0.2, false)]),
-  ];
   const codings = [{ passageId: 't1#2', themeId: 'staff' }];
   const rejected = [{ passageId: 't1#8', themeId: 'staff' }];
   const thresholds = { staff: 0.7, admin: 0.6, support: 0.5, work: 0.4 };
+  const ROWS = [
+    { id: 't1#2', conf: { staff: 0.9 } },
+    { id: 't1#3', conf: { work: 0.95, staff: 0.8, support: 0.1 } },
+    { id: 't1#4', conf: { work: 0.45, admin: 0.35, staff: 0.3 } }, // "work" clears its threshold
+    { id: 't1#5', conf: { work: 0.2, support: 0.4, admin: 0.1 } },
+    { id: 't1#8', conf: { staff: 0.75, admin: 0.2 } },
+  ];
+  const ids = THEMES.map((t) => t.id);
+  const scores = scoreTable(ids, ROWS, thresholds);
 
   it('leaves out passages judged "nothing to code", after the coded ones', () => {
-    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected, thresholds, nothingToCode: ['t1#5', 't1#2'] });
+    const r = unclaimedPool({ passages, scores, themes: THEMES, codings, rejected, thresholds, nothingToCode: ['t1#5', 't1#2'] });
     expect(r.pool.map((p) => p.id)).toEqual(['t1#4', 't1#8']);
     const why = Object.fromEntries(r.excluded.map((e) => [e.id, e.reason]));
     expect([why['t1#5'], why['t1#2']]).toEqual(['nothing-to-code', 'coded']);
@@ -85,7 +79,7 @@ describe('the unclaimed pool', () => {
   });
 
   it('keeps substantive, uncoded, unclaimed participant passages, with the theme that came nearest', () => {
-    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings, rejected, thresholds });
+    const r = unclaimedPool({ passages, scores, themes: THEMES, codings, rejected, thresholds });
     expect(r.pool.map((p) => p.id)).toEqual(['t1#4', 't1#5', 't1#8']);
     const [four, five, eight] = r.pool;
     expect(four!.nearest).toEqual({ themeId: 'admin', confidence: 0.35, threshold: 0.6 });
@@ -108,7 +102,7 @@ describe('the unclaimed pool', () => {
   });
 
   it('counts a parent coded directly as a coded level, and lets it claim when the sub-theme chosen over it is rejected', () => {
-    const r = unclaimedPool({ passages, suggestions, themes: THEMES, codings: [...codings, { passageId: 't9#1', themeId: 'work' }], rejected, thresholds });
+    const r = unclaimedPool({ passages, scores, themes: THEMES, codings: [...codings, { passageId: 't9#1', themeId: 'work' }], rejected, thresholds });
     expect(r.pool.map((p) => p.id)).toEqual(['t1#4', 't1#5', 't1#8']);
     // "work" is now a level coders code at: the nearest theme, not a parent cleared through its sub-themes.
     expect(r.pool[0]!.nearest).toEqual({ themeId: 'work', confidence: 0.45, threshold: 0.4 });
@@ -116,7 +110,7 @@ describe('the unclaimed pool', () => {
     // t1#9: "staff" was chosen (it hid its parent) but rejected; "work", above threshold, claims.
     const more = unclaimedPool({
       passages: [...passages, passage('t1#9')],
-      suggestions: [...suggestions, sugg('t1#9', [cand('work', 0.9, true, false), cand('staff', 0.8, true)])],
+      scores: scoreTable(ids, [...ROWS, { id: 't1#9', conf: { work: 0.9, staff: 0.8 } }], thresholds),
       themes: THEMES,
       codings: [...codings, { passageId: 't9#1', themeId: 'work' }],
       rejected: [...rejected, { passageId: 't1#9', themeId: 'staff' }],

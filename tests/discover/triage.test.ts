@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { triage } from '../../src/discover/triage.js';
 import type { PoolCandidate } from '../../src/discover/types.js';
-import type { PassageSuggestions } from '../../src/suggest/types.js';
+import { scoreTable } from './scores.js';
 
 // Invented: t1 is coded; t2 and t3 are not. Words are given explicitly.
 const TERMS = ['rota', 'short', 'staff', 'shift', 'cover', 'agency', 'nurse', 'ward'];
@@ -23,19 +23,16 @@ const passages = [
   p('t3#2', 200),
   p('t3#3', 100),
 ];
-const s = (id: string, chosen: string[]): PassageSuggestions => ({
-  passageId: id,
-  transcript: id.split('#')[0]!,
-  unclaimed: chosen.length === 0,
-  candidates: chosen.map((themeId) => ({ themeId, score: 0, confidence: 0.9, aboveThreshold: true, chosen: true, reasons: [] })),
-});
-const suggestions = [s('t2#2', ['staff']), s('t2#3', []), s('t3#1', ['staff', 'pay']), s('t3#2', ['pay']), s('t3#3', []), s('t2#1', ['pay'])];
+// Every chosen theme at 0.9: the order of a transcript's themes is by count, then id.
+const s = (id: string, chosen: string[]) => ({ id, conf: Object.fromEntries(chosen.map((t) => [t, 0.9])), chosen });
+const scores = scoreTable(['staff', 'pay'], [s('t2#2', ['staff']), s('t2#3', []), s('t3#1', ['staff', 'pay']), s('t3#2', ['pay']), s('t3#3', []), s('t2#1', ['pay'])]);
+const none = scoreTable(['staff', 'pay'], []);
 
 describe('triage of uncoded transcripts', () => {
   const out = triage({
     passages,
     done: ['t1#1'],
-    suggestions,
+    scores,
     unclaimed: ['t2#3', 't3#3'],
     clusters: [
       { id: 'C1', passageIds: ['t2#3', 't3#3', 'x#1', 'x#2'] },
@@ -67,7 +64,7 @@ describe('triage of uncoded transcripts', () => {
   it('ranks a partly coded transcript by its uncoded part, and leaves out one with nothing left', () => {
     // t3#1 (200 words) is coded and t3#2 judged nothing to code: t3's uncoded part is t3#3
     // alone (100 words, unclaimed), so it ranks first at 100%; t1 has nothing left.
-    const partly = triage({ passages, done: ['t1#1', 't3#1', 't3#2'], suggestions, unclaimed: ['t2#3', 't3#3'], clusters: [] });
+    const partly = triage({ passages, done: ['t1#1', 't3#1', 't3#2'], scores, unclaimed: ['t2#3', 't3#3'], clusters: [] });
     expect(partly.map((t) => [t.transcript, t.unclaimedShare, t.substantiveWords, t.coded_passages, t.partly_coded])).toEqual([
       ['t3', 1, 100, 2, true],
       ['t2', 0.75, 400, 0, false],
@@ -77,7 +74,7 @@ describe('triage of uncoded transcripts', () => {
   });
 
   it('breaks ties by unclaimed words, then name', () => {
-    const tie = triage({ passages: [p('b#1', 10), p('a#1', 10), p('c#1', 20)], done: [], suggestions: [], unclaimed: ['a#1', 'b#1', 'c#1'], clusters: [] });
+    const tie = triage({ passages: [p('b#1', 10), p('a#1', 10), p('c#1', 20)], done: [], scores: none, unclaimed: ['a#1', 'b#1', 'c#1'], clusters: [] });
     expect(tie.map((t) => t.transcript)).toEqual(['c', 'a', 'b']);
   });
 });
