@@ -46,8 +46,8 @@ describe('the storage layer and the use cases above it', () => {
   it('finds the imports it checks (the scan itself works)', () => {
     const suggest = all.find((f) => f.file === 'jobs/suggest.ts');
     expect(suggest?.imports).toContainEqual({ path: 'study/suggestion-rows', typeOnly: false });
-    const store = all.find((f) => f.file === 'study/model-store.ts');
-    expect(store?.imports).toContainEqual({ path: 'suggest/suggester', typeOnly: true });
+    const rows = all.find((f) => f.file === 'study/suggestion-rows.ts');
+    expect(rows?.imports).toContainEqual({ path: 'suggest/types', typeOnly: true });
     // Every static relative import is found, however its names are spread over lines.
     for (const f of all) expect(f.imports.length, f.file).toBeGreaterThanOrEqual((f.text.match(/from\s*'\.{1,2}\//g) ?? []).length);
   });

@@ -42,6 +42,8 @@ export interface SuggestOptions extends SuggesterOptions {
    * state serves (a new fit scores every passage anyway); the run ends the same either way.
    */
   firstUntil?: (passages: SuggestRun['passages']) => boolean;
+  /** The most passages a part of a run scored from a stored state holds (default PART_PASSAGES). */
+  partPassages?: number;
 }
 
 /**
@@ -91,7 +93,7 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
  */
 export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
   // (The progress callback is not a model option: options are stored with the run.)
-  const { progress, firstUntil, ...opts } = options;
+  const { progress, firstUntil, partPassages = PART_PASSAGES, ...opts } = options;
   // The passages to suggest for, read once from the model's inputs.
   let targets: string[] | null = null;
   const targetsOf = (inputs: ModelInputs): string[] => {
@@ -112,7 +114,7 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
     parts = transcriptParts(inputs.passages, targetsOf(inputs));
     return parts.length ? parts[0]!.passages : [];
   };
-  const { model, inputs, rev, negatives, key, keep, scorer } = fitModel(db, opts, progress && ((d) => progress('fit', d)), firstUntil && firstPart);
+  const { model, inputs, rev, negatives, key, keep, scorer } = fitModel(db, opts, progress && ((d) => progress('fit', d)), firstPart);
   // A theme a coder rejected for a passage is not suggested for it again.
   const rejected = new Set(negatives.map((n) => `${n.passageId}\u0000${n.themeId}`));
   const reports = model.themeReports();
@@ -131,47 +133,75 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
     })();
   }
 
-  // In parts: one transcript, then twice as many each time, until firstUntil has enough; each
-  // part stored as it is scored, so the suggestion ids follow the order a whole run gives them.
-  const first: SuggestRun['passages'] = [];
+  // From a stored state, in parts of whole transcripts: one transcript, then twice as many each
+  // time, up to PART_PASSAGES passages, each stored as it is scored (the suggestion ids follow
+  // the order a whole run gives them). A large batch's every passage x theme is then never held
+  // at once (all of them were 250 MB at 20,000 answers), and a reviewer's first screen comes
+  // after the first part, when firstUntil has enough. Without firstUntil every part goes into
+  // one write: the run is stored whole or not at all.
+  const total = parts.reduce((a, p) => a + p.targets.length, 0);
   let runId = 0;
   let done = 0;
-  let next = model;
-  for (let size = 1; done < parts.length; size *= 2) {
-    const part = parts.slice(done, done + size);
-    if (done > 0) next = scorer(part.flatMap((p) => p.passages));
-    const kept = rankAndExplain(db, next, part.flatMap((p) => p.targets), rejected, opts.top) as SuggestRun['passages'];
-    db.transaction(() => {
-      if (done === 0) {
-        runId = storeSuggestionRun(db, meta, kept);
-        keep();
-      } else addToSuggestionRun(db, runId, kept);
-    })();
-    first.push(...kept);
-    done += part.length;
-    if (firstUntil!(first)) break;
-  }
+  let scored = 0;
+  let size = 1;
+  let next: ThemeSuggester | null = model;
+  const step = (report?: SuggestOptions['progress']): SuggestRun['passages'] => {
+    let end = done + 1;
+    let n = parts[done]!.passages.length;
+    while (end < parts.length && end - done < size && n + parts[end]!.passages.length <= partPassages) n += parts[end++]!.passages.length;
+    const part = parts.slice(done, end);
+    const m = next ?? scorer(part.flatMap((p) => p.passages));
+    next = null;
+    const kept = rankAndExplain(db, m, part.flatMap((p) => p.targets), rejected, opts.top) as SuggestRun['passages'];
+    if (done === 0) {
+      runId = storeSuggestionRun(db, meta, kept);
+      keep();
+    } else addToSuggestionRun(db, runId, kept);
+    done = end;
+    size *= 2;
+    scored += kept.length;
+    report?.('score', total ? scored / total : 1);
+    return kept;
+  };
   if (!parts.length) {
-    runId = db.transaction(() => {
+    return db.transaction(() => {
       const id = storeSuggestionRun(db, meta, []);
       keep();
-      return id;
+      return result(id, []);
     })();
+  }
+  if (!firstUntil) {
+    return db.transaction(() => {
+      const all: SuggestRun['passages'] = [];
+      while (done < parts.length) for (const p of step(progress)) all.push(p);
+      progress?.('store', 1);
+      return result(runId, all);
+    })();
+  }
+  const first: SuggestRun['passages'] = [];
+  while (done < parts.length) {
+    for (const p of db.transaction(() => step())()) first.push(p);
+    if (firstUntil(first)) break;
   }
   const run = result(runId, first);
   if (done < parts.length) {
-    let left: TranscriptPart[] | null = parts.slice(done);
+    let called = false;
     run.rest = () => {
-      if (!left) return [];
-      const part = left;
-      left = null;
-      const kept = rankAndExplain(db, scorer(part.flatMap((p) => p.passages)), part.flatMap((p) => p.targets), rejected, opts.top, progress) as SuggestRun['passages'];
-      db.transaction(() => addToSuggestionRun(db, runId, kept, progress && ((d) => progress('store', d))))();
-      return kept;
+      if (called) return [];
+      called = true;
+      return db.transaction(() => {
+        const rest: SuggestRun['passages'] = [];
+        while (done < parts.length) for (const p of step(progress)) rest.push(p);
+        progress?.('store', 1);
+        return rest;
+      })();
     };
   }
   return run;
 }
+
+/** The most passages a part of a run scored from a stored state holds (a transcript longer than this is one part). */
+const PART_PASSAGES = 2000;
 
 /** A transcript's passages (all of them: context reads a passage's neighbours) and the ones to suggest for. */
 interface TranscriptPart {

@@ -52,7 +52,10 @@ export function encodeState(state: unknown): Buffer {
   return out;
 }
 
-/** The state encodeState gave; throws on bytes it did not write. */
+/**
+ * The state encodeState gave; throws on bytes it did not write. Its arrays may be views of the
+ * bytes (do not reuse the bytes for anything else).
+ */
 export function decodeState<T>(bytes: Buffer): T {
   if (endianness() !== 'LE') throw new Error('stored model states need a little-endian machine');
   if (bytes.length < MAGIC.length + 4 || bytes.toString('latin1', 0, MAGIC.length) !== MAGIC) throw new Error('not a stored model state');
@@ -68,7 +71,10 @@ export function decodeState<T>(bytes: Buffer): T {
     const from = base + off;
     const size = n * T.BYTES_PER_ELEMENT;
     if (from + size > bytes.length) throw new Error('a stored model state cut short');
-    // A copy, aligned: the bytes' own buffer may start anywhere.
+    // A view of the bytes where they are aligned for the type (no second copy of a large
+    // state), else a copy.
+    const at = bytes.byteOffset + from;
+    if (at % T.BYTES_PER_ELEMENT === 0) return new T(bytes.buffer as ArrayBuffer, at, n);
     const a = new T(n);
     new Uint8Array(a.buffer).set(bytes.subarray(from, from + size));
     return a;

@@ -58,7 +58,7 @@ function startWarm(): Warm | null {
   const folder = tempFolder('warm-');
   const socket = join(folder, 's');
   const main = pathToFileURL(resolve(import.meta.dirname, '../../dist/cli/main.js')).href;
-  const server = spawn(process.execPath, ['--max-semi-space-size=64', join(import.meta.dirname, 'warm-server.mjs'), socket, main], {
+  const server = spawn(process.execPath, ['--max-semi-space-size=32', join(import.meta.dirname, 'warm-server.mjs'), socket, main], {
     stdio: ['pipe', 'ignore', 'inherit'],
   });
   server.unref();

@@ -25,6 +25,13 @@ describe('stored model state', () => {
     expect(runKey(db, second.runId)).toBe(runKey(db, first.runId));
     expect(second.fingerprint).toBe(first.fingerprint);
     expect(content(second)).toEqual(content(first));
+    // Scored and stored in parts, its ids run in the order a whole run gives them.
+    const ids = (r: SuggestRun) => r.passages.flatMap((p) => p.candidates.map((c) => c.suggestionId - r.passages[0]!.candidates[0]!.suggestionId));
+    expect(ids(second)).toEqual(ids(first));
+    // Parts of at most 3 passages (a transcript longer than that is a part of its own): the same.
+    const small = suggest(db, { top: 5, partPassages: 3 });
+    expect(content(small)).toEqual(content(first));
+    expect(ids(small)).toEqual(ids(first));
     expect(states(db)).toHaveLength(1);
 
     // A decision changes what the model learns from: a new fit, a new state beside the old.

@@ -37,6 +37,17 @@ describe('the state codec', () => {
     expect(back.empty.length).toBe(0);
   });
 
+  it('reads the arrays from bytes that start at any offset', () => {
+    const bytes = encodeState({ w: Float64Array.of(1.5, -2.25), i: Int32Array.of(7) });
+    for (const shift of [0, 1, 3, 8]) {
+      const moved = Buffer.alloc(bytes.length + shift);
+      bytes.copy(moved, shift);
+      const back = decodeState<{ w: Float64Array; i: Int32Array }>(moved.subarray(shift));
+      expect([...back.w]).toEqual([1.5, -2.25]);
+      expect([...back.i]).toEqual([7]);
+    }
+  });
+
   it('keeps the doubles as bytes, not as text', () => {
     const n = 10_000;
     const bytes = encodeState({ w: new Float64Array(n).map((_, i) => Math.sqrt(i)) });
