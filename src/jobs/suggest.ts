@@ -136,7 +136,7 @@ export function suggest(db: DB, options: SuggestOptions = {}): SuggestRun {
   // From a stored state, in parts of whole transcripts: one transcript, then twice as many each
   // time, up to PART_PASSAGES passages, each stored as it is scored (the suggestion ids follow
   // the order a whole run gives them). A large batch's every passage x theme is then never held
-  // at once (all of them were 250 MB at 20,000 answers), and a reviewer's first screen comes
+  // at once (about 220 MB at 20,000 answers), and a reviewer's first screen comes
   // after the first part, when firstUntil has enough. Without firstUntil every part goes into
   // one write: the run is stored whole or not at all.
   const total = parts.reduce((a, p) => a + p.targets.length, 0);
