@@ -44,6 +44,23 @@ describe('stored model state', () => {
     db.close();
   });
 
+  it('stores a run scored in parts from the stored state whole or not at all', () => {
+    const db = openStudy(codedDemoStudy()).db;
+    const first = suggest(db, { top: 5 });
+    const count = (table: string) => (db.prepare(`SELECT COUNT(*) AS n FROM ${table}`).get() as { n: number }).n;
+    const runs = count('suggestion_runs');
+    const rows = count('suggestions');
+    // A write that fails once the later parts are being stored (the first part's rows are in).
+    const last = Math.max(...first.passages.flatMap((p) => p.candidates.map((c) => c.suggestionId)));
+    db.exec(`CREATE TEMP TRIGGER fail_late AFTER INSERT ON suggestions WHEN NEW.id > ${last + 20} BEGIN SELECT RAISE(ABORT, 'disk full'); END`);
+    expect(fitModel(db).reused).toBe(true);
+    expect(() => suggest(db, { top: 5, partPassages: 3 })).toThrow(/disk full/);
+    expect(count('suggestion_runs')).toBe(runs);
+    expect(count('suggestions')).toBe(rows);
+    db.exec('DROP TRIGGER fail_late');
+    db.close();
+  });
+
   it('gives discover and triage the results of a new fit', () => {
     const dir = codedDemoStudy();
     const fresh = openStudy(codedDemoStudy()).db;
