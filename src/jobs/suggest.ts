@@ -69,7 +69,7 @@ export function fitModel(db: DB, opts: SuggesterOptions = {}, progress?: (done: 
     try {
       const state = decodeState<SuggesterState>(stored.bytes);
       const fp = stored.fingerprint; // (the closure keeps the state, not the bytes it came from)
-      const from = (passages: ModelPassage[]) => ThemeSuggester.fromState(state, inputs.themes, passages, fp);
+      const from = (passages: ModelPassage[]) => ThemeSuggester.fromState(state, inputs.themes, passages, fp, { again: only !== undefined });
       model = from(only ? only(inputs) : inputs.passages);
       if (only) scorer = from;
     } catch {

@@ -492,14 +492,14 @@ export function fitFewshot(
 /**
  * What scoring from a state needs whatever the passages: the counts with the soft shares added
  * (a term x theme array, 95 MB at 20,000 answers), the coded passages and folds. Kept with the
- * state object, so that a study scored in parts prepares it once; scoring leaves it as it was
- * (each leave-out is put back exactly).
+ * state object when the caller will score more passages with it (a study scored in parts
+ * prepares it once); scoring leaves it as it was (each leave-out is put back exactly).
  */
-function preparedScorer(state: FewshotState, themes: ThemeInfo[]): Prepared {
+function preparedScorer(state: FewshotState, themes: ThemeInfo[], keep: boolean): Prepared {
   const known = prepared.get(state);
   if (known && known.themes === themes) return known;
   const made = prepare(state, themes);
-  prepared.set(state, made);
+  if (keep) prepared.set(state, made);
   return made;
 }
 
@@ -536,9 +536,10 @@ function prepare(state: FewshotState, themes: ThemeInfo[]) {
  * its own, when only one transcript is coded), an uncoded passage of the fit without its own
  * soft share. Passages are given in transcript order, whole transcripts, so that context can
  * look at their neighbours.
+ * @param again more passages will be scored with this state: keep what scoring it prepares
  */
-export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages: ModelPassage[]): ScoredCells {
-  const { vec, nT, byPassage, foldOf, coded, codedOf, codedId, rejected, st, soft, ownShare } = preparedScorer(state, themes);
+export function scoreFewshot(state: FewshotState, themes: ThemeInfo[], passages: ModelPassage[], again = false): ScoredCells {
+  const { vec, nT, byPassage, foldOf, coded, codedOf, codedId, rejected, st, soft, ownShare } = preparedScorer(state, themes, again);
   st.words = passages.map((p) => p.words ?? p.terms.length);
   st.interviewer = passages.map((p) => (p.role === 'interviewer' ? 1 : 0));
   const members: number[][] = [];

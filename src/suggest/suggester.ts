@@ -300,8 +300,10 @@ export class ThemeSuggester {
    * which need not be the ones it was fitted on, exactly as the fit scored those it saw.
    * @param passages whole transcripts, in transcript order (context reads a passage's neighbours)
    * @param fp the fingerprint the fit gave (a state does not hold its own)
+   * @param opts.again more models will be made from this state object: what scoring it prepares
+   *   (the counts with the soft shares) is kept with it, not made again each time
    */
-  static fromState(state: SuggesterState, themes: ThemeInfo[], passages: ModelPassage[], fp: string): ThemeSuggester {
+  static fromState(state: SuggesterState, themes: ThemeInfo[], passages: ModelPassage[], fp: string, opts: { again?: boolean } = {}): ThemeSuggester {
     if (state.version !== STATE_VERSION) throw new Error('this stored model is of another version: fit again');
     if (themes.length !== state.themes.length || themes.some((th, t) => th.id !== state.themes[t]!.id)) throw new Error('the stored model was fitted on other themes: fit again');
     const m = new ThemeSuggester(state.options);
@@ -315,7 +317,7 @@ export class ThemeSuggester {
     m.termLists = state.options.bigrams ? passages.map((p) => withBigrams(p.terms, true)) : passages.map((p) => p.terms);
     m.counts = m.termLists.map((l) => m.vec.vectorAndCounts(l).counts);
     m.evidence = state.evidence.map((e) => new Map(e.indices.map((i, k) => [i, e.weights[k]!])));
-    m.useCells(scoreFewshot(state.fewshot, themes, passages), state.fewshot);
+    m.useCells(scoreFewshot(state.fewshot, themes, passages, opts.again), state.fewshot);
     return m;
   }
 
