@@ -113,6 +113,8 @@ export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolRes
   const { themeIds, scored, thresholds } = input.scores;
   const claims = themeIds.map((id) => claiming.has(id));
   const byId = new Map(input.scores.passages.map((s) => [s.passageId, s]));
+  /** A passage's confidences of the themes not rejected for it (one list, reused). */
+  const live: number[] = [];
   const pool: PoolEntry[] = [];
   const excluded: PoolResult['excluded'] = [];
   const counts: PoolResult['counts'] = { interviewer: 0, short: 0, 'small-talk': 0, coded: 0, 'nothing-to-code': 0, claimed: 0, 'not-scored': 0, unclaimed: 0 };
@@ -142,19 +144,19 @@ export function unclaimedPool(input: PoolInput, opts: PoolOptions = {}): PoolRes
     const conf = s.confidence;
     const gone = rejected.get(p.id);
     // Every theme counts, parents too: a rejected sub-theme must not hide a parent that fits.
-    let best = 0;
     // The nearest is the best theme at a coded level (ties: the first theme, as candidates rank).
     let near = -1;
     const cleared: number[] = [];
+    live.length = 0;
     for (const t of scored) {
       if (gone?.has(themeIds[t]!)) continue;
       const c = conf[t]!;
-      best = Math.max(best, c);
+      live.push(c);
       if (claims[t]) {
         if (near < 0 || c > conf[near]!) near = t;
       } else if (c >= thresholds[t]!) cleared.push(t);
     }
-    const none = 1 - best;
+    const none = noneFits(live);
     if (none < (opts.noneFitsAt ?? NONE_FITS_AT)) {
       out(p.id, 'claimed');
       continue;

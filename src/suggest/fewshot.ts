@@ -210,8 +210,10 @@ interface Stats {
   post: { c: number[]; w: number[] }[];
   codedThemes: number[][];
   codedTranscript: number[];
-  seeds: SparseVector[];
-  /** The seed vectors by term: per term, the themes whose seed vector holds it, with its weight. */
+  /**
+   * The seed vectors (each theme's name, definition and seed terms) by term: per term, the
+   * themes whose seed vector holds it, with its weight.
+   */
   seedPost: ({ t: number[]; w: number[] } | undefined)[];
   unit: number;
   o: FewshotResolved;
@@ -869,7 +871,6 @@ function buildStats(
     rejected,
     codedThemes: coded.map((c) => c.themes),
     codedTranscript: coded.map((c) => c.transcript),
-    seeds,
     seedPost: seedPostings(seeds, V),
     words: [],
     interviewer: [],
