@@ -24,9 +24,9 @@ export function touchState(db: DB, key: string): void {
 }
 
 /**
- * Stores a fitted state (its bytes) under its inputs' key and drops all but the KEPT_STATES most recently
- * used. Call it inside the command's own write, once the command has succeeded: a command that
- * fails leaves the study as it was.
+ * Stores a fitted state (its bytes) under its inputs' key and drops all but the KEPT_STATES most
+ * recently used. Call it inside the command's own write, once the command has succeeded: a
+ * command that fails leaves the study as it was.
  */
 export function saveState(db: DB, key: string, bytes: Buffer, fp: string): void {
   if (db.readonly) return;

@@ -179,6 +179,7 @@ export class ThemeSuggester {
     // The profiles serve the fit only (reports, evidence, the fingerprint): what the fit needs of
     // them is taken before the few-example scorer runs, so their arrays are gone by then.
     const prof = this.profileFacts(corpus, tree);
+    this.evidence = prof.evidence;
     this.counts = c;
     this.exemplarIds = passages.map((p) => p.id);
 
@@ -266,7 +267,7 @@ export class ThemeSuggester {
   }
 
   /**
-   * What the fit takes from the theme profiles: the evidence terms (kept by the model), each
+   * What the fit takes from the theme profiles: the evidence terms (for the model), each
    * theme's counts and top terms, the pairs of themes that overlap strongly, and a digest of the
    * profiles for the fingerprint.
    */
@@ -274,7 +275,6 @@ export class ThemeSuggester {
     const o = this.options;
     const nT = corpus.themes;
     const prof = new Profiles(corpus, o.priorStrength, o.rocchio);
-    this.evidence = this.evidenceOf(prof, nT);
     const profiled = (t: number) => prof.positives[t]! > 0;
     // Overlap between themes that are not ancestor and descendant.
     const overlaps: { a: number; b: number; cos: number }[] = [];
@@ -286,6 +286,7 @@ export class ThemeSuggester {
       }
     }
     return {
+      evidence: this.evidenceOf(prof, nT),
       positives: prof.positives,
       rejected: prof.rejected,
       positiveTranscripts: prof.positiveTranscripts,
@@ -367,7 +368,8 @@ export class ThemeSuggester {
   /**
    * Lets go of the per-cell arrays (confidences, context parts, nearest coded passages): a large
    * batch's are hundreds of MB, and a command that has its predictions still stores them and
-   * prints them. The state, fingerprint and theme reports stay; predict can no longer be called.
+   * prints them. The state, fingerprint and theme reports stay; predict and scores can no longer
+   * be called.
    */
   dropScores(): void {
     this.conf = new Float64Array(0);
@@ -429,6 +431,7 @@ export class ThemeSuggester {
    * model's own array (no copy), one row of it; do not write to them.
    */
   scores(passageIds?: string[], opts: { progress?: Progress } = {}): ThemeScores {
+    if (this.scoresDropped) throw new Error('ThemeSuggester: scores after dropScores()');
     const progress = opts.progress ?? (() => {});
     const st = this.state;
     const nT = st.themes.length;

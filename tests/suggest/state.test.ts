@@ -80,6 +80,7 @@ describe('the suggestion model as data', () => {
     const reports = m.themeReports();
     m.dropScores();
     expect(() => m.predict(toDo)).toThrow(/after dropScores/);
+    expect(() => m.scores(toDo)).toThrow(/after dropScores/);
     expect(m.fingerprint).toBe(fitted.fingerprint);
     expect(m.themeReports()).toEqual(reports);
     // The state still scores: a model rebuilt from it predicts what the fitted one did.
